@@ -1,0 +1,296 @@
+// The checker: every rule against every structure it applies to. Evaluates the rule's quantity at
+// nominal or over the tolerance corners, compares it with the limit, and keeps the derivation.
+// Pure: the same handbook gives the same results, in the same order.
+import type { Param, Rule, Structure, Handbook, Comparison } from '../model/types.ts';
+import { QUANTITIES } from '../engines/index.ts';
+import { buildPlan, runPlan, type Plan } from './plan.ts';
+
+export type Status = 'pass' | 'fail' | 'incomplete' | 'not-applicable';
+
+/** One input as it entered the evaluation. */
+export interface TraceInput {
+  name: string;
+  value: number;
+  unit: string;
+  written: string;
+  low?: number;
+  high?: number;
+  /** At the deciding corner, which end of the tolerance was used. */
+  side?: 'low' | 'high' | 'nominal';
+  origin: Param['origin'];
+}
+
+/** One computed quantity in the derivation. */
+export interface TraceStep {
+  name: string;
+  title: string;
+  unit: string;
+  symbol: string;
+  formula: string;
+  label?: string;
+  source: string;
+  value: number | null;
+  reason?: string;
+  /** Argument name → (symbol, value) actually used. */
+  args: Array<{ arg: string; symbol: string; from: string; value: number }>;
+  /** Validity notes raised for these inputs. */
+  warnings: string[];
+}
+
+export interface Trace {
+  inputs: TraceInput[];
+  steps: TraceStep[];
+}
+
+export interface CornerNote {
+  name: string;
+  side: 'low' | 'high';
+  value: number;
+}
+
+export interface Verdict {
+  rule: string;
+  structure: string;
+  status: Status;
+  severity: Rule['severity'];
+  quantity: string;
+  unit: string;
+  comparison: Comparison;
+  limit: number;
+  /** The deciding value (nominal, or the worst corner); null when it has none. */
+  value: number | null;
+  /** Why the value is null, or why the verdict is not-applicable. */
+  reason?: string;
+  unbounded?: 'above' | 'below';
+  nominal?: number | null;
+  margin: number | null;
+  evaluateAt: Rule['evaluateAt'];
+  corners?: number;
+  worstCorner?: CornerNote[];
+  missing?: string[];
+  trace?: Trace;
+}
+
+export interface Results {
+  verdicts: Verdict[];
+  counts: Record<Status, number>;
+  blockingFailures: number;
+}
+
+export function appliesTo(rule: Rule, s: Structure): boolean {
+  const a = rule.appliesTo;
+  if (a.kinds && !a.kinds.includes(s.kind)) return false;
+  if (a.tags && !a.tags.some((t) => s.tags.includes(t))) return false;
+  if (a.structures && !a.structures.includes(s.id)) return false;
+  return true;
+}
+
+/** Signed relative margin: positive passes. */
+export function margin(value: number, limit: number, comparison: Comparison): number {
+  const scale = Math.abs(limit) || 1;
+  return comparison === 'at_least' ? (value - limit) / scale : (limit - value) / scale;
+}
+
+type ReadyPlan = Extract<Plan, { status: 'ready' }>;
+
+interface Point {
+  inputs: number[];
+  value: number | null;
+  reason?: string;
+  unbounded?: 'above' | 'below';
+  sides: Array<'low' | 'high' | 'nominal'>;
+}
+
+/** The value compared with limits: unbounded values compare as ±∞, undefined ones as NaN. */
+function comparable(p: Point): number {
+  if (p.value !== null) return p.value;
+  if (p.unbounded === 'above') return Infinity;
+  if (p.unbounded === 'below') return -Infinity;
+  return NaN;
+}
+
+const MAX_TOLERANCED_INPUTS = 16;
+
+function evaluatePoint(plan: ReadyPlan, inputs: number[], sides: Point['sides']): Point {
+  const run = runPlan(plan, inputs);
+  const last = plan.steps.length - 1;
+  const value = run.values[last] ?? null;
+  const p: Point = { inputs, value, sides };
+  if (value === null) {
+    p.reason = run.reasons[last];
+    if (run.unbounded[last]) p.unbounded = run.unbounded[last];
+  }
+  return p;
+}
+
+/** Nominal point and, for worst-case, the worst of the 2^n tolerance corners. */
+function evaluatePlan(plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Comparison): { nominal: Point; decisive: Point; corners?: number } {
+  const nominalInputs = plan.params.map((p) => p.value);
+  const nominal = evaluatePoint(plan, nominalInputs, plan.params.map(() => 'nominal'));
+  if (mode === 'nominal') return { nominal, decisive: nominal };
+  const tol = plan.params.map((p, i) => (p.low !== undefined && p.high !== undefined ? i : -1)).filter((i) => i >= 0);
+  if (tol.length === 0) return { nominal, decisive: nominal, corners: 1 };
+  if (tol.length > MAX_TOLERANCED_INPUTS) throw new Error(`${plan.quantity} reads ${tol.length} toleranced inputs; corners are limited to ${MAX_TOLERANCED_INPUTS}`);
+  let worst: Point | null = null;
+  const count = 1 << tol.length;
+  for (let mask = 0; mask < count; mask++) {
+    const inputs = nominalInputs.slice();
+    const sides: Point['sides'] = plan.params.map(() => 'nominal');
+    tol.forEach((pi, bit) => {
+      const high = (mask >> bit) & 1;
+      const p = plan.params[pi]!;
+      inputs[pi] = high ? p.high! : p.low!;
+      sides[pi] = high ? 'high' : 'low';
+    });
+    const pt = evaluatePoint(plan, inputs, sides);
+    const v = comparable(pt);
+    if (worst === null) worst = pt;
+    else {
+      const w = comparable(worst);
+      // An undefined value is the worst there is; otherwise lowest for at_least, highest for at_most.
+      const worse = Number.isNaN(v) ? !Number.isNaN(w) : !Number.isNaN(w) && (comparison === 'at_least' ? v < w : v > w);
+      if (worse) worst = pt;
+    }
+  }
+  return { nominal, decisive: worst!, corners: count };
+}
+
+function traceOf(plan: ReadyPlan, point: Point): Trace {
+  const run = runPlan(plan, point.inputs);
+  const inputs: TraceInput[] = plan.params.map((p, i) => ({
+    name: p.name,
+    value: point.inputs[i]!,
+    unit: p.unit,
+    written: p.written,
+    ...(p.low !== undefined ? { low: p.low, high: p.high } : {}),
+    side: point.sides[i],
+    origin: p.origin,
+  }));
+  const steps: TraceStep[] = plan.steps.map((s, i) => {
+    const args = s.args.map(([arg, src]) => {
+      const from = 'param' in src ? plan.params[src.param]!.name : plan.steps[src.step]!.def.name;
+      const value = 'param' in src ? point.inputs[src.param]! : (run.values[src.step] ?? NaN);
+      return { arg, symbol: s.variant.symbols?.[arg] ?? arg, from, value };
+    });
+    const warnings: string[] = [];
+    for (const check of s.def.validity ?? []) {
+      const a = args.find((x) => x.arg === check.arg);
+      if (!a) continue;
+      if ((check.min !== undefined && a.value < check.min) || (check.max !== undefined && a.value > check.max)) warnings.push(check.why);
+    }
+    const value = run.values[i] ?? null;
+    return {
+      name: s.def.name,
+      title: s.def.title,
+      unit: s.def.unit,
+      symbol: s.def.symbol,
+      formula: s.variant.formula,
+      ...(s.variant.label ? { label: s.variant.label } : {}),
+      source: s.def.source,
+      value,
+      ...(value === null && run.reasons[i] ? { reason: run.reasons[i] } : {}),
+      args,
+      warnings,
+    };
+  });
+  return { inputs, steps };
+}
+
+/** Plans are per structure and quantity; rules sharing a quantity share a plan. */
+export class PlanCache {
+  private readonly cache = new Map<Structure, Map<string, Plan>>();
+  get(s: Structure, quantity: string): Plan {
+    let byQ = this.cache.get(s);
+    if (!byQ) this.cache.set(s, (byQ = new Map()));
+    let plan = byQ.get(quantity);
+    if (!plan) byQ.set(quantity, (plan = buildPlan(s, quantity)));
+    return plan;
+  }
+}
+
+export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdict {
+  const base = {
+    rule: rule.id,
+    structure: s.id,
+    severity: rule.severity,
+    quantity: rule.quantity,
+    unit: QUANTITIES.get(rule.quantity)?.unit ?? '1',
+    comparison: rule.comparison,
+    limit: rule.limit,
+    evaluateAt: rule.evaluateAt,
+    value: null,
+    margin: null,
+  } as const;
+  if (!appliesTo(rule, s)) return { ...base, status: 'not-applicable', reason: 'outside the scope the rule applies to' };
+  const plan = plans.get(s, rule.quantity);
+  if (plan.status === 'not-applicable') return { ...base, status: 'not-applicable', reason: plan.reason };
+  if (plan.status === 'incomplete') return { ...base, status: 'incomplete', missing: plan.missing, reason: `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}` };
+
+  const { nominal, decisive, corners } = evaluatePlan(plan, rule.evaluateAt, rule.comparison);
+  const v = comparable(decisive);
+  const pass = Number.isNaN(v) ? false : rule.comparison === 'at_least' ? v >= rule.limit : v <= rule.limit;
+  const worstCorner =
+    rule.evaluateAt === 'worst-case'
+      ? plan.params.flatMap((p, i) => {
+          const side = decisive.sides[i];
+          return side === 'low' || side === 'high' ? [{ name: p.name, side, value: decisive.inputs[i]! }] : [];
+        })
+      : undefined;
+  return {
+    ...base,
+    status: pass ? 'pass' : 'fail',
+    value: decisive.value,
+    ...(decisive.value === null ? { reason: decisive.reason ?? 'no value' } : {}),
+    ...(decisive.unbounded ? { unbounded: decisive.unbounded } : {}),
+    ...(rule.evaluateAt === 'worst-case' ? { nominal: nominal.value } : {}),
+    margin: decisive.value === null ? null : margin(decisive.value, rule.limit, rule.comparison),
+    ...(corners !== undefined ? { corners } : {}),
+    ...(worstCorner ? { worstCorner } : {}),
+    trace: traceOf(plan, decisive),
+  };
+}
+
+const STATUS_ORDER: Status[] = ['fail', 'incomplete', 'pass', 'not-applicable'];
+
+export function evaluateHandbook(h: Handbook): Results {
+  const plans = new PlanCache();
+  const verdicts: Verdict[] = [];
+  for (const rule of h.rules) for (const s of h.structures) verdicts.push(evaluateRule(rule, s, plans));
+  const counts = Object.fromEntries(STATUS_ORDER.map((k) => [k, 0])) as Record<Status, number>;
+  let blockingFailures = 0;
+  for (const v of verdicts) {
+    counts[v.status]++;
+    if (v.status === 'fail' && v.severity === 'blocking') blockingFailures++;
+  }
+  return { verdicts, counts, blockingFailures };
+}
+
+export interface StructureQuantity {
+  value: number | null;
+  unit: string;
+  reason?: string;
+  unbounded?: 'above' | 'below';
+}
+
+/** Every quantity the engines can compute for a structure, at nominal; and what blocks the others. */
+export function evaluateStructure(s: Structure, plans: PlanCache = new PlanCache()): {
+  quantities: Record<string, StructureQuantity>;
+  incomplete: Record<string, string[]>;
+} {
+  const quantities: Record<string, StructureQuantity> = {};
+  const incomplete: Record<string, string[]> = {};
+  for (const name of [...QUANTITIES.keys()].sort()) {
+    const plan = plans.get(s, name);
+    if (plan.status === 'incomplete') incomplete[name] = plan.missing;
+    if (plan.status !== 'ready') continue;
+    const run = runPlan(plan, plan.params.map((p) => p.value));
+    const last = plan.steps.length - 1;
+    const value = run.values[last] ?? null;
+    const unit = QUANTITIES.get(name)!.unit;
+    quantities[name] =
+      value === null
+        ? { value: null, unit, reason: run.reasons[last] ?? 'no value', ...(run.unbounded[last] ? { unbounded: run.unbounded[last] } : {}) }
+        : { value, unit };
+  }
+  return { quantities, incomplete };
+}

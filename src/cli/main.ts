@@ -1,0 +1,145 @@
+// The `plumbline` command: a thin shell over the pipeline. Each command renders records the core
+// returns as text or JSON; exit codes come from exitCodeFor().
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import process from 'node:process';
+import { Command, Option } from 'commander';
+import { evaluateRule, evaluateStructure, PlanCache } from '../checker/evaluate.ts';
+import { formatDiagnostics } from '../diagnostics/messages.ts';
+import { loadStructureFile } from '../model/load.ts';
+import type { Structure } from '../model/types.ts';
+import { checkHandbook, exitCodeFor, loadHandbook } from '../pipeline.ts';
+import { renderCheckSummary, renderExplain, renderStructureQuantities } from './text.ts';
+
+interface Io {
+  out: (s: string) => void;
+  err: (s: string) => void;
+}
+
+function rootOf(cmd: Command): string {
+  return resolve(String(cmd.optsWithGlobals().root ?? '.'));
+}
+
+/** Builds the program; `run` is exported for tests, which pass their own io. */
+export function buildProgram(io: Io, setExit: (code: number) => void): Command {
+  const program = new Command('plumbline')
+    .description('Check a design-rule handbook of high-aspect-ratio structures and publish it as a report.')
+    .addOption(new Option('--root <dir>', 'handbook folder (with structures/ and rules/)').default('.'))
+    .configureOutput({ writeOut: (s) => io.out(s.replace(/\n$/, '')), writeErr: (s) => io.err(s.replace(/\n$/, '')) })
+    .exitOverride()
+    .showHelpAfterError();
+
+  program
+    .command('check')
+    .description('evaluate every rule on every structure; exit 0 when no blocking rule fails, 1 when one does, 2 when the handbook cannot be loaded')
+    .option('--json', 'print the verdicts as JSON (SI values)')
+    .action((opts: { json?: boolean }, cmd: Command) => {
+      const outcome = checkHandbook(rootOf(cmd));
+      if (!outcome.ok) io.err(formatDiagnostics(outcome.diagnostics));
+      else if (opts.json) {
+        const { handbook, results } = outcome;
+        io.out(JSON.stringify({ handbook: handbook.meta.title, counts: results.counts, blocking_failures: results.blockingFailures, verdicts: results.verdicts }, null, 2));
+      } else io.out(renderCheckSummary(outcome.handbook, outcome.results));
+      setExit(exitCodeFor(outcome));
+    });
+
+  program
+    .command('eval')
+    .description('every quantity the engines can compute for one structure (a file, or an id in the handbook)')
+    .argument('<structure>', 'path to a structure YAML file, or a structure id')
+    .option('--json', 'print { id, kind, quantities } with SI values')
+    .action((target: string, opts: { json?: boolean }, cmd: Command) => {
+      const root = rootOf(cmd);
+      let structure: Structure | undefined;
+      if (existsSync(target) && /\.ya?ml$/.test(target)) {
+        const r = loadStructureFile(resolve(target), root);
+        if (!r.ok) {
+          io.err(formatDiagnostics(r.diagnostics));
+          return setExit(2);
+        }
+        structure = r.structure;
+      } else {
+        const loaded = loadHandbook(root);
+        if (!loaded.ok) {
+          io.err(formatDiagnostics(loaded.diagnostics));
+          return setExit(2);
+        }
+        structure = loaded.handbook.structures.find((s) => s.id === target);
+        if (!structure) {
+          io.err(`no structure "${target}" in ${root} (and no such file)`);
+          return setExit(2);
+        }
+      }
+      const { quantities, incomplete } = evaluateStructure(structure);
+      if (opts.json) io.out(JSON.stringify({ id: structure.id, kind: structure.kind, quantities, incomplete }, null, 2));
+      else io.out(renderStructureQuantities(structure, quantities, incomplete));
+      setExit(0);
+    });
+
+  program
+    .command('explain')
+    .description('the derivation of one verdict: inputs, formulas, intermediate values, worst corner, sources')
+    .argument('<rule>', 'rule id')
+    .argument('<structure>', 'structure id')
+    .action((ruleId: string, structureId: string, _opts: unknown, cmd: Command) => {
+      const loaded = loadHandbook(rootOf(cmd));
+      if (!loaded.ok) {
+        io.err(formatDiagnostics(loaded.diagnostics));
+        return setExit(2);
+      }
+      const rule = loaded.handbook.rules.find((r) => r.id === ruleId);
+      const s = loaded.handbook.structures.find((x) => x.id === structureId);
+      if (!rule || !s) {
+        io.err(!rule ? `no rule "${ruleId}"` : `no structure "${structureId}"`);
+        return setExit(2);
+      }
+      io.out(renderExplain(rule, s, evaluateRule(rule, s, new PlanCache())));
+      setExit(0);
+    });
+
+  program
+    .command('build')
+    .description('publish the report as a static site (written atomically; an invalid handbook leaves the old site untouched)')
+    .option('--out <dir>', 'output folder', 'site')
+    .action(async (opts: { out: string }, cmd: Command) => {
+      const root = rootOf(cmd);
+      const outcome = checkHandbook(root);
+      if (!outcome.ok) {
+        io.err(formatDiagnostics(outcome.diagnostics));
+        return setExit(2);
+      }
+      const { buildSite } = await import('../report/site.ts');
+      const out = resolve(root, opts.out);
+      const stats = await buildSite(outcome.handbook, outcome.results, out);
+      io.out(`wrote ${stats.pages} pages to ${out}\nopen ${resolve(out, 'index.html')}`);
+      setExit(0);
+    });
+
+  program
+    .command('serve')
+    .description('build, serve the report on localhost and rebuild when handbook files change')
+    .option('--out <dir>', 'output folder', 'site')
+    .option('--port <n>', 'port', '8084')
+    .action(async (opts: { out: string; port: string }, cmd: Command) => {
+      const { serveSite } = await import('../report/serve.ts');
+      await serveSite(rootOf(cmd), resolve(rootOf(cmd), opts.out), Number(opts.port), io);
+    });
+
+  return program;
+}
+
+export async function run(argv: string[], io: Io): Promise<number> {
+  let code = 0;
+  const program = buildProgram(io, (c) => (code = c));
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+  } catch (err) {
+    const e = err as { code?: string; exitCode?: number };
+    if (typeof e.code === 'string' && e.code.startsWith('commander.')) {
+      return e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help' ? 0 : 2;
+    }
+    io.err(`plumbline: internal error (please report it): ${(err as Error).stack ?? String(err)}`);
+    return 3;
+  }
+  return code;
+}

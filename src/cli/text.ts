@@ -1,0 +1,98 @@
+// Plain-text renderings for the terminal: the check summary, a structure's quantities, and the
+// derivation of one verdict. Words about verdicts come from report/words.ts, shared with the site.
+import type { Results, Verdict } from '../checker/evaluate.ts';
+import type { StructureQuantity } from '../checker/evaluate.ts';
+import { QUANTITIES } from '../engines/index.ts';
+import type { Handbook, Rule, Structure } from '../model/types.ts';
+import { formatMargin, formatValue } from '../report/format.ts';
+import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from '../report/words.ts';
+
+function table(rows: string[][]): string {
+  const widths: number[] = [];
+  for (const r of rows) r.forEach((c, i) => (widths[i] = Math.max(widths[i] ?? 0, [...c].length)));
+  return rows.map((r) => r.map((c, i) => (i === r.length - 1 ? c : c + ' '.repeat((widths[i] ?? 0) - [...c].length))).join('  ')).join('\n');
+}
+
+const ORDER: Record<string, number> = { fail: 0, incomplete: 1, pass: 2, 'not-applicable': 3 };
+
+export function renderCheckSummary(h: Handbook, results: Results): string {
+  const shown = results.verdicts
+    .filter((v) => v.status !== 'not-applicable')
+    .sort(
+      (a, b) =>
+        (a.status === 'fail' && a.severity === 'blocking' ? -1 : 0) - (b.status === 'fail' && b.severity === 'blocking' ? -1 : 0) ||
+        (ORDER[a.status] ?? 9) - (ORDER[b.status] ?? 9) ||
+        a.rule.localeCompare(b.rule) ||
+        a.structure.localeCompare(b.structure),
+    );
+  const rows = [['verdict', 'rule', 'structure', 'value', 'limit', 'margin']];
+  for (const v of shown) {
+    const rule = h.rules.find((r) => r.id === v.rule)!;
+    const word = v.status === 'fail' ? (v.severity === 'blocking' ? 'FAIL' : 'fail (advisory)') : STATUS_WORDS[v.status];
+    rows.push([word, v.rule, v.structure, v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : valuePhrase(v), limitPhrase(rule, v.unit), formatMargin(v.margin)]);
+  }
+  const c = results.counts;
+  const lines = [
+    `${h.meta.title}: ${h.structures.length} structures, ${h.rules.length} rules`,
+    '',
+    table(rows),
+    '',
+    `${c.pass} pass, ${c.fail} fail (${results.blockingFailures} blocking), ${c.incomplete} incomplete, ${c['not-applicable']} not applicable`,
+    CAUTION,
+  ];
+  return lines.join('\n');
+}
+
+export function renderStructureQuantities(s: Structure, quantities: Record<string, StructureQuantity>, incomplete: Record<string, string[]>): string {
+  const rows = [['quantity', 'value', 'source']];
+  for (const [name, q] of Object.entries(quantities)) {
+    rows.push([name, q.value === null ? `none: ${q.reason}` : formatValue(q.value, q.unit), QUANTITIES.get(name)?.title ?? '']);
+  }
+  const lines = [`${s.id} (${s.kind}): ${s.title}`, '', table(rows)];
+  const blocked = Object.entries(incomplete);
+  if (blocked.length) lines.push('', 'Not computable without more inputs:', ...blocked.map(([n, m]) => `  ${n}: needs ${m.join(', ')}`));
+  return lines.join('\n');
+}
+
+export function renderExplain(rule: Rule, s: Structure, v: Verdict): string {
+  const out: string[] = [];
+  out.push(`${rule.id} on ${s.id}: ${STATUS_WORDS[v.status].toUpperCase()}`);
+  out.push(`${rule.title}`);
+  out.push(`requires ${v.quantity} ${limitPhrase(rule, v.unit)} (${rule.evaluateAt}, ${rule.severity})`);
+  if (v.status === 'not-applicable' || v.status === 'incomplete') {
+    out.push(v.reason ?? '');
+    return out.join('\n');
+  }
+  out.push(`value ${valuePhrase(v)}, margin ${formatMargin(v.margin)}`);
+  if (v.evaluateAt === 'worst-case') {
+    out.push(`nominal ${formatValue(v.nominal ?? null, v.unit)}; worst of ${v.corners} corner${v.corners === 1 ? '' : 's'}`);
+    if (v.worstCorner?.length) out.push(`worst corner: ${v.worstCorner.map((c) => `${c.name} ${c.side} (${formatValue(c.value, unitOfParam(v, c.name))})`).join(', ')}`);
+  }
+  const t = v.trace;
+  if (t) {
+    out.push('', 'Inputs:');
+    for (const i of t.inputs) {
+      const tol = i.low !== undefined ? ` [${formatValue(i.low, i.unit)} … ${formatValue(i.high ?? null, i.unit)}]` : '';
+      const side = i.side && i.side !== 'nominal' ? ` (${i.side} end used)` : '';
+      out.push(`  ${i.name} = ${formatValue(i.value, i.unit)}${side}${tol}  — ${originPhrase(i.origin)}`);
+    }
+    out.push('', 'Derivation:');
+    for (const st of t.steps) {
+      out.push(`  ${st.name}: ${st.title}${st.label ? ` (${st.label})` : ''}`);
+      out.push(`    ${st.formula}`);
+      out.push(`    with ${st.args.map((a) => `${a.symbol} = ${formatValue(a.value, unitOfArg(t, a.from))}`).join(', ')}`);
+      out.push(`    = ${st.value === null ? `no value: ${st.reason}` : formatValue(st.value, st.unit)}`);
+      out.push(`    source: ${st.source}`);
+      for (const w of st.warnings) out.push(`    ! outside validity: ${w}`);
+    }
+  }
+  out.push('', CAUTION);
+  return out.join('\n');
+}
+
+function unitOfParam(v: Verdict, name: string): string {
+  return v.trace?.inputs.find((i) => i.name === name)?.unit ?? '1';
+}
+function unitOfArg(t: NonNullable<Verdict['trace']>, from: string): string {
+  return t.inputs.find((i) => i.name === from)?.unit ?? QUANTITIES.get(from)?.unit ?? '1';
+}

@@ -1,0 +1,84 @@
+// What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
+// the report read only these declarations, never a specific engine.
+import type { ArrayLayout, Kind } from '../model/types.ts';
+
+/** A result that has no finite value for this structure, with the reason shown to the reader. */
+export interface NoValue {
+  value: null;
+  reason: string;
+  /**
+   * Set when the quantity is unbounded rather than undefined: `above` compares as +∞ (a collapse
+   * margin with no capillary load), `below` as −∞. Left unset, the value does not exist (an
+   * opening that closes before its bottom has no bottom CD) and any limit on it fails.
+   */
+  unbounded?: 'above' | 'below';
+}
+
+export type Outcome = number | NoValue;
+
+export function noValue(reason: string, unbounded?: 'above' | 'below'): NoValue {
+  return unbounded ? { value: null, reason, unbounded } : { value: null, reason };
+}
+
+/** The shape facts a quantity may branch on (never numbers: those are inputs). */
+export interface Shape {
+  kind: Kind;
+  array?: ArrayLayout;
+}
+
+/**
+ * One way of computing a quantity for a given shape. `inputs` maps the formula's argument names
+ * to parameter paths (`geometry.cd`) or other quantities (`geometry.bottom_cd`).
+ */
+export interface Variant<A extends string = string> {
+  /** Short label shown when a quantity has several variants, e.g. "round hole". */
+  label?: string;
+  inputs: Record<A, string>;
+  /** TeX of the formula, in the symbols of `symbols`. */
+  formula: string;
+  /** TeX symbol for each argument. */
+  symbols?: Partial<Record<NoInfer<A>, string>>;
+  compute: (args: Record<A, number>) => Outcome;
+}
+
+export interface ValidityCheck {
+  /** Argument name the range applies to. */
+  arg: string;
+  min?: number;
+  max?: number;
+  why: string;
+}
+
+export interface QuantityDef {
+  /** `engine.name`, snake_case. */
+  name: string;
+  title: string;
+  /** SI unit of the value ("1" when dimensionless). */
+  unit: string;
+  /** TeX symbol of the result. */
+  symbol: string;
+  description: string;
+  /** The published source the formula implements. */
+  source: string;
+  assumptions?: string[];
+  validity?: ValidityCheck[];
+  /** Which way is better; the report uses it for chart direction, never for verdicts. */
+  better?: 'higher' | 'lower';
+  /**
+   * The way to compute it for a shape; or a reason it does not apply to that shape; or the shape
+   * facts (such as `geometry.array`) the structure must state before it can be computed.
+   */
+  variant: (shape: Shape) => Variant | { notApplicable: string } | { incomplete: string[] };
+}
+
+export interface Engine {
+  id: string;
+  title: string;
+  summary: string;
+  quantities: QuantityDef[];
+}
+
+/** Helper that keeps argument names checked against the inputs' keys. */
+export function variant<A extends string>(v: Variant<A>): Variant {
+  return v as unknown as Variant;
+}

@@ -1,0 +1,488 @@
+// Load a handbook folder: read → parse (YAML with positions) → validate (JSON Schema) → normalize
+// (units to SI, materials resolved, cross-references checked). Every problem becomes a diagnostic
+// and loading carries on, so one run reports them all.
+import { readFileSync, readdirSync, existsSync, statSync } from 'node:fs';
+import process from 'node:process';
+import { join, relative, basename, extname } from 'node:path';
+import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
+import { closest, distance } from 'fastest-levenshtein';
+import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
+import { sortDiagnostics } from '../diagnostics/diagnostic.ts';
+import { QUANTITIES } from '../engines/index.ts';
+import { BUILT_IN_MATERIALS } from './materials-table.ts';
+import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, type ParamSpec } from './parameters.ts';
+import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
+import {
+  KINDS,
+  isElongated,
+  type ArrayLayout,
+  type Handbook,
+  type HandbookMeta,
+  type Kind,
+  type Material,
+  type MaterialProperty,
+  type Param,
+  type Rule,
+  type SourcePos,
+  type Structure,
+} from './types.ts';
+import { isUnitProblem, parseValue } from './units.ts';
+import { isYamlFailure, parseYamlSource, pointerToField, positionOf, type YamlSource } from './yaml-source.ts';
+
+export type LoadResult = { ok: true; handbook: Handbook } | { ok: false; diagnostics: Diagnostic[] };
+
+let validators: { structure: ValidateFunction; rule: ValidateFunction; materials: ValidateFunction; handbook: ValidateFunction } | undefined;
+function getValidators(): NonNullable<typeof validators> {
+  if (!validators) {
+    const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true });
+    validators = {
+      structure: ajv.compile(structureSchema()),
+      rule: ajv.compile(ruleSchema()),
+      materials: ajv.compile(materialsSchema()),
+      handbook: ajv.compile(handbookSchema()),
+    };
+  }
+  return validators;
+}
+
+/** Collects diagnostics for one file, placing each at the field it concerns. */
+class FileReport {
+  constructor(
+    readonly src: YamlSource,
+    private readonly out: Diagnostic[],
+  ) {}
+  add(code: DiagnosticCode, pointer: string, extra: Partial<Diagnostic> = {}, at: 'key' | 'value' = 'value'): void {
+    const { line, column } = positionOf(this.src, pointer, at);
+    this.out.push({ code, file: this.src.file, line, column, field: pointerToField(pointer), ...extra });
+  }
+  /** A diagnostic about `fieldPointer`, placed at `placePointer` (for fields not written). */
+  addAt(code: DiagnosticCode, placePointer: string, fieldPointer: string, extra: Partial<Diagnostic> = {}): void {
+    const { line, column } = positionOf(this.src, placePointer, 'value');
+    this.out.push({ code, file: this.src.file, line, column, field: pointerToField(fieldPointer), ...extra });
+  }
+  pos(pointer: string): SourcePos {
+    return { file: this.src.file, ...positionOf(this.src, pointer) };
+  }
+}
+
+function jsonType(v: unknown): string {
+  if (v === null) return 'null';
+  if (Array.isArray(v)) return 'a list';
+  if (typeof v === 'object') return 'a mapping';
+  if (typeof v === 'string') return `the text "${v}"`;
+  return `${typeof v} ${String(v)}`;
+}
+
+function valueAt(root: unknown, pointer: string): unknown {
+  let v: unknown = root;
+  for (const seg of pointer.split('/').slice(1)) {
+    if (v === null || typeof v !== 'object') return undefined;
+    v = (v as Record<string, unknown>)[seg.replace(/~1/g, '/').replace(/~0/g, '~')];
+  }
+  return v;
+}
+
+function suggest(word: string, options: readonly string[], max = 3): string[] {
+  const limit = Math.max(2, Math.floor(word.length / 3));
+  return options
+    .map((o) => ({ o, d: distance(word, o) }))
+    .filter((x) => x.d <= limit || x.o.includes(word) || (word.includes('.') && x.o.endsWith(word.split('.').pop() ?? '\0')))
+    .sort((a, b) => a.d - b.d || a.o.localeCompare(b.o))
+    .slice(0, max)
+    .map((x) => x.o);
+}
+
+/** Translate ajv's errors into diagnostics: unknown and missing fields, types, enums, ids. */
+function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt: (pointer: string) => string[]): void {
+  const seen = new Set<string>();
+  for (const e of errors) {
+    const value = valueAt(report.src.value, e.instancePath);
+    let key = `${e.keyword}:${e.instancePath}`;
+    switch (e.keyword) {
+      case 'additionalProperties': {
+        const name = (e.params as { additionalProperty: string }).additionalProperty;
+        const pointer = `${e.instancePath}/${name}`;
+        key += name;
+        if (seen.has(key)) continue;
+        const allowed = allowedAt(e.instancePath);
+        report.add('unknown-field', pointer, { expected: `one of ${allowed.join(', ')}`, suggestions: suggest(name, allowed) }, 'key');
+        break;
+      }
+      case 'required': {
+        const name = (e.params as { missingProperty: string }).missingProperty;
+        key += name;
+        if (seen.has(key)) continue;
+        // Placed at the mapping that lacks it, named by the path it should have.
+        report.addAt('missing-field', e.instancePath, `${e.instancePath}/${name}`);
+        break;
+      }
+      case 'type':
+        report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: jsonType(value) });
+        break;
+      case 'enum': {
+        const allowed = (e.params as { allowedValues: unknown[] }).allowedValues.map(String);
+        const isKind = e.instancePath === '/kind' || /\/kinds\/\d+$/.test(e.instancePath);
+        report.add(isKind ? 'unknown-kind' : 'bad-value', e.instancePath, {
+          expected: `one of ${allowed.join(', ')}`,
+          found: String(value),
+          suggestions: typeof value === 'string' ? suggest(value, allowed) : [],
+        });
+        break;
+      }
+      case 'pattern':
+        if (/\/id$/.test(e.instancePath)) {
+          report.add('id-not-url-safe', e.instancePath, {
+            expected: e.instancePath.includes('rule') || /^\/(\d+\/)?id$/.test(e.instancePath) ? describePattern(e.schemaPath) : 'lower-case letters, digits and single dashes',
+            found: String(value),
+          });
+        } else {
+          report.add('bad-value', e.instancePath, { expected: describePattern(e.schemaPath), found: jsonType(value) });
+        }
+        break;
+      case 'propertyNames':
+      case 'if':
+        continue;
+      default:
+        report.add('bad-value', e.instancePath, { expected: e.message ?? e.keyword, found: jsonType(value) });
+    }
+    seen.add(key);
+  }
+}
+
+function describeType(t: string | string[]): string {
+  const names: Record<string, string> = { string: 'text', number: 'a number', object: 'a mapping', array: 'a list', integer: 'a whole number', boolean: 'true or false' };
+  const list = Array.isArray(t) ? t : [t];
+  return list.map((x) => names[x] ?? x).join(' or ');
+}
+
+function describePattern(schemaPath: string): string {
+  if (schemaPath.includes('quantity')) return 'a quantity name such as geometry.aspect_ratio';
+  return 'an id of letters, digits and single dashes (lower-case for structures, upper-case for rules)';
+}
+
+function listYaml(dir: string): string[] {
+  if (!existsSync(dir) || !statSync(dir).isDirectory()) return [];
+  return readdirSync(dir)
+    .filter((f) => ['.yaml', '.yml'].includes(extname(f)))
+    .sort()
+    .map((f) => join(dir, f));
+}
+
+interface Loaded {
+  src: YamlSource;
+  report: FileReport;
+}
+
+function readAndParse(root: string, path: string, out: Diagnostic[]): Loaded | null {
+  const file = relative(root, path) || basename(path);
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (err) {
+    out.push({ code: 'file-unreadable', file, line: 1, column: 1, field: '', found: (err as Error).message });
+    return null;
+  }
+  const parsed = parseYamlSource(file, text);
+  if (isYamlFailure(parsed)) {
+    out.push({ code: 'yaml-syntax', file, line: parsed.line, column: parsed.column, field: '', found: parsed.reason });
+    return null;
+  }
+  return { src: parsed, report: new FileReport(parsed, out) };
+}
+
+/** Parse a value with a unit at `pointer`, reporting a problem there. */
+function readValue(
+  report: FileReport,
+  pointer: string,
+  raw: unknown,
+  spec: ParamSpec,
+): { value: number; low?: number; high?: number; written: string } | null {
+  if (typeof raw !== 'string' && typeof raw !== 'number') return null; // the schema reported it
+  const parsed = parseValue(raw, spec.unit);
+  if (isUnitProblem(parsed)) {
+    report.add(parsed.code, pointer, { expected: parsed.expected, found: `"${String(raw)}"` });
+    return null;
+  }
+  const below = spec.min !== undefined && (spec.exclusiveMin ? parsed.value <= spec.min : parsed.value < spec.min);
+  const above = spec.max !== undefined && parsed.value > spec.max;
+  const lowBad = parsed.low !== undefined && spec.min !== undefined && parsed.low < spec.min;
+  if (below || above || lowBad) {
+    const range = spec.max !== undefined ? `between ${spec.min} and ${spec.max} (SI)` : spec.exclusiveMin ? 'a positive value' : `at least ${spec.min}`;
+    report.add('bad-value', pointer, { expected: range + (lowBad && !below ? ', also at the low end of its tolerance' : ''), found: `"${String(raw)}"` });
+    return null;
+  }
+  return { ...parsed, written: String(raw) };
+}
+
+function loadMaterials(root: string, out: Diagnostic[]): Map<string, Material> {
+  const materials = new Map<string, Material>();
+  for (const m of BUILT_IN_MATERIALS) {
+    const properties: Record<string, MaterialProperty> = {};
+    for (const [name, tv] of Object.entries(m.properties)) {
+      const spec = MATERIAL_PROPERTIES[name];
+      if (!spec) throw new Error(`built-in material ${m.id} has unknown property ${name}`);
+      const p = parseValue(tv.value, spec.unit);
+      if (isUnitProblem(p)) throw new Error(`built-in material ${m.id}.${name}: ${p.code}`);
+      properties[name] = { value: p.value, unit: spec.unit, written: tv.value, source: tv.source };
+    }
+    materials.set(m.id, { id: m.id, title: m.title, properties, origin: 'built-in' });
+  }
+  const path = join(root, 'materials.yaml');
+  if (!existsSync(path)) return materials;
+  const loaded = readAndParse(root, path, out);
+  if (!loaded) return materials;
+  const { src, report } = loaded;
+  const v = getValidators().materials;
+  if (!v(src.value)) {
+    reportSchemaErrors(v.errors ?? [], report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES)]);
+    return materials;
+  }
+  (src.value as Array<Record<string, unknown>>).forEach((entry, i) => {
+    const id = String(entry.id);
+    const base = entry.based_on !== undefined ? materials.get(String(entry.based_on)) : undefined;
+    if (entry.based_on !== undefined && !base) {
+      report.add('unknown-material', `/${i}/based_on`, { found: String(entry.based_on), suggestions: suggest(String(entry.based_on), [...materials.keys()]) });
+    }
+    const properties: Record<string, MaterialProperty> = { ...(base?.properties ?? {}) };
+    const source = typeof entry.source === 'string' ? entry.source : `handbook materials file (${src.file})`;
+    for (const [name, spec] of Object.entries(MATERIAL_PROPERTIES)) {
+      if (entry[name] === undefined) continue;
+      const r = readValue(report, `/${i}/${name}`, entry[name], spec);
+      if (r) properties[name] = { value: r.value, unit: spec.unit, written: r.written, source };
+    }
+    materials.set(id, { id, title: String(entry.title), properties, origin: 'handbook', file: src.file });
+  });
+  return materials;
+}
+
+function structureFromFile(loaded: Loaded, materials: Map<string, Material>): Structure | null {
+  const { src, report } = loaded;
+  const v = getValidators().structure;
+  const raw = src.value as Record<string, unknown>;
+  if (!v(raw)) {
+    reportSchemaErrors(v.errors ?? [], report, (ptr) =>
+      ptr === '' ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'materials'] : ptr === '/geometry' ? [...Object.keys(GEOMETRY_PARAMS), 'array'] : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
+    );
+    return null;
+  }
+  const id = String(raw.id);
+  const kind = raw.kind as Kind;
+  const stem = basename(src.file, extname(src.file));
+  if (stem !== id) report.add('bad-value', '/id', { expected: `the file name "${stem}" (a structure's id is its file name)`, found: `"${id}"` });
+
+  const params = new Map<string, Param>();
+  const geometry = (raw.geometry ?? {}) as Record<string, unknown>;
+  const allowed = GEOMETRY_BY_KIND[kind] ?? [];
+  for (const [name, spec] of Object.entries(GEOMETRY_PARAMS)) {
+    if (geometry[name] === undefined) continue;
+    if (!allowed.includes(name)) {
+      report.add('unknown-field', `/geometry/${name}`, { expected: `for a ${kind}: ${allowed.join(', ')}, array`, suggestions: suggest(name, allowed) }, 'key');
+      continue;
+    }
+    const r = readValue(report, `/geometry/${name}`, geometry[name], spec);
+    if (r) params.set(`geometry.${name}`, { name: `geometry.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/geometry/${name}`) } });
+  }
+  let array = geometry.array as ArrayLayout | undefined;
+  if (isElongated(kind)) {
+    if (array !== undefined && array !== 'lines') report.add('bad-value', '/geometry/array', { expected: `lines (a ${kind} array is a set of parallel lines)`, found: array });
+    array = 'lines';
+  } else if (array === 'lines') {
+    report.add('bad-value', '/geometry/array', { expected: `hexagonal or square for a ${kind}`, found: array });
+  }
+  const cd = params.get('geometry.cd');
+  const pitch = params.get('geometry.pitch');
+  const wall = params.get('geometry.wall');
+  if (cd && pitch && pitch.value <= cd.value) report.add('bad-value', '/geometry/pitch', { expected: 'a pitch larger than the CD (neighbours would overlap)', found: `"${pitch.written}"` });
+  if (cd && wall && 2 * wall.value >= cd.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than half the CD', found: `"${wall.written}"` });
+
+  const materialRoles: Record<string, string> = {};
+  const mats = (raw.materials ?? {}) as Record<string, unknown>;
+  for (const [role, use] of Object.entries(mats)) {
+    const isInline = typeof use === 'object' && use !== null;
+    const materialId = isInline ? String((use as Record<string, unknown>).material) : String(use);
+    const pointer = isInline ? `/materials/${role}/material` : `/materials/${role}`;
+    const material = materials.get(materialId);
+    if (!material) {
+      report.add('unknown-material', pointer, { found: materialId, suggestions: suggest(materialId, [...materials.keys()]) });
+      continue;
+    }
+    materialRoles[role] = materialId;
+    for (const [prop, mp] of Object.entries(material.properties)) {
+      params.set(`materials.${role}.${prop}`, {
+        name: `materials.${role}.${prop}`,
+        value: mp.value,
+        unit: mp.unit,
+        written: mp.written,
+        origin: { type: 'material-table', material: materialId, source: mp.source, pos: report.pos(pointer) },
+      });
+    }
+    if (isInline) {
+      for (const [prop, spec] of Object.entries(MATERIAL_PROPERTIES)) {
+        const val = (use as Record<string, unknown>)[prop];
+        if (val === undefined) continue;
+        const r = readValue(report, `/materials/${role}/${prop}`, val, spec);
+        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/materials/${role}/${prop}`) } });
+      }
+    }
+  }
+
+  return {
+    id,
+    title: String(raw.title),
+    kind,
+    ...(array ? { array } : {}),
+    tags: (raw.tags as string[] | undefined) ?? [],
+    ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
+    params,
+    materialRoles,
+    file: src.file,
+    pos: report.pos(''),
+  };
+}
+
+function rulesFromFile(loaded: Loaded): Rule[] {
+  const { src, report } = loaded;
+  const v = getValidators().rule;
+  if (!v(src.value)) {
+    reportSchemaErrors(v.errors ?? [], report, (ptr) =>
+      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : ['id', 'title', 'applies_to', 'quantity', 'at_least', 'at_most', 'evaluate_at', 'severity', 'rationale', 'references'],
+    );
+    return [];
+  }
+  const list = Array.isArray(src.value) ? (src.value as Array<Record<string, unknown>>) : [src.value as Record<string, unknown>];
+  const prefix = Array.isArray(src.value) ? (i: number) => `/${i}` : () => '';
+  const rules: Rule[] = [];
+  list.forEach((raw, i) => {
+    const base = prefix(i);
+    const quantityName = String(raw.quantity);
+    const q = QUANTITIES.get(quantityName);
+    if (!q) {
+      const names = [...QUANTITIES.keys()];
+      const near = suggest(quantityName, names);
+      report.add('unknown-quantity', `${base}/quantity`, { found: quantityName, suggestions: near.length ? near : [closest(quantityName, names)] });
+    }
+    const hasLeast = raw.at_least !== undefined;
+    const hasMost = raw.at_most !== undefined;
+    if (hasLeast === hasMost) {
+      if (hasLeast) report.add('bad-value', `${base}/at_most`, { expected: 'either at_least or at_most, not both', found: 'both' }, 'key');
+      else report.addAt('missing-field', base, `${base}/at_least`, { expected: 'a limit: at_least or at_most' });
+      return;
+    }
+    const comparison = hasLeast ? 'at_least' : 'at_most';
+    const limitRaw = raw[comparison];
+    let limit: number | null = null;
+    if (q) {
+      const r = readValue(report, `${base}/${comparison}`, limitRaw, { unit: q.unit, description: q.title });
+      if (r) {
+        if (r.low !== undefined) report.add('malformed-tolerance', `${base}/${comparison}`, { expected: 'a limit without tolerance', found: `"${String(limitRaw)}"` });
+        else limit = r.value;
+      }
+    }
+    if (!q || limit === null) return;
+    const at = (raw.applies_to ?? {}) as Record<string, unknown>;
+    rules.push({
+      id: String(raw.id),
+      title: String(raw.title),
+      appliesTo: {
+        ...(at.kinds ? { kinds: at.kinds as Kind[] } : {}),
+        ...(at.tags ? { tags: at.tags as string[] } : {}),
+        ...(at.structures ? { structures: at.structures as string[] } : {}),
+      },
+      quantity: quantityName,
+      comparison,
+      limit,
+      limitWritten: String(limitRaw),
+      evaluateAt: (raw.evaluate_at as Rule['evaluateAt']) ?? 'nominal',
+      severity: (raw.severity as Rule['severity']) ?? 'blocking',
+      rationale: typeof raw.rationale === 'string' ? raw.rationale : '',
+      references: (raw.references as string[] | undefined) ?? [],
+      file: src.file,
+      pos: report.pos(base),
+    });
+  });
+  return rules;
+}
+
+function loadMeta(root: string, out: Diagnostic[]): HandbookMeta {
+  const path = join(root, 'handbook.yaml');
+  const fallback = { title: basename(root) };
+  if (!existsSync(path)) return fallback;
+  const loaded = readAndParse(root, path, out);
+  if (!loaded) return fallback;
+  const v = getValidators().handbook;
+  if (!v(loaded.src.value)) {
+    reportSchemaErrors(v.errors ?? [], loaded.report, () => ['title', 'organisation', 'summary']);
+    return fallback;
+  }
+  return loaded.src.value as HandbookMeta;
+}
+
+function checkDuplicates(items: Array<{ id: string; pos: SourcePos }>, out: Diagnostic[], idPointerLine: (x: { pos: SourcePos }) => SourcePos): void {
+  const first = new Map<string, SourcePos>();
+  for (const item of items) {
+    const at = idPointerLine(item);
+    const prior = first.get(item.id);
+    if (prior) {
+      out.push({ code: 'duplicate-id', file: at.file, line: at.line, column: at.column, field: 'id', found: item.id, other: { file: prior.file, line: prior.line, column: prior.column } });
+    } else first.set(item.id, at);
+  }
+}
+
+/** Load and validate the handbook under `root`. Never throws for a bad handbook. */
+export function loadHandbook(root: string): LoadResult {
+  const out: Diagnostic[] = [];
+  const structureFiles = listYaml(join(root, 'structures'));
+  const ruleFiles = listYaml(join(root, 'rules'));
+  if (structureFiles.length === 0 && ruleFiles.length === 0) {
+    return { ok: false, diagnostics: [{ code: 'no-handbook', file: root, line: 1, column: 1, field: '', expected: 'a folder with structures/ and rules/ holding YAML files' }] };
+  }
+  const meta = loadMeta(root, out);
+  const materials = loadMaterials(root, out);
+  const structures: Structure[] = [];
+  const idPositions = new Map<object, SourcePos>();
+  for (const path of structureFiles) {
+    const loaded = readAndParse(root, path, out);
+    if (!loaded) continue;
+    const s = structureFromFile(loaded, materials);
+    if (s) {
+      structures.push(s);
+      idPositions.set(s, loaded.report.pos('/id'));
+    }
+  }
+  const rules: Rule[] = [];
+  for (const path of ruleFiles) {
+    const loaded = readAndParse(root, path, out);
+    if (!loaded) continue;
+    for (const r of rulesFromFile(loaded)) {
+      rules.push(r);
+      const ptr = Array.isArray(loaded.src.value) ? `/${(loaded.src.value as unknown[]).findIndex((x) => (x as { id?: unknown }).id === r.id)}/id` : '/id';
+      idPositions.set(r, loaded.report.pos(ptr));
+    }
+  }
+  const at = (x: object) => idPositions.get(x)!;
+  checkDuplicates(structures, out, at);
+  checkDuplicates(rules, out, at);
+  // Rules that name structures must name real ones.
+  const ids = structures.map((s) => s.id);
+  for (const r of rules) {
+    for (const sid of r.appliesTo.structures ?? []) {
+      if (!ids.includes(sid)) {
+        out.push({ code: 'bad-value', file: r.file, line: r.pos.line, column: r.pos.column, field: `${r.id}.applies_to.structures`, expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids) });
+      }
+    }
+  }
+  if (out.length > 0) return { ok: false, diagnostics: sortDiagnostics(out) };
+  structures.sort((a, b) => a.id.localeCompare(b.id));
+  rules.sort((a, b) => a.id.localeCompare(b.id));
+  return { ok: true, handbook: { root, meta, structures, rules, materials } };
+}
+
+/** Load one structure file on its own (for `eval FILE`), with the materials of `root` if it has any. */
+export function loadStructureFile(path: string, root: string): { ok: true; structure: Structure } | { ok: false; diagnostics: Diagnostic[] } {
+  const out: Diagnostic[] = [];
+  const materials = loadMaterials(root, out);
+  const loaded = readAndParse(process.cwd(), path, out);
+  const s = loaded ? structureFromFile(loaded, materials) : null;
+  if (out.length > 0 || !s) return { ok: false, diagnostics: sortDiagnostics(out) };
+  return { ok: true, structure: s };
+}

@@ -1,0 +1,49 @@
+// The catalogue of numeric inputs a handbook may write, with the SI unit each must convert to.
+// The JSON Schemas and the loader are both generated from it, so a new input is added here once.
+
+export interface ParamSpec {
+  unit: string;
+  description: string;
+  /** Allowed range in SI, checked at load. */
+  min?: number;
+  max?: number;
+  exclusiveMin?: boolean;
+}
+
+export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {
+  cd: { unit: 'm', description: 'Top critical dimension: diameter of round kinds, width of trenches and lines (outer diameter of a cylinder).', min: 0, exclusiveMin: true },
+  depth: { unit: 'm', description: 'Depth of an opening (hole, trench, via), from the top surface to the bottom.', min: 0, exclusiveMin: true },
+  height: { unit: 'm', description: 'Height of a standing structure (pillar, cylinder, line), from its base to its top.', min: 0, exclusiveMin: true },
+  pitch: { unit: 'm', description: 'Centre-to-centre distance to the nearest neighbour in the array.', min: 0, exclusiveMin: true },
+  sidewall_angle: { unit: 'rad', description: 'Angle between sidewall and wafer plane, measured in the solid: 90° vertical; below 90° an opening narrows toward its bottom and a standing structure widens toward its base.', min: 0, max: Math.PI, exclusiveMin: true },
+  wall: { unit: 'm', description: 'Wall thickness of a hollow cylinder.', min: 0, exclusiveMin: true },
+  length: { unit: 'm', description: 'Length along the wafer of a trench or line (for areas and volumes).', min: 0, exclusiveMin: true },
+};
+
+export const MATERIAL_PROPERTIES: Record<string, ParamSpec> = {
+  youngs_modulus: { unit: 'Pa', description: "Young's modulus", min: 0, exclusiveMin: true },
+  poisson_ratio: { unit: '1', description: "Poisson's ratio", min: -1, max: 0.5 },
+  thermal_expansion: { unit: '1/K', description: 'Linear thermal expansion coefficient near room temperature' },
+  dielectric_constant: { unit: '1', description: 'Relative permittivity (static)', min: 1 },
+  resistivity: { unit: 'ohm*m', description: 'Electrical resistivity at 20 °C', min: 0, exclusiveMin: true },
+  surface_tension: { unit: 'N/m', description: 'Liquid–vapour surface tension at 25 °C', min: 0 },
+  fracture_strength: { unit: 'Pa', description: 'Stress at which the material breaks in bending', min: 0, exclusiveMin: true },
+};
+
+/** Standing kinds have a height, openings a depth; the rest are shared. */
+export const GEOMETRY_BY_KIND: Record<string, string[]> = {
+  hole: ['cd', 'depth', 'pitch', 'sidewall_angle'],
+  via: ['cd', 'depth', 'pitch', 'sidewall_angle'],
+  trench: ['cd', 'depth', 'pitch', 'sidewall_angle', 'length'],
+  pillar: ['cd', 'height', 'pitch', 'sidewall_angle'],
+  cylinder: ['cd', 'height', 'pitch', 'sidewall_angle', 'wall'],
+  line: ['cd', 'height', 'pitch', 'sidewall_angle', 'length'],
+};
+
+/** Unit of any parameter path, or undefined when the path is not an input. */
+export function paramSpecOf(path: string): ParamSpec | undefined {
+  const [block, a, b] = path.split('.');
+  if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
+  if (block === 'materials' && b) return MATERIAL_PROPERTIES[b];
+  return undefined;
+}

@@ -1,0 +1,140 @@
+// JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
+// from what the loader accepts. They are published with the site for editors to validate against.
+import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { KINDS } from './types.ts';
+
+export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
+export const STRUCTURE_ID_PATTERN = '^[a-z0-9]+(-[a-z0-9]+)*$';
+export const RULE_ID_PATTERN = '^[A-Z0-9]+(-[A-Z0-9]+)*$';
+export const MATERIAL_ID_PATTERN = '^[a-z0-9]+(-[a-z0-9]+)*$';
+
+type JsonSchema = Record<string, unknown>;
+
+const valueWithUnit = (description: string): JsonSchema => ({
+  type: ['string', 'number'],
+  description: `${description} Written with a unit and optional tolerance, e.g. "32 nm ± 1.5 nm".`,
+});
+
+function propertiesFrom(catalogue: Record<string, { description: string }>): Record<string, JsonSchema> {
+  return Object.fromEntries(Object.entries(catalogue).map(([k, v]) => [k, valueWithUnit(v.description)]));
+}
+
+export function structureSchema(): JsonSchema {
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: `${SCHEMA_BASE}structure.schema.json`,
+    title: 'plumbline structure',
+    type: 'object',
+    additionalProperties: false,
+    required: ['id', 'title', 'kind'],
+    properties: {
+      id: { type: 'string', pattern: STRUCTURE_ID_PATTERN, description: 'Permanent id, lower-case kebab; equals the file name.' },
+      title: { type: 'string', minLength: 1 },
+      kind: { type: 'string', enum: [...KINDS] },
+      tags: { type: 'array', items: { type: 'string', pattern: MATERIAL_ID_PATTERN } },
+      description: { type: 'string' },
+      geometry: {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          ...propertiesFrom(GEOMETRY_PARAMS),
+          array: { type: 'string', enum: ['hexagonal', 'square', 'lines'], description: 'Arrangement of neighbours.' },
+        },
+      },
+      materials: {
+        type: 'object',
+        description: 'Material by role (body, fill, liner, ...): a material id, or { material, <property>: value } to override.',
+        propertyNames: { pattern: '^[a-z][a-z0-9_]*$' },
+        additionalProperties: {
+          type: ['string', 'object'],
+          required: ['material'],
+          additionalProperties: false,
+          properties: { material: { type: 'string' }, ...propertiesFrom(MATERIAL_PROPERTIES) },
+        },
+      },
+    },
+  };
+}
+
+const ruleProperties = (): JsonSchema => ({
+  id: { type: 'string', pattern: RULE_ID_PATTERN, description: 'Permanent id, upper-case with dashes.' },
+  title: { type: 'string', minLength: 1 },
+  applies_to: {
+    type: 'object',
+    additionalProperties: false,
+    properties: {
+      kinds: { type: 'array', items: { type: 'string', enum: [...KINDS] } },
+      tags: { type: 'array', items: { type: 'string' } },
+      structures: { type: 'array', items: { type: 'string' } },
+    },
+  },
+  quantity: { type: 'string', pattern: '^[a-z_]+\\.[a-z0-9_]+$', description: 'Quantity name, engine.name.' },
+  at_least: { type: ['string', 'number'], description: 'Lower limit, in the unit of the quantity.' },
+  at_most: { type: ['string', 'number'], description: 'Upper limit, in the unit of the quantity.' },
+  evaluate_at: { type: 'string', enum: ['nominal', 'worst-case'] },
+  severity: { type: 'string', enum: ['blocking', 'advisory'] },
+  rationale: { type: 'string' },
+  references: { type: 'array', items: { type: 'string' } },
+});
+
+export function ruleSchema(): JsonSchema {
+  const rule = {
+    type: 'object',
+    additionalProperties: false,
+    required: ['id', 'title', 'applies_to', 'quantity'],
+    properties: ruleProperties(),
+  };
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: `${SCHEMA_BASE}rule.schema.json`,
+    title: 'plumbline rules (one rule, or a list of rules)',
+    ...rule,
+    // Object keywords apply to a single rule, `items` to a list: one schema serves both forms.
+    type: ['object', 'array'],
+    items: rule,
+  };
+}
+
+export function materialsSchema(): JsonSchema {
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: `${SCHEMA_BASE}materials.schema.json`,
+    title: 'plumbline handbook materials',
+    type: 'array',
+    items: {
+      type: 'object',
+      additionalProperties: false,
+      required: ['id', 'title'],
+      properties: {
+        id: { type: 'string', pattern: MATERIAL_ID_PATTERN },
+        title: { type: 'string' },
+        based_on: { type: 'string', description: 'A material whose properties this one starts from.' },
+        source: { type: 'string', description: 'Where these values come from.' },
+        ...propertiesFrom(MATERIAL_PROPERTIES),
+      },
+    },
+  };
+}
+
+export function handbookSchema(): JsonSchema {
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: `${SCHEMA_BASE}handbook.schema.json`,
+    title: 'plumbline handbook',
+    type: 'object',
+    additionalProperties: false,
+    required: ['title'],
+    properties: {
+      title: { type: 'string' },
+      organisation: { type: 'string' },
+      summary: { type: 'string' },
+    },
+  };
+}
+
+export const SCHEMAS = {
+  'structure.schema.json': structureSchema,
+  'rule.schema.json': ruleSchema,
+  'materials.schema.json': materialsSchema,
+  'handbook.schema.json': handbookSchema,
+} as const;

@@ -1,0 +1,111 @@
+// The typed handbook: what loading produces and every later phase reads.
+// All numbers are SI; no strings with units survive past loading.
+
+/** A place in a source file, 1-based line and column. */
+export interface SourcePos {
+  file: string;
+  line: number;
+  column: number;
+}
+
+/** Structure kinds. Openings are cut into the wafer; standing kinds rise from it. */
+export const OPENING_KINDS = ['hole', 'trench', 'via'] as const;
+export const STANDING_KINDS = ['pillar', 'cylinder', 'line'] as const;
+export const KINDS = [...OPENING_KINDS, ...STANDING_KINDS] as const;
+export type Kind = (typeof KINDS)[number];
+export type ArrayLayout = 'hexagonal' | 'square' | 'lines';
+
+export function isOpening(kind: Kind): boolean {
+  return (OPENING_KINDS as readonly string[]).includes(kind);
+}
+/** Kinds whose section is long in one direction (a slot or a wall) rather than round. */
+export function isElongated(kind: Kind): boolean {
+  return kind === 'trench' || kind === 'line';
+}
+
+/** A numeric input of a structure: nominal value in SI with optional tolerance bounds. */
+export interface Param {
+  /** Dotted path, e.g. `geometry.cd` or `materials.body.youngs_modulus`. */
+  name: string;
+  value: number;
+  /** Lower and upper bounds when the value carries a tolerance. */
+  low?: number;
+  high?: number;
+  /** SI unit of `value` ("1" when dimensionless). */
+  unit: string;
+  /** The text as written in the handbook (or in the material table). */
+  written: string;
+  /** Where the value came from. */
+  origin: ParamOrigin;
+}
+
+export type ParamOrigin =
+  | { type: 'handbook'; pos: SourcePos }
+  | { type: 'material-table'; material: string; source: string; pos?: SourcePos };
+
+export interface Structure {
+  id: string;
+  title: string;
+  kind: Kind;
+  array?: ArrayLayout;
+  tags: string[];
+  description?: string;
+  /** Numeric inputs by dotted path. */
+  params: Map<string, Param>;
+  /** Material id used in each role (`body`, `fill`, ...). */
+  materialRoles: Record<string, string>;
+  file: string;
+  pos: SourcePos;
+}
+
+export type Comparison = 'at_least' | 'at_most';
+export type EvaluateAt = 'nominal' | 'worst-case';
+export type Severity = 'blocking' | 'advisory';
+
+export interface Rule {
+  id: string;
+  title: string;
+  appliesTo: { kinds?: Kind[]; tags?: string[]; structures?: string[] };
+  quantity: string;
+  comparison: Comparison;
+  /** Limit in the quantity's SI unit. */
+  limit: number;
+  /** The limit as written. */
+  limitWritten: string;
+  evaluateAt: EvaluateAt;
+  severity: Severity;
+  rationale: string;
+  references: string[];
+  file: string;
+  pos: SourcePos;
+}
+
+export interface MaterialProperty {
+  value: number;
+  unit: string;
+  written: string;
+  source: string;
+}
+
+export interface Material {
+  id: string;
+  title: string;
+  /** Property name (snake_case) to value. */
+  properties: Record<string, MaterialProperty>;
+  origin: 'built-in' | 'handbook';
+  file?: string;
+}
+
+export interface HandbookMeta {
+  title: string;
+  organisation?: string;
+  summary?: string;
+}
+
+export interface Handbook {
+  root: string;
+  meta: HandbookMeta;
+  structures: Structure[];
+  rules: Rule[];
+  materials: Map<string, Material>;
+}

@@ -1,0 +1,157 @@
+// Values with units, parsed once at load into SI numbers. mathjs supplies the unit tables and
+// dimensional analysis; this module adds the handbook's tolerance syntax and the few units the
+// trade uses that mathjs lacks (ppm, Torr, Langmuir).
+import { unit as mathUnit, createUnit, type Unit } from 'mathjs';
+
+let extraUnitsReady = false;
+function ensureExtraUnits(): void {
+  if (extraUnitsReady) return;
+  extraUnitsReady = true;
+  const define = (name: string, definition: string): void => {
+    try {
+      mathUnit(`1 ${name}`);
+    } catch {
+      createUnit(name, { definition });
+    }
+  };
+  // 1 Torr = 101325/760 Pa exactly (definition of the torr).
+  define('Torr', `${101325 / 760} Pa`);
+  // Langmuir exposure, 1e-6 Torr*s.
+  define('Langmuir', `${101325 / 760 * 1e-6} Pa*s`);
+  define('ppm', '1e-6');
+  define('percent', '0.01');
+}
+
+/** The value as written, split into nominal and tolerance, in SI. */
+export interface ParsedValue {
+  value: number;
+  low?: number;
+  high?: number;
+}
+
+export type UnitProblem =
+  | { code: 'malformed-quantity'; expected: string }
+  | { code: 'malformed-tolerance'; expected: string }
+  | { code: 'unknown-unit'; expected: string }
+  | { code: 'wrong-dimension'; expected: string };
+
+/** Round away binary noise from unit conversion (1.5000000000000002e-14 → 1.5e-14). */
+export function clean(x: number): number {
+  return x === 0 || !Number.isFinite(x) ? x : Number(x.toPrecision(15));
+}
+
+const dimensionCache = new Map<string, Unit>();
+function referenceUnit(siUnit: string): Unit {
+  let u = dimensionCache.get(siUnit);
+  if (!u) {
+    ensureExtraUnits();
+    u = mathUnit(siUnit === '1' ? '1 ppm' : siUnit.startsWith('1/') ? `1 ppm/${siUnit.slice(2)}` : `1 ${siUnit}`);
+    dimensionCache.set(siUnit, u);
+  }
+  return u;
+}
+
+/** Human description of what a field wants, e.g. `a length (such as "32 nm")`. */
+export function describeDimension(siUnit: string): string {
+  const names: Record<string, string> = {
+    m: 'a length (such as "32 nm")',
+    rad: 'an angle (such as "89.5 deg")',
+    F: 'a capacitance (such as "15 fF")',
+    V: 'a voltage (such as "1.1 V")',
+    Pa: 'a pressure or modulus (such as "169 GPa")',
+    'N/m': 'a surface tension (such as "72 mN/m")',
+    K: 'a temperature (such as "300 K")',
+    '1/K': 'an expansion coefficient (such as "2.6 ppm/K")',
+    'ohm*m': 'a resistivity (such as "1.7e-8 ohm*m")',
+    's': 'a time (such as "90 s")',
+    'm/s': 'a rate (such as "300 nm/min")',
+    A: 'a current (such as "1 fA")',
+    '1': 'a plain number',
+  };
+  return names[siUnit] ?? `a value in units of ${siUnit}`;
+}
+
+function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem {
+  const t = text.trim();
+  if (t === '') return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
+  if (siUnit === '1' && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return Number(t);
+  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-zµμΩ%]/.test(t)) {
+    return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
+  }
+  ensureExtraUnits();
+  const normalized = t.replace(/[µμ]/g, 'u').replace(/Ω/g, 'ohm').replace(/%/g, 'percent').replace(/·/g, '*');
+  let u: Unit;
+  try {
+    u = mathUnit(normalized);
+  } catch {
+    return { code: 'unknown-unit', expected: describeDimension(siUnit) };
+  }
+  const ref = referenceUnit(siUnit);
+  if (!u.equalBase(ref)) return { code: 'wrong-dimension', expected: describeDimension(siUnit) };
+  const si = u.toSI().toNumeric();
+  return typeof si === 'number' ? clean(si) : clean(Number(si));
+}
+
+// nominal, then ± / +/- tolerance, or an asymmetric +a/-b tolerance; the tolerance may be a
+// percentage, carry its own unit, or borrow the nominal's.
+const TOL = /^(.*?)\s*(?:±|\+\/-|\+-)\s*(.+)$/;
+const ASYM = /^(.*?)\s+\+\s*([0-9.eE+-]+)\s*\/\s*-\s*([0-9.eE+-]+)\s*(%|[A-Za-zµμ][^\s]*)?\s*$/;
+
+function unitOf(text: string): string {
+  const m = /^[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*(.*)$/.exec(text.trim());
+  return m?.[1] ?? '';
+}
+
+function parseTolerancePart(part: string, nominalText: string, nominal: number, siUnit: string): number | UnitProblem {
+  const p = part.trim();
+  const pct = /^([0-9.]+(?:[eE][-+]?\d+)?)\s*%$/.exec(p);
+  if (pct) return Math.abs(nominal) * Number(pct[1]) / 100;
+  if (/^[0-9.]+(?:[eE][-+]?\d+)?$/.test(p)) {
+    const u = unitOf(nominalText);
+    const r = parseNumberWithUnit(u ? `${p} ${u}` : p, siUnit);
+    return r;
+  }
+  return parseNumberWithUnit(p, siUnit);
+}
+
+const TOL_EXPECTED = 'a tolerance such as "± 1.5 nm", "+/- 5%" or "+2/-1 nm"';
+
+/** Parse `32 nm`, `32 nm ± 1.5 nm`, `32 nm +/- 5%`, `32 nm +2/-1 nm` into SI. */
+export function parseValue(text: string | number, siUnit: string): ParsedValue | UnitProblem {
+  if (typeof text === 'number') {
+    if (siUnit === '1') return { value: text };
+    return { code: 'malformed-quantity', expected: `${describeDimension(siUnit)}; a bare number has no unit` };
+  }
+  const asym = ASYM.exec(text);
+  if (asym) {
+    const nominalText = asym[1] ?? '';
+    const nominal = parseNumberWithUnit(nominalText, siUnit);
+    if (typeof nominal !== 'number') return nominal;
+    const suffix = asym[4] ?? '';
+    const plus = parseTolerancePart(`${asym[2]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
+    const minus = parseTolerancePart(`${asym[3]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
+    if (typeof plus !== 'number' || typeof minus !== 'number' || plus < 0 || minus < 0) {
+      return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
+    }
+    return { value: nominal, low: clean(nominal - minus), high: clean(nominal + plus) };
+  }
+  const tol = TOL.exec(text);
+  if (tol) {
+    const nominalText = tol[1] ?? '';
+    const nominal = parseNumberWithUnit(nominalText, siUnit);
+    if (typeof nominal !== 'number') return nominal;
+    const t = parseTolerancePart(tol[2] ?? '', nominalText, nominal, siUnit);
+    if (typeof t !== 'number') {
+      return t.code === 'wrong-dimension' ? t : { code: 'malformed-tolerance', expected: TOL_EXPECTED };
+    }
+    if (!(t >= 0)) return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
+    return { value: nominal, low: clean(nominal - t), high: clean(nominal + t) };
+  }
+  if (/[±]|\+\/|\/-/.test(text)) return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
+  const v = parseNumberWithUnit(text, siUnit);
+  return typeof v === 'number' ? { value: v } : v;
+}
+
+export function isUnitProblem(x: ParsedValue | UnitProblem | number): x is UnitProblem {
+  return typeof x === 'object' && 'code' in x;
+}
