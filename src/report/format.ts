@@ -18,7 +18,7 @@ const PREFIXES: Array<[number, string]> = [
 export function sig(x: number, digits = 4): string {
   if (x === 0) return '0';
   const a = Math.abs(x);
-  if (a >= 1e-3 && a < 1e6) {
+  if (a >= 1e-3 && a < 1e5) {
     const decimals = Math.max(0, digits - 1 - Math.floor(Math.log10(a)));
     return trim(x.toFixed(Math.min(decimals, 10)));
   }
@@ -34,7 +34,9 @@ function withPrefix(value: number, unit: string, power = 1, digits = 4): string 
   const a = Math.abs(value);
   for (const [scale, p] of PREFIXES) {
     const s = scale ** power;
-    if (a >= s * 0.9995 || scale === 1e-18) {
+    // Areas and volumes read better as 0.24 µm² than as 242858 nm².
+    const floor = power === 1 ? 0.9995 : 0.1;
+    if (a >= s * floor || scale === 1e-18) {
       const sup = power === 2 ? '²' : power === 3 ? '³' : '';
       return `${sig(value / s, digits)} ${p}${unit}${sup}`;
     }

@@ -1,0 +1,294 @@
+// Results → report data: everything the templates show, already worded and formatted. Templates
+// only lay it out; no physics and no pass/fail logic lives in them.
+import MarkdownIt from 'markdown-it';
+import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict } from '../checker/evaluate.ts';
+import { ENGINES, QUANTITIES } from '../engines/index.ts';
+import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
+import { SCHEMAS } from '../model/schema.ts';
+import { isOpening, type Handbook, type Rule, type Structure } from '../model/types.ts';
+import { countsChartSpec, marginChartSpec, renderChart } from './charts.ts';
+import { renderCrossSection } from './cross-section.ts';
+import { formatMargin, formatValue } from './format.ts';
+import { texToMathml } from './math.ts';
+import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from './words.ts';
+
+const md = new MarkdownIt({ html: false, linkify: true, typographer: true });
+
+export const urls = {
+  rule: (id: string) => `/rules/${id}/`,
+  structure: (id: string) => `/structures/${id}/`,
+  verdict: (rule: string, structure: string) => `/rules/${rule}/${structure}/`,
+  engine: (id: string) => `/methods/${id}/`,
+  quantity: (name: string) => `/methods/${name.split('.')[0]}/#${name.replace('.', '-')}`,
+};
+
+export interface VerdictRow {
+  rule: string;
+  ruleTitle: string;
+  structure: string;
+  structureTitle: string;
+  status: Verdict['status'];
+  statusWord: string;
+  severity: string;
+  valueText: string;
+  limitText: string;
+  marginText: string;
+  url: string;
+}
+
+function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
+  return {
+    rule: rule.id,
+    ruleTitle: rule.title,
+    structure: s.id,
+    structureTitle: s.title,
+    status: v.status,
+    statusWord: STATUS_WORDS[v.status],
+    severity: v.severity,
+    valueText: v.status === 'incomplete' ? `needs ${v.missing?.join(', ')}` : v.status === 'not-applicable' ? (v.reason ?? '') : valuePhrase(v),
+    limitText: limitPhrase(rule, v.unit),
+    marginText: formatMargin(v.margin),
+    url: urls.verdict(rule.id, s.id),
+  };
+}
+
+function paramLabel(name: string): string {
+  const [block, a, b] = name.split('.');
+  if (block === 'geometry' && a) return a.replace(/_/g, ' ');
+  if (block === 'materials' && a && b) return `${a} ${MATERIAL_PROPERTIES[b]?.description.toLowerCase() ?? b}`;
+  return name;
+}
+
+function unitOfStep(v: Verdict, from: string): string {
+  return v.trace?.inputs.find((i) => i.name === from)?.unit ?? QUANTITIES.get(from)?.unit ?? '1';
+}
+
+export async function assembleReport(h: Handbook, results: Results) {
+  const ruleById = new Map(h.rules.map((r) => [r.id, r]));
+  const structureById = new Map(h.structures.map((s) => [s.id, s]));
+  const plans = new PlanCache();
+  const inScope = (v: Verdict) => appliesTo(ruleById.get(v.rule)!, structureById.get(v.structure)!);
+  const scoped = results.verdicts.filter(inScope);
+
+  const verdictPages = scoped.map((v) => {
+    const rule = ruleById.get(v.rule)!;
+    const s = structureById.get(v.structure)!;
+    const t = v.trace;
+    return {
+      ...row(v, rule, s),
+      ruleUrl: urls.rule(rule.id),
+      structureUrl: urls.structure(s.id),
+      quantity: v.quantity,
+      quantityTitle: QUANTITIES.get(v.quantity)?.title ?? v.quantity,
+      quantityUrl: urls.quantity(v.quantity),
+      evaluateAt: v.evaluateAt,
+      reason: v.reason ?? '',
+      missing: v.missing ?? [],
+      nominalText: v.evaluateAt === 'worst-case' ? formatValue(v.nominal ?? null, v.unit) : '',
+      corners: v.corners ?? 0,
+      worstCorner: (v.worstCorner ?? []).map((c) => ({ name: c.name, side: c.side, valueText: formatValue(c.value, unitOfStep(v, c.name)) })),
+      inputs: (t?.inputs ?? []).map((i) => ({
+        name: i.name,
+        label: paramLabel(i.name),
+        valueText: formatValue(i.value, i.unit),
+        side: i.side ?? 'nominal',
+        rangeText: i.low !== undefined ? `${formatValue(i.low, i.unit)} … ${formatValue(i.high ?? null, i.unit)}` : '',
+        written: i.written,
+        origin: originPhrase(i.origin),
+      })),
+      steps: (t?.steps ?? []).map((st) => ({
+        name: st.name,
+        title: st.title,
+        label: st.label ?? '',
+        url: urls.quantity(st.name),
+        formulaHtml: texToMathml(st.formula, true),
+        args: st.args.map((a) => ({ symbolHtml: texToMathml(a.symbol), from: a.from, valueText: formatValue(a.value, unitOfStep(v, a.from)) })),
+        valueText: st.value === null ? `no value: ${st.reason ?? ''}` : formatValue(st.value, st.unit),
+        source: st.source,
+        warnings: st.warnings,
+      })),
+    };
+  });
+
+  const rules = [];
+  for (const rule of h.rules) {
+    const q = QUANTITIES.get(rule.quantity)!;
+    const vs = scoped.filter((v) => v.rule === rule.id);
+    const bars = vs.filter((v) => v.margin !== null).map((v) => ({ label: v.structure, margin: v.margin!, status: v.status }));
+    rules.push({
+      id: rule.id,
+      title: rule.title,
+      url: urls.rule(rule.id),
+      quantity: rule.quantity,
+      quantityTitle: q.title,
+      quantityUrl: urls.quantity(rule.quantity),
+      symbolHtml: texToMathml(q.symbol),
+      limitText: limitPhrase(rule, q.unit),
+      limitWritten: rule.limitWritten,
+      comparisonWord: rule.comparison === 'at_least' ? 'at least' : 'at most',
+      severity: rule.severity,
+      evaluateAt: rule.evaluateAt,
+      scopeText: scopeText(rule),
+      rationaleHtml: md.render(rule.rationale),
+      references: rule.references,
+      file: `${rule.pos.file}:${rule.pos.line}`,
+      verdicts: vs.map((v) => row(v, rule, structureById.get(v.structure)!)),
+      worst: worstWord(vs),
+      chartSvg: bars.length ? await renderChart(marginChartSpec(bars, `Margin of each structure to ${rule.id}`)) : '',
+    });
+  }
+
+  const structures = [];
+  for (const s of h.structures) {
+    const { quantities, incomplete } = evaluateStructure(s, plans);
+    const vs = scoped.filter((v) => v.structure === s.id);
+    const num = (name: string) => (quantities[name]?.value ?? undefined) as number | undefined;
+    const p = (name: string) => s.params.get(name)?.value;
+    const bars = vs.filter((v) => v.margin !== null).map((v) => ({ label: v.rule, margin: v.margin!, status: v.status }));
+    structures.push({
+      id: s.id,
+      title: s.title,
+      url: urls.structure(s.id),
+      kind: s.kind,
+      array: s.array ?? '',
+      tags: s.tags,
+      file: `${s.pos.file}`,
+      descriptionHtml: s.description ? md.render(s.description) : '',
+      params: [...s.params.values()]
+        .filter((x) => x.origin.type === 'handbook')
+        .map((x) => ({ name: x.name, label: paramLabel(x.name), written: x.written, valueText: formatValue(x.value, x.unit), rangeText: x.low !== undefined ? `${formatValue(x.low, x.unit)} … ${formatValue(x.high ?? null, x.unit)}` : '', description: GEOMETRY_PARAMS[x.name.split('.')[1] ?? '']?.description ?? '' })),
+      materials: Object.entries(s.materialRoles).map(([role, id]) => {
+        const m = h.materials.get(id)!;
+        return {
+          role,
+          id,
+          title: m.title,
+          properties: Object.keys(m.properties).map((prop) => {
+            const param = s.params.get(`materials.${role}.${prop}`)!;
+            return { name: MATERIAL_PROPERTIES[prop]?.description ?? prop, valueText: formatValue(param.value, param.unit), origin: originPhrase(param.origin) };
+          }),
+        };
+      }),
+      quantities: Object.entries(quantities).map(([name, q]) => ({
+        name,
+        title: QUANTITIES.get(name)!.title,
+        url: urls.quantity(name),
+        valueText: q.value === null ? valuePhrase({ value: null, unit: q.unit, ...(q.reason ? { reason: q.reason } : {}), ...(q.unbounded ? { unbounded: q.unbounded } : {}) }) : formatValue(q.value, q.unit),
+      })),
+      incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(name)!.title, missing: missing.join(', ') })),
+      verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
+      worst: worstWord(vs),
+      sectionSvg: renderCrossSection({
+        kind: s.kind,
+        cd: p('geometry.cd') ?? 0,
+        ...(p(isOpening(s.kind) ? 'geometry.depth' : 'geometry.height') !== undefined ? { extent: p(isOpening(s.kind) ? 'geometry.depth' : 'geometry.height')! } : {}),
+        ...(num('geometry.bottom_cd') !== undefined ? { bottomCd: num('geometry.bottom_cd')! } : {}),
+        ...(p('geometry.pitch') !== undefined ? { pitch: p('geometry.pitch')! } : {}),
+        ...(p('geometry.wall') !== undefined ? { wall: p('geometry.wall')! } : {}),
+      }),
+      chartSvg: bars.length ? await renderChart(marginChartSpec(bars, `Margin of ${s.id} to each rule`)) : '',
+    });
+  }
+
+  const verdictAt = new Map(results.verdicts.map((v) => [`${v.rule}\u0000${v.structure}`, v]));
+  const matrix = {
+    rules: h.rules.map((r) => ({ id: r.id, title: r.title, url: urls.rule(r.id) })),
+    rows: h.structures.map((s) => ({
+      id: s.id,
+      title: s.title,
+      url: urls.structure(s.id),
+      cells: h.rules.map((r) => {
+        const v = verdictAt.get(`${r.id}\u0000${s.id}`)!;
+        const scopedCell = inScope(v);
+        return {
+          status: scopedCell ? v.status : 'out-of-scope',
+          advisory: scopedCell && v.status === 'fail' && v.severity === 'advisory',
+          short: !scopedCell ? '' : v.status === 'pass' || v.status === 'fail' ? formatMargin(v.margin) : v.status === 'incomplete' ? '?' : 'n/a',
+          url: scopedCell ? urls.verdict(r.id, s.id) : '',
+          label: `${r.id} on ${s.id}: ${scopedCell ? STATUS_WORDS[v.status] : 'outside the rule’s scope'}${v.margin !== null ? `, margin ${formatMargin(v.margin)}` : ''}`,
+        };
+      }),
+    })),
+  };
+
+  const engines = ENGINES.map((e) => ({
+    id: e.id,
+    title: e.title,
+    summary: e.summary,
+    url: urls.engine(e.id),
+    quantities: e.quantities.map((q) => ({
+      name: q.name,
+      anchor: q.name.replace('.', '-'),
+      title: q.title,
+      unitText: q.unit === '1' ? 'dimensionless' : q.unit,
+      symbolHtml: texToMathml(q.symbol),
+      description: q.description,
+      source: q.source,
+      assumptions: q.assumptions ?? [],
+      validity: (q.validity ?? []).map((c) => c.why),
+      variants: variantsOf(q.name),
+    })),
+  }));
+
+  const blocking = verdictPages.filter((v) => v.status === 'fail' && v.severity === 'blocking');
+  return {
+    meta: { title: h.meta.title, organisation: h.meta.organisation ?? '', summaryHtml: h.meta.summary ? md.render(h.meta.summary) : '' },
+    caution: CAUTION,
+    counts: results.counts,
+    scopedCount: scoped.length,
+    blockingFailures: results.blockingFailures,
+    blocking: blocking.map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, valueText: v.valueText, limitText: v.limitText, marginText: v.marginText, ruleTitle: v.ruleTitle })),
+    advisoryFailures: verdictPages.filter((v) => v.status === 'fail' && v.severity !== 'blocking').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, marginText: v.marginText, ruleTitle: v.ruleTitle })),
+    incompletes: verdictPages.filter((v) => v.status === 'incomplete').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, missing: v.missing.join(', '), ruleTitle: v.ruleTitle })),
+    countsSvg: await renderChart(countsChartSpec(results.counts as unknown as Record<string, number>)),
+    rules,
+    structures,
+    verdicts: verdictPages,
+    matrix,
+    engines,
+    schemas: Object.entries(SCHEMAS).map(([file, make]) => ({ file, url: `/schemas/${file}`, json: JSON.stringify(make(), null, 2) })),
+  };
+}
+
+export type ReportData = Awaited<ReturnType<typeof assembleReport>>;
+
+function scopeText(rule: Rule): string {
+  const a = rule.appliesTo;
+  const parts: string[] = [];
+  if (a.kinds) parts.push(`kinds ${a.kinds.join(', ')}`);
+  if (a.tags) parts.push(`tagged ${a.tags.join(' or ')}`);
+  if (a.structures) parts.push(`structures ${a.structures.join(', ')}`);
+  return parts.length ? parts.join('; ') : 'every structure';
+}
+
+function worstWord(vs: Verdict[]): string {
+  if (vs.some((v) => v.status === 'fail' && v.severity === 'blocking')) return 'fail';
+  if (vs.some((v) => v.status === 'fail')) return 'fail-advisory';
+  if (vs.some((v) => v.status === 'incomplete')) return 'incomplete';
+  if (vs.some((v) => v.status === 'pass')) return 'pass';
+  return 'not-applicable';
+}
+
+/** Formula of each variant a quantity has, for the methods page. */
+function variantsOf(name: string): Array<{ label: string; formulaHtml: string }> {
+  const q = QUANTITIES.get(name)!;
+  const seen = new Map<string, string[]>();
+  const shapes = [
+    { kind: 'hole', array: 'hexagonal' },
+    { kind: 'hole', array: 'square' },
+    { kind: 'via', array: 'square' },
+    { kind: 'trench', array: 'lines' },
+    { kind: 'pillar', array: 'hexagonal' },
+    { kind: 'pillar', array: 'square' },
+    { kind: 'cylinder', array: 'hexagonal' },
+    { kind: 'line', array: 'lines' },
+  ] as const;
+  for (const shape of shapes) {
+    const v = q.variant(shape);
+    if (!('formula' in v)) continue;
+    const list = seen.get(v.formula) ?? [];
+    list.push(shape.kind === 'trench' || shape.kind === 'line' ? shape.kind : `${shape.kind} (${shape.array})`);
+    seen.set(v.formula, list);
+  }
+  return [...seen.entries()].map(([formula, kinds]) => ({ label: [...new Set(kinds)].join(', '), formulaHtml: texToMathml(formula, true) }));
+}

@@ -1,0 +1,74 @@
+// Shared test helpers: relative comparison, degrees, and Structure/Rule builders that bypass YAML
+// so engine and checker tests state their inputs directly in SI.
+import { expect } from 'vitest';
+import type { ArrayLayout, Kind, Param, Rule, Structure } from '../src/model/types.ts';
+
+/** Assert `actual` equals `expected` to `digits` significant decimal places, relatively. */
+export function expectRel(actual: number | null | undefined, expected: number, digits = 9): void {
+  expect(actual).not.toBeNull();
+  expect(actual).toBeTypeOf('number');
+  if (expected === 0) {
+    expect(actual as number).toBeCloseTo(0, digits);
+    return;
+  }
+  expect((actual as number) / expected).toBeCloseTo(1, digits);
+}
+
+export const deg = (d: number): number => (d * Math.PI) / 180;
+export const nm = 1e-9;
+export const um = 1e-6;
+
+/** A value, or [value, low, high] for a toleranced one. */
+export type P = number | [number, number, number];
+
+const POS = { file: 'test', line: 1, column: 1 };
+
+/** Build a Structure in SI, geometry keys without the `geometry.` prefix. */
+export function makeStructure(
+  kind: Kind,
+  geometry: Record<string, P>,
+  opts: { id?: string; array?: ArrayLayout; tags?: string[] } = {},
+): Structure {
+  const params = new Map<string, Param>();
+  for (const [k, v] of Object.entries(geometry)) {
+    const name = `geometry.${k}`;
+    const unit = k === 'sidewall_angle' ? 'rad' : 'm';
+    const [value, low, high] = Array.isArray(v) ? v : [v, undefined, undefined];
+    params.set(name, {
+      name,
+      value,
+      ...(low !== undefined ? { low, high } : {}),
+      unit,
+      written: String(value),
+      origin: { type: 'handbook', pos: POS },
+    });
+  }
+  const array = opts.array ?? (kind === 'trench' || kind === 'line' ? 'lines' : undefined);
+  return {
+    id: opts.id ?? `test-${kind}`,
+    title: `test ${kind}`,
+    kind,
+    ...(array ? { array } : {}),
+    tags: opts.tags ?? [],
+    params,
+    materialRoles: {},
+    file: 'test',
+    pos: POS,
+  };
+}
+
+export function makeRule(r: Partial<Rule> & Pick<Rule, 'quantity' | 'comparison' | 'limit'>): Rule {
+  return {
+    id: 'TEST-1',
+    title: 'test rule',
+    appliesTo: {},
+    limitWritten: String(r.limit),
+    evaluateAt: 'nominal',
+    severity: 'blocking',
+    rationale: '',
+    references: [],
+    file: 'test',
+    pos: POS,
+    ...r,
+  };
+}
