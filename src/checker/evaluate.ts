@@ -196,57 +196,93 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
   return { inputs, steps };
 }
 
-/** Plans are per structure and quantity; rules sharing a quantity share a plan. */
+interface Evaluated {
+  nominal: Point;
+  decisive: Point;
+  corners?: number;
+  worstCorner: CornerNote[];
+  trace: Trace;
+}
+
+/**
+ * Plans are per structure and quantity, and evaluations per structure, quantity, mode and
+ * direction: rules that share a quantity (one at_least, one at_most, or the same limit checked
+ * at several severities) share the corner sweep and its trace.
+ */
 export class PlanCache {
-  private readonly cache = new Map<Structure, Map<string, Plan>>();
+  private readonly plans = new Map<Structure, Map<string, Plan>>();
+  private readonly evaluations = new Map<Structure, Map<string, Evaluated>>();
   get(s: Structure, quantity: string): Plan {
-    let byQ = this.cache.get(s);
-    if (!byQ) this.cache.set(s, (byQ = new Map()));
+    let byQ = this.plans.get(s);
+    if (!byQ) this.plans.set(s, (byQ = new Map()));
     let plan = byQ.get(quantity);
     if (!plan) byQ.set(quantity, (plan = buildPlan(s, quantity)));
     return plan;
   }
+  evaluate(s: Structure, plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Comparison): Evaluated {
+    let byKey = this.evaluations.get(s);
+    if (!byKey) this.evaluations.set(s, (byKey = new Map()));
+    const key = `${plan.quantity}|${mode}|${mode === 'nominal' ? '' : comparison}`;
+    let e = byKey.get(key);
+    if (!e) {
+      const r = evaluatePlan(plan, mode, comparison);
+      const worstCorner = plan.params.flatMap((p, i): CornerNote[] => {
+        const side = r.decisive.sides[i];
+        return side === 'low' || side === 'high' ? [{ name: p.name, side, value: r.decisive.inputs[i]! }] : [];
+      });
+      e = { ...r, worstCorner, trace: traceOf(plan, r.decisive) };
+      byKey.set(key, e);
+    }
+    return e;
+  }
 }
 
 export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdict {
-  const base = {
+  const unit = QUANTITIES.get(rule.quantity)?.unit ?? '1';
+  const verdict = (status: Status, reason?: string, missing?: string[]): Verdict => ({
     rule: rule.id,
     structure: s.id,
+    status,
     severity: rule.severity,
     quantity: rule.quantity,
-    unit: QUANTITIES.get(rule.quantity)?.unit ?? '1',
+    unit,
     comparison: rule.comparison,
     limit: rule.limit,
-    evaluateAt: rule.evaluateAt,
     value: null,
+    ...(reason !== undefined ? { reason } : {}),
     margin: null,
-  } as const;
-  if (!appliesTo(rule, s)) return { ...base, status: 'not-applicable', reason: 'outside the scope the rule applies to' };
+    evaluateAt: rule.evaluateAt,
+    ...(missing ? { missing } : {}),
+  });
+  if (!appliesTo(rule, s)) return verdict('not-applicable', 'outside the scope the rule applies to');
   const plan = plans.get(s, rule.quantity);
-  if (plan.status === 'not-applicable') return { ...base, status: 'not-applicable', reason: plan.reason };
-  if (plan.status === 'incomplete') return { ...base, status: 'incomplete', missing: plan.missing, reason: `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}` };
+  if (plan.status === 'not-applicable') return verdict('not-applicable', plan.reason);
+  if (plan.status === 'incomplete') return verdict('incomplete', `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}`, plan.missing);
 
-  const { nominal, decisive, corners } = evaluatePlan(plan, rule.evaluateAt, rule.comparison);
-  const v = comparable(decisive);
+  const e = plans.evaluate(s, plan, rule.evaluateAt, rule.comparison);
+  const d = e.decisive;
+  const v = comparable(d);
   const pass = Number.isNaN(v) ? false : rule.comparison === 'at_least' ? v >= rule.limit : v <= rule.limit;
-  const worstCorner =
-    rule.evaluateAt === 'worst-case'
-      ? plan.params.flatMap((p, i) => {
-          const side = decisive.sides[i];
-          return side === 'low' || side === 'high' ? [{ name: p.name, side, value: decisive.inputs[i]! }] : [];
-        })
-      : undefined;
+  const worstCase = rule.evaluateAt === 'worst-case';
+  // One literal of fixed shape: absent facts are left undefined (and dropped from JSON).
   return {
-    ...base,
+    rule: rule.id,
+    structure: s.id,
     status: pass ? 'pass' : 'fail',
-    value: decisive.value,
-    ...(decisive.value === null ? { reason: decisive.reason ?? 'no value' } : {}),
-    ...(decisive.unbounded ? { unbounded: decisive.unbounded } : {}),
-    ...(rule.evaluateAt === 'worst-case' ? { nominal: nominal.value } : {}),
-    margin: decisive.value === null ? null : margin(decisive.value, rule.limit, rule.comparison),
-    ...(corners !== undefined ? { corners } : {}),
-    ...(worstCorner ? { worstCorner } : {}),
-    trace: traceOf(plan, decisive),
+    severity: rule.severity,
+    quantity: rule.quantity,
+    unit,
+    comparison: rule.comparison,
+    limit: rule.limit,
+    value: d.value,
+    reason: d.value === null ? (d.reason ?? 'no value') : undefined,
+    unbounded: d.unbounded,
+    nominal: worstCase ? e.nominal.value : undefined,
+    margin: d.value === null ? null : margin(d.value, rule.limit, rule.comparison),
+    evaluateAt: rule.evaluateAt,
+    corners: e.corners,
+    worstCorner: worstCase ? e.worstCorner : undefined,
+    trace: e.trace,
   };
 }
 

@@ -65,6 +65,10 @@ class FileReport {
   }
 }
 
+function isMapping(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
 function jsonType(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
@@ -259,20 +263,24 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const { src, report } = loaded;
   const v = getValidators().structure;
   const raw = src.value as Record<string, unknown>;
-  if (!v(raw)) {
+  const schemaOk = v(raw);
+  if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === '' ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'materials'] : ptr === '/geometry' ? [...Object.keys(GEOMETRY_PARAMS), 'array'] : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
-    return null;
+    // Keep checking values, units and materials so one run reports every problem in the file;
+    // only a file that is not a mapping at all stops here.
+    if (!isMapping(raw)) return null;
   }
   const id = String(raw.id);
+  const kindKnown = (KINDS as readonly unknown[]).includes(raw.kind);
   const kind = raw.kind as Kind;
   const stem = basename(src.file, extname(src.file));
-  if (stem !== id) report.add('bad-value', '/id', { expected: `the file name "${stem}" (a structure's id is its file name)`, found: `"${id}"` });
+  if (typeof raw.id === 'string' && stem !== id) report.add('bad-value', '/id', { expected: `the file name "${stem}" (a structure's id is its file name)`, found: `"${id}"` });
 
   const params = new Map<string, Param>();
-  const geometry = (raw.geometry ?? {}) as Record<string, unknown>;
-  const allowed = GEOMETRY_BY_KIND[kind] ?? [];
+  const geometry = isMapping(raw.geometry) ? raw.geometry : {};
+  const allowed = kindKnown ? (GEOMETRY_BY_KIND[kind] ?? []) : Object.keys(GEOMETRY_PARAMS);
   for (const [name, spec] of Object.entries(GEOMETRY_PARAMS)) {
     if (geometry[name] === undefined) continue;
     if (!allowed.includes(name)) {
@@ -282,8 +290,10 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     const r = readValue(report, `/geometry/${name}`, geometry[name], spec);
     if (r) params.set(`geometry.${name}`, { name: `geometry.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/geometry/${name}`) } });
   }
-  let array = geometry.array as ArrayLayout | undefined;
-  if (isElongated(kind)) {
+  let array = typeof geometry.array === 'string' ? (geometry.array as ArrayLayout) : undefined;
+  if (!kindKnown) {
+    // The kind was reported; nothing kind-specific can be checked.
+  } else if (isElongated(kind)) {
     if (array !== undefined && array !== 'lines') report.add('bad-value', '/geometry/array', { expected: `lines (a ${kind} array is a set of parallel lines)`, found: array });
     array = 'lines';
   } else if (array === 'lines') {
@@ -296,10 +306,11 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (cd && wall && 2 * wall.value >= cd.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than half the CD', found: `"${wall.written}"` });
 
   const materialRoles: Record<string, string> = {};
-  const mats = (raw.materials ?? {}) as Record<string, unknown>;
+  const mats = isMapping(raw.materials) ? raw.materials : {};
   for (const [role, use] of Object.entries(mats)) {
-    const isInline = typeof use === 'object' && use !== null;
-    const materialId = isInline ? String((use as Record<string, unknown>).material) : String(use);
+    const isInline = isMapping(use);
+    if (isInline ? typeof use.material !== 'string' : typeof use !== 'string') continue; // reported by the schema
+    const materialId = isInline ? String(use.material) : String(use);
     const pointer = isInline ? `/materials/${role}/material` : `/materials/${role}`;
     const material = materials.get(materialId);
     if (!material) {
@@ -326,6 +337,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
   }
 
+  if (!schemaOk) return null;
   return {
     id,
     title: String(raw.title),
@@ -340,20 +352,29 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   };
 }
 
-function rulesFromFile(loaded: Loaded): Rule[] {
+interface LocatedRule {
+  rule: Rule;
+  /** Pointer to the rule's id within its file. */
+  idPointer: string;
+}
+
+function rulesFromFile(loaded: Loaded): LocatedRule[] {
   const { src, report } = loaded;
   const v = getValidators().rule;
   if (!v(src.value)) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : ['id', 'title', 'applies_to', 'quantity', 'at_least', 'at_most', 'evaluate_at', 'severity', 'rationale', 'references'],
     );
-    return [];
   }
-  const list = Array.isArray(src.value) ? (src.value as Array<Record<string, unknown>>) : [src.value as Record<string, unknown>];
-  const prefix = Array.isArray(src.value) ? (i: number) => `/${i}` : () => '';
-  const rules: Rule[] = [];
+  // Each rule of a list is checked further on its own, so one bad rule does not hide the others.
+  const isList = Array.isArray(src.value);
+  const list = isList ? (src.value as unknown[]) : [src.value];
+  const valid = (x: unknown, i: number): x is Record<string, unknown> =>
+    !(v.errors ?? []).some((e) => (isList ? e.instancePath === `/${i}` || e.instancePath.startsWith(`/${i}/`) : true)) && isMapping(x);
+  const rules: LocatedRule[] = [];
   list.forEach((raw, i) => {
-    const base = prefix(i);
+    if (!valid(raw, i)) return;
+    const base = isList ? `/${i}` : '';
     const quantityName = String(raw.quantity);
     const q = QUANTITIES.get(quantityName);
     if (!q) {
@@ -380,7 +401,7 @@ function rulesFromFile(loaded: Loaded): Rule[] {
     }
     if (!q || limit === null) return;
     const at = (raw.applies_to ?? {}) as Record<string, unknown>;
-    rules.push({
+    rules.push({ idPointer: `${base}/id`, rule: {
       id: String(raw.id),
       title: String(raw.title),
       appliesTo: {
@@ -398,7 +419,7 @@ function rulesFromFile(loaded: Loaded): Rule[] {
       references: (raw.references as string[] | undefined) ?? [],
       file: src.file,
       pos: report.pos(base),
-    });
+    } });
   });
   return rules;
 }
@@ -417,14 +438,19 @@ function loadMeta(root: string, out: Diagnostic[]): HandbookMeta {
   return loaded.src.value as HandbookMeta;
 }
 
-function checkDuplicates(items: Array<{ id: string; pos: SourcePos }>, out: Diagnostic[], idPointerLine: (x: { pos: SourcePos }) => SourcePos): void {
+interface IdPlace {
+  id: string;
+  at: SourcePos;
+  field: string;
+}
+
+function checkDuplicates(items: IdPlace[], out: Diagnostic[]): void {
   const first = new Map<string, SourcePos>();
-  for (const item of items) {
-    const at = idPointerLine(item);
-    const prior = first.get(item.id);
+  for (const { id, at, field } of items) {
+    const prior = first.get(id);
     if (prior) {
-      out.push({ code: 'duplicate-id', file: at.file, line: at.line, column: at.column, field: 'id', found: item.id, other: { file: prior.file, line: prior.line, column: prior.column } });
-    } else first.set(item.id, at);
+      out.push({ code: 'duplicate-id', file: at.file, line: at.line, column: at.column, field, found: id, other: { file: prior.file, line: prior.line, column: prior.column } });
+    } else first.set(id, at);
   }
 }
 
@@ -439,29 +465,28 @@ export function loadHandbook(root: string): LoadResult {
   const meta = loadMeta(root, out);
   const materials = loadMaterials(root, out);
   const structures: Structure[] = [];
-  const idPositions = new Map<object, SourcePos>();
+  const structureIds: IdPlace[] = [];
   for (const path of structureFiles) {
     const loaded = readAndParse(root, path, out);
     if (!loaded) continue;
     const s = structureFromFile(loaded, materials);
     if (s) {
       structures.push(s);
-      idPositions.set(s, loaded.report.pos('/id'));
+      structureIds.push({ id: s.id, at: loaded.report.pos('/id'), field: 'id' });
     }
   }
   const rules: Rule[] = [];
+  const ruleIds: IdPlace[] = [];
   for (const path of ruleFiles) {
     const loaded = readAndParse(root, path, out);
     if (!loaded) continue;
-    for (const r of rulesFromFile(loaded)) {
-      rules.push(r);
-      const ptr = Array.isArray(loaded.src.value) ? `/${(loaded.src.value as unknown[]).findIndex((x) => (x as { id?: unknown }).id === r.id)}/id` : '/id';
-      idPositions.set(r, loaded.report.pos(ptr));
+    for (const { rule, idPointer } of rulesFromFile(loaded)) {
+      rules.push(rule);
+      ruleIds.push({ id: rule.id, at: loaded.report.pos(idPointer), field: pointerToField(idPointer) });
     }
   }
-  const at = (x: object) => idPositions.get(x)!;
-  checkDuplicates(structures, out, at);
-  checkDuplicates(rules, out, at);
+  checkDuplicates(structureIds, out);
+  checkDuplicates(ruleIds, out);
   // Rules that name structures must name real ones.
   const ids = structures.map((s) => s.id);
   for (const r of rules) {

@@ -14,8 +14,10 @@ function ensureExtraUnits(): void {
       createUnit(name, { definition });
     }
   };
-  // 1 Torr = 101325/760 Pa exactly (definition of the torr).
+  // 1 Torr = 101325/760 Pa exactly (definition of the torr); mathjs's own lower-case `torr` is a
+  // rounded 133.322 Pa, so both spellings are (re)defined exactly.
   define('Torr', `${101325 / 760} Pa`);
+  createUnit('torr', { definition: `${101325 / 760} Pa` }, { override: true });
   // Langmuir exposure, 1e-6 Torr*s.
   define('Langmuir', `${101325 / 760 * 1e-6} Pa*s`);
   define('ppm', '1e-6');
@@ -130,6 +132,7 @@ export function parseValue(text: string | number, siUnit: string): ParsedValue |
     const suffix = asym[4] ?? '';
     const plus = parseTolerancePart(`${asym[2]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
     const minus = parseTolerancePart(`${asym[3]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
+    for (const part of [plus, minus]) if (typeof part !== 'number' && part.code === 'wrong-dimension') return part;
     if (typeof plus !== 'number' || typeof minus !== 'number' || plus < 0 || minus < 0) {
       return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
     }

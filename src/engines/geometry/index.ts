@@ -31,6 +31,15 @@ export function frustumVolume(d1: number, d2: number, h: number): number {
   return (Math.PI * h * (d1 * d1 + d1 * d2 + d2 * d2)) / 12;
 }
 
+/**
+ * Cavity of a hollow cylinder (a cup): top diameter CD − 2t_w; its floor lies one wall thickness
+ * above the base, where the outer diameter has tapered to CD_b + (CD − CD_b)·t_w/H.
+ */
+export function cavity(cd: number, bottom: number, height: number, wall: number): { top: number; bottom: number; depth: number } {
+  const outerAtFloor = bottom + ((cd - bottom) * wall) / height;
+  return { top: cd - 2 * wall, bottom: outerAtFloor - 2 * wall, depth: height - wall };
+}
+
 /** Area of one array cell, per structure: p² (square), (√3/2)p² (hexagonal), p per unit length (lines). */
 function cellFormula(shape: Shape): { tex: string; area: (p: number) => number } | null {
   if (isElongated(shape.kind)) return { tex: 'p', area: (p) => p };
@@ -197,9 +206,11 @@ const sidewallArea: QuantityDef = {
       return variant({
         inputs: { ...base, wall: 'geometry.wall' },
         symbols,
-        formula: `A_{sw} = \\tfrac{\\pi}{2}(\\mathrm{CD}+\\mathrm{CD}_b)s + \\tfrac{\\pi}{2}(\\mathrm{CD}+\\mathrm{CD}_b-4t_w)s_i,\\; s = ${slant}`,
-        compute: ({ cd, bottom, extent, wall }) =>
-          frustumLateralArea(cd, bottom, extent) + frustumLateralArea(cd - 2 * wall, bottom - 2 * wall, extent - wall),
+        formula: `A_{sw} = \\tfrac{\\pi}{2}(\\mathrm{CD}+\\mathrm{CD}_b)s + \\tfrac{\\pi}{2}(d_i+d_{ib})s_i,\\; s = ${slant},\\; d_i = \\mathrm{CD}-2t_w,\\; d_{ib} = \\mathrm{CD}_b + (\\mathrm{CD}-\\mathrm{CD}_b)\\tfrac{t_w}{${e}} - 2t_w`,
+        compute: ({ cd, bottom, extent, wall }) => {
+          const c = cavity(cd, bottom, extent, wall);
+          return frustumLateralArea(cd, bottom, extent) + frustumLateralArea(c.top, c.bottom, c.depth);
+        },
       });
     }
     return variant({
@@ -218,7 +229,7 @@ const volume: QuantityDef = {
   symbol: 'V',
   description: 'Volume of one opening (what a fill must close), or of the solid body of one standing structure (a hollow cylinder without its cavity).',
   source: `${ELEMENTARY}; frustum volume πh(d₁² + d₁d₂ + d₂²)/12`,
-  assumptions: ['A hollow cylinder is a cup: its cavity reaches down to a bottom plate as thick as its wall.'],
+  assumptions: ['A hollow cylinder is a cup: its cavity reaches down to a bottom plate as thick as its wall, and the wall keeps its thickness, measured across, along the taper.'],
   variant: (shape) => {
     const e = extentSymbol(shape);
     const base = { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', extent: extentInput(shape) };
@@ -235,9 +246,11 @@ const volume: QuantityDef = {
       return variant({
         inputs: { ...base, wall: 'geometry.wall' },
         symbols,
-        formula: `V = \\tfrac{\\pi ${e}}{12}(\\mathrm{CD}^2+\\mathrm{CD}\\,\\mathrm{CD}_b+\\mathrm{CD}_b^2) - \\tfrac{\\pi (${e}-t_w)}{12}(d_i^2+d_i d_{ib}+d_{ib}^2),\\; d_i = \\mathrm{CD}-2t_w`,
-        compute: ({ cd, bottom, extent, wall }) =>
-          frustumVolume(cd, bottom, extent) - frustumVolume(cd - 2 * wall, bottom - 2 * wall, extent - wall),
+        formula: `V = \\tfrac{\\pi ${e}}{12}(\\mathrm{CD}^2+\\mathrm{CD}\\,\\mathrm{CD}_b+\\mathrm{CD}_b^2) - \\tfrac{\\pi (${e}-t_w)}{12}(d_i^2+d_i d_{ib}+d_{ib}^2),\\; d_i = \\mathrm{CD}-2t_w,\\; d_{ib} = \\mathrm{CD}_b + (\\mathrm{CD}-\\mathrm{CD}_b)\\tfrac{t_w}{${e}} - 2t_w`,
+        compute: ({ cd, bottom, extent, wall }) => {
+          const c = cavity(cd, bottom, extent, wall);
+          return frustumVolume(cd, bottom, extent) - frustumVolume(c.top, c.bottom, c.depth);
+        },
       });
     }
     return variant({

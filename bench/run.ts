@@ -1,0 +1,84 @@
+// Benchmarks: speed targets live here, never in timed tests. Run with `npm run bench`.
+// Each case prints its time against its target; the run exits 1 if a target is missed.
+import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { evaluateHandbook } from '../src/checker/evaluate.ts';
+import { loadHandbook } from '../src/model/load.ts';
+import { buildSite } from '../src/report/site.ts';
+
+const KINDS = [
+  { kind: 'hole', extent: 'depth', extra: 'array: hexagonal' },
+  { kind: 'trench', extent: 'depth', extra: 'length: 10 um' },
+  { kind: 'cylinder', extent: 'height', extra: 'array: hexagonal\n  wall: 6 nm ± 0.5 nm' },
+  { kind: 'line', extent: 'height', extra: 'length: 2 um' },
+];
+const QUANTITIES = ['geometry.aspect_ratio', 'geometry.bottom_cd', 'geometry.space', 'geometry.bottom_to_top_ratio', 'geometry.open_area_fraction'];
+
+/** A synthetic handbook folder: `structures` files and `rules` rules, every rule worst-case. */
+function writeHandbook(structures: number, rules: number): string {
+  const root = mkdtempSync(join(tmpdir(), 'plumbline-bench-'));
+  mkdirSync(join(root, 'structures'));
+  mkdirSync(join(root, 'rules'));
+  writeFileSync(join(root, 'handbook.yaml'), 'title: Benchmark handbook\n');
+  for (let i = 0; i < structures; i++) {
+    const k = KINDS[i % KINDS.length]!;
+    const cd = 30 + (i % 17);
+    writeFileSync(
+      join(root, 'structures', `s-${i}.yaml`),
+      `id: s-${i}\ntitle: Structure ${i}\nkind: ${k.kind}\ngeometry:\n  cd: ${cd} nm ± 1.5 nm\n  ${k.extent}: ${0.5 + (i % 9) * 0.2} um ± 20 nm\n  pitch: ${cd * 2} nm\n  sidewall_angle: ${k.kind === 'cylinder' ? 90.1 : 89.5} deg ± 0.1 deg\n  ${k.extra}\n`,
+    );
+  }
+  const list: string[] = [];
+  for (let j = 0; j < rules; j++) {
+    list.push(`- id: R-${j}\n  title: Rule ${j}\n  applies_to: {}\n  quantity: ${QUANTITIES[j % QUANTITIES.length]}\n  at_least: ${j % QUANTITIES.length === 1 || j % QUANTITIES.length === 2 ? '5 nm' : '0.1'}\n  evaluate_at: worst-case\n`);
+  }
+  writeFileSync(join(root, 'rules', 'rules.yaml'), list.join(''));
+  return root;
+}
+
+interface Case {
+  name: string;
+  targetMs: number;
+  run: () => Promise<void> | void;
+}
+
+async function time(c: Case): Promise<boolean> {
+  const t0 = performance.now();
+  await c.run();
+  const ms = performance.now() - t0;
+  const ok = ms <= c.targetMs;
+  console.log(`${ok ? 'ok  ' : 'MISS'} ${c.name}: ${ms.toFixed(0)} ms (target ≤ ${c.targetMs} ms)`);
+  return ok;
+}
+
+const big = writeHandbook(1000, 100);
+const loaded = loadHandbook(big);
+if (!loaded.ok) throw new Error(JSON.stringify(loaded.diagnostics.slice(0, 3)));
+const mid = process.env.BENCH_SITE === "0" ? "" : writeHandbook(200, 100);
+
+const cases: Case[] = [
+  { name: 'load and validate 1,000 structure files and 100 rules', targetMs: 3000, run: () => void loadHandbook(big) },
+  {
+    name: 'evaluate 100,000 verdicts with tolerance corners',
+    targetMs: 1000,
+    run: () => {
+      const r = evaluateHandbook(loaded.handbook);
+      if (r.verdicts.length !== 100_000) throw new Error('wrong verdict count');
+    },
+  },
+  ...(mid === '' ? [] : [{
+    name: 'build the site for 200 structures × 100 rules (matrix of 20,000 cells)',
+    targetMs: 120_000,
+    run: async () => {
+      const h = loadHandbook(mid);
+      if (!h.ok) throw new Error('bench handbook invalid');
+      await buildSite(h.handbook, evaluateHandbook(h.handbook), join(mid, 'site'));
+    },
+  }]),
+];
+
+let allOk = true;
+for (const c of cases) allOk = (await time(c)) && allOk;
+process.exitCode = allOk ? 0 : 1;

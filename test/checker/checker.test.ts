@@ -1,0 +1,267 @@
+// Checker semantics: verdicts, signed margins, worst-case corners, not-applicable, incomplete,
+// unbounded and undefined values, determinism. The margin convention and the verdict rules are the
+// design brief's ("Verdicts"); every expected value is worked by hand in the comment beside it.
+import { fileURLToPath } from 'node:url';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { evaluateHandbook, evaluateRule, margin, PlanCache, type Verdict } from '../../src/checker/evaluate.ts';
+import { loadHandbook } from '../../src/model/load.ts';
+import type { Handbook, Rule, Structure } from '../../src/model/types.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
+
+const DEMO_ROOT = fileURLToPath(new URL('../../', import.meta.url));
+
+function verdict(rule: Rule, s: Structure): Verdict {
+  return evaluateRule(rule, s, new PlanCache());
+}
+
+/** Hole 100 nm ± 10 nm wide, 1000 nm ± 50 nm deep: nominal aspect ratio 1000/100 = 10 (hand). */
+const arHole = () => makeStructure('hole', { cd: [100 * nm, 90 * nm, 110 * nm], depth: [1000 * nm, 950 * nm, 1050 * nm] }, { id: 'ar-hole', tags: ['probe'] });
+
+const sortCorner = (c: Verdict['worstCorner']) => [...(c ?? [])].sort((a, b) => a.name.localeCompare(b.name));
+
+describe('margin: signed and relative, positive passes (design brief)', () => {
+  it('is (value − limit)/|limit| for at_least', () => {
+    // (12 − 10)/10 = +0.2; (8 − 10)/10 = −0.2 (hand).
+    expectRel(margin(12, 10, 'at_least'), 0.2, 12);
+    expectRel(margin(8, 10, 'at_least'), -0.2, 12);
+  });
+
+  it('is (limit − value)/|limit| for at_most', () => {
+    // (10 − 12)/10 = −0.2; (10 − 8)/10 = +0.2 (hand).
+    expectRel(margin(12, 10, 'at_most'), -0.2, 12);
+    expectRel(margin(8, 10, 'at_most'), 0.2, 12);
+  });
+
+  it('uses the magnitude of a negative limit', () => {
+    // at_least −4 with value −2: (−2 − (−4))/4 = +0.5 (hand).
+    expectRel(margin(-2, -4, 'at_least'), 0.5, 12);
+  });
+
+  it('carries the sign into the verdict at nominal', () => {
+    // A hole 1200 nm deep, 100 nm wide: aspect ratio 12 (hand).
+    const s = makeStructure('hole', { cd: 100 * nm, depth: 1200 * nm });
+    const least = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_least', limit: 10 }), s);
+    const most = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 10 }), s);
+    expect(least.status).toBe('pass');
+    expectRel(least.value, 12, 12);
+    expectRel(least.margin, 0.2, 12); // (12 − 10)/10
+    expect(most.status).toBe('fail');
+    expectRel(most.margin, -0.2, 12); // (10 − 12)/10
+  });
+
+  it('passes a value exactly at the limit', () => {
+    // 2.5/0.25 = 10 exactly in binary floating point (both are dyadic), so "at least 10" and
+    // "at most 10" both hold with margin 0: the comparisons are inclusive.
+    const s = makeStructure('hole', { cd: 0.25, depth: 2.5 });
+    const least = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_least', limit: 10 }), s);
+    const most = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 10 }), s);
+    expect([least.status, most.status]).toEqual(['pass', 'pass']);
+    expect([least.margin, most.margin]).toEqual([0, 0]);
+  });
+});
+
+describe('worst case over tolerance corners', () => {
+  it('takes the highest value for at_most: deepest and narrowest corner', () => {
+    // AR = D/CD is largest at D high, CD low: 1050/90 = 11.6667 (hand). Margin (12 − 11.6667)/12 = +0.027778.
+    const v = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 12, evaluateAt: 'worst-case' }), arHole());
+    expect(v.status).toBe('pass');
+    expectRel(v.value, 1050 / 90, 12);
+    expectRel(v.nominal, 10, 12);
+    expectRel(v.margin, (12 - 1050 / 90) / 12, 12);
+    expect(v.corners).toBe(4); // two toleranced inputs → 2² corners
+    expect(sortCorner(v.worstCorner).map((c) => [c.name, c.side])).toEqual([
+      ['geometry.cd', 'low'],
+      ['geometry.depth', 'high'],
+    ]);
+    const cd = sortCorner(v.worstCorner)[0]!;
+    expectRel(cd.value, 90 * nm, 12);
+  });
+
+  it('takes the lowest value for at_least: shallowest and widest corner', () => {
+    // 950/110 = 8.63636 (hand): below a limit of 9, so the rule fails though the nominal 10 passes.
+    const v = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_least', limit: 9, evaluateAt: 'worst-case' }), arHole());
+    expect(v.status).toBe('fail');
+    expectRel(v.value, 950 / 110, 12);
+    expectRel(v.margin, (950 / 110 - 9) / 9, 12);
+    expect(sortCorner(v.worstCorner).map((c) => [c.name, c.side])).toEqual([
+      ['geometry.cd', 'high'],
+      ['geometry.depth', 'low'],
+    ]);
+  });
+
+  it('evaluates at nominal only when the rule asks for nominal', () => {
+    // The same rule at nominal: 1000/100 = 10 ≥ 9 passes; no corners are reported.
+    const v = verdict(makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_least', limit: 9, evaluateAt: 'nominal' }), arHole());
+    expect(v.status).toBe('pass');
+    expectRel(v.value, 10, 12);
+    expect(v.worstCorner).toBeUndefined();
+    expect(v.corners).toBeUndefined();
+  });
+
+  it('uses the same value of an input in every step that reads it', () => {
+    // bottom_to_top_ratio = (CD − 2D cot θ)/CD reads CD twice (directly and through bottom_cd).
+    // Lowest at CD low, D high: (90 − 2·1050·tan 1°)/90 = (90 − 36.6556)/90 = 0.592716 (hand).
+    const s = makeStructure('hole', { cd: [100 * nm, 90 * nm, 110 * nm], depth: [1000 * nm, 950 * nm, 1050 * nm], sidewall_angle: deg(89) });
+    const v = verdict(makeRule({ quantity: 'geometry.bottom_to_top_ratio', comparison: 'at_least', limit: 0.5, evaluateAt: 'worst-case' }), s);
+    expectRel(v.value, (90 - 2 * 1050 * Math.tan(deg(1))) / 90, 12);
+    expect(v.corners).toBe(4);
+  });
+});
+
+describe('scope and missing inputs', () => {
+  it('is not-applicable when applies_to excludes the structure', () => {
+    const s = arHole(); // a hole tagged "probe", id "ar-hole"
+    const base = { quantity: 'geometry.aspect_ratio', comparison: 'at_most' as const, limit: 100 };
+    expect(verdict(makeRule({ ...base, appliesTo: { kinds: ['trench'] } }), s).status).toBe('not-applicable');
+    expect(verdict(makeRule({ ...base, appliesTo: { tags: ['periphery'] } }), s).status).toBe('not-applicable');
+    expect(verdict(makeRule({ ...base, appliesTo: { structures: ['other'] } }), s).status).toBe('not-applicable');
+    expect(verdict(makeRule({ ...base, appliesTo: { kinds: ['hole'], tags: ['probe'], structures: ['ar-hole'] } }), s).status).toBe('pass');
+  });
+
+  it('is not-applicable when the quantity does not apply to the kind', () => {
+    const s = makeStructure('pillar', { cd: 30 * nm, height: 1 * um, sidewall_angle: deg(89) });
+    const v = verdict(makeRule({ quantity: 'geometry.closure_depth', comparison: 'at_least', limit: 1e-6 }), s);
+    expect(v.status).toBe('not-applicable');
+    expect(v.value).toBeNull();
+  });
+
+  it('is incomplete, never a pass, when an input is missing, and lists it', () => {
+    const s = makeStructure('hole', { cd: 22 * nm, depth: 180 * nm });
+    const v = verdict(makeRule({ quantity: 'geometry.bottom_cd', comparison: 'at_least', limit: 1e-9, evaluateAt: 'worst-case' }), s);
+    expect(v.status).toBe('incomplete');
+    expect(v.missing).toEqual(['geometry.sidewall_angle']);
+    expect(v.value).toBeNull();
+    expect(v.margin).toBeNull();
+  });
+});
+
+describe('values that are unbounded or do not exist', () => {
+  // Vertical hole: its closure depth is unbounded above (tan 90° is infinite).
+  const vertical = () => makeStructure('hole', { cd: 100 * nm, depth: 1 * um, sidewall_angle: deg(90) });
+
+  it('passes an at_least rule on an unbounded-above value', () => {
+    const v = verdict(makeRule({ quantity: 'geometry.closure_depth', comparison: 'at_least', limit: 2e-6 }), vertical());
+    expect(v.status).toBe('pass');
+    expect(v.value).toBeNull();
+    expect(v.unbounded).toBe('above');
+    expect(v.margin).toBeNull();
+  });
+
+  it('fails an at_most rule on an unbounded-above value', () => {
+    const v = verdict(makeRule({ quantity: 'geometry.closure_depth', comparison: 'at_most', limit: 2e-6 }), vertical());
+    expect(v.status).toBe('fail');
+  });
+
+  it('fails any limit on a value that does not exist', () => {
+    // 100 nm at 89° closes at 50 nm · tan 89° = 2864.5 nm (hand); 3 µm deep, it has no bottom.
+    const s = makeStructure('hole', { cd: 100 * nm, depth: 3 * um, sidewall_angle: deg(89) });
+    for (const comparison of ['at_least', 'at_most'] as const) {
+      const v = verdict(makeRule({ quantity: 'geometry.bottom_cd', comparison, limit: 1e-9 }), s);
+      expect(v.status, comparison).toBe('fail');
+      expect(v.value).toBeNull();
+      expect(v.unbounded).toBeUndefined();
+      expect(v.reason).toBeTruthy();
+    }
+  });
+
+  it('treats a corner with no value as the worst corner', () => {
+    // 2800 ± 100 nm deep at 89°: the 2900 nm corner passes the 2864.5 nm closure depth and has no bottom;
+    // the nominal bottom is 100 − 2·2800·tan 1° = 100 − 97.7484 = 2.2516 nm (hand).
+    const s = makeStructure('hole', { cd: 100 * nm, depth: [2800 * nm, 2700 * nm, 2900 * nm], sidewall_angle: deg(89) });
+    for (const comparison of ['at_least', 'at_most'] as const) {
+      const v = verdict(makeRule({ quantity: 'geometry.bottom_cd', comparison, limit: 1 * nm, evaluateAt: 'worst-case' }), s);
+      expect(v.status, comparison).toBe('fail');
+      expect(v.value).toBeNull();
+      expect(v.margin).toBeNull();
+      expectRel(v.nominal, 100 * nm - 2 * 2800 * nm * Math.tan(deg(1)), 12);
+      expect(v.worstCorner?.map((c) => [c.name, c.side])).toEqual([['geometry.depth', 'high']]);
+    }
+  });
+});
+
+describe('the demo handbook, verdict by verdict', () => {
+  let handbook: Handbook;
+  beforeAll(() => {
+    const loaded = loadHandbook(DEMO_ROOT);
+    if (!loaded.ok) throw new Error(`demo handbook does not load: ${JSON.stringify(loaded.diagnostics)}`);
+    handbook = loaded.handbook;
+  });
+
+  const tanDeg = (d: number) => Math.tan(deg(d));
+  // Worst corners worked by hand from structures/*.yaml and rules/*.yaml. For a straight taper the
+  // bottom CD of an opening is CD − 2D·cot θ (cot θ = tan(90° − θ)); of a standing body CD + 2H·cot θ.
+  const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null]> = [
+    // 7.2 µm + 0.1 µm over 110 nm − 5 nm: 7300/105 = 69.524 ≤ 70.
+    ['CH-AR-1', 'channel-hole', 'pass', 7300 / 105],
+    // θ low 89.82°: 105 nm − 2·7.3 µm·tan 0.18° = 105 − 45.867 = 59.13 nm ≥ 55 nm.
+    ['CH-BOTTOM-1', 'channel-hole', 'pass', 105 * nm - 2 * 7.3 * um * tanDeg(0.18)],
+    // bitline-contact has no sidewall_angle.
+    ['CT-BOTTOM-1', 'bitline-contact', 'incomplete', null],
+    // (62 − 3)/(9 + 1) = 5.9 ≥ 5.
+    ['FIN-AR-1', 'periphery-fin', 'pass', 59 / 10],
+    // (62 + 3)/(9 − 1) = 8.125 ≤ 10.
+    ['FIN-AR-2', 'periphery-fin', 'pass', 65 / 8],
+    // Widest base: 10 nm + 2·65 nm·tan 1.5° = 10 + 3.4042 = 13.404 nm ≤ 14 nm.
+    ['FIN-BASE-1', 'periphery-fin', 'pass', 10 * nm + 2 * 65 * nm * tanDeg(1.5)],
+    // (230 + 10)/(24 − 2) = 10.909 ≤ 11.
+    ['ISO-AR-1', 'cell-isolation-trench', 'pass', 240 / 22],
+    // Pitch − widest CD (the top, θ < 90°): 64 − 26 = 38 nm ≥ 36 nm.
+    ['ISO-ACTIVE-1', 'cell-isolation-trench', 'pass', 38 * nm],
+    // 22 nm − 2·240 nm·tan 1.8° = 22 − 15.085 = 6.915 nm < 8 nm (advisory).
+    ['ISO-BOTTOM-1', 'cell-isolation-trench', 'fail', 22 * nm - 2 * 240 * nm * tanDeg(1.8)],
+    // (38 nm / 2)·tan 89.5° = 19 · 114.589 = 2177.2 nm ≥ 2.1 µm.
+    ['MH-CLOSE-1', 'storage-node-mold-hole', 'pass', 19 * nm * tanDeg(89.5)],
+    // (38 − 2·1980·tan 0.5°)/38 = (38 − 34.558)/38 = 0.0906 < 0.33 (blocking).
+    ['MH-TAPER-1', 'storage-node-mold-hole', 'fail', (38 * nm - 2 * 1980 * nm * tanDeg(0.5)) / (38 * nm)],
+    // 1.94 µm / 32.5 nm = 59.69 ≤ 60.
+    ['SN-AR-1', 'storage-node', 'pass', 1940 / 32.5],
+    // Re-entrant (90.25°) body narrows to its base: 32.5 nm − 2·1.94 µm·tan 0.25° = 32.5 − 16.930 = 15.570 nm ≥ 15 nm.
+    ['SN-BASE-1', 'storage-node', 'pass', 32.5 * nm - 2 * 1940 * nm * tanDeg(0.25)],
+    // Base narrower than top, so the gap is 52 − 35.5 = 16.5 nm ≥ 14 nm.
+    ['SN-SPACE-1', 'storage-node', 'pass', 16.5 * nm],
+    // (110 + 2)/(8 − 0.3) = 14.545 ≤ 15.
+    ['TSV-AR-1', 'package-tsv', 'pass', 112 / 7.7],
+    // Nominal, square array: π·8²/(4·40²) = 0.031416 ≤ 0.05.
+    ['TSV-DENSITY-1', 'package-tsv', 'pass', (Math.PI * 64) / (4 * 1600)],
+  ];
+
+  it('has exactly the applicable verdicts worked out by hand, with their values', () => {
+    const results = evaluateHandbook(handbook);
+    const applicable = results.verdicts.filter((v) => v.status !== 'not-applicable');
+    expect(applicable.map((v) => `${v.rule}/${v.structure}`).sort()).toEqual(expected.map(([r, s]) => `${r}/${s}`).sort());
+    for (const [rule, structure, status, value] of expected) {
+      const v = applicable.find((x) => x.rule === rule && x.structure === structure)!;
+      expect(v.status, `${rule} on ${structure}`).toBe(status);
+      if (value === null) expect(v.value).toBeNull();
+      else expectRel(v.value, value, 9);
+    }
+  });
+
+  it('counts 13 pass, 2 fail (1 blocking), 1 incomplete, 96 not applicable', () => {
+    // 16 rules × 7 structures = 112 pairs; the 16 in the table above apply, so 96 do not.
+    const r = evaluateHandbook(handbook);
+    expect(r.counts).toEqual({ pass: 13, fail: 2, incomplete: 1, 'not-applicable': 96 });
+    expect(r.blockingFailures).toBe(1);
+  });
+
+  it('names the worst corner of SN-AR-1: height high, cd low', () => {
+    const v = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-AR-1' && x.structure === 'storage-node')!;
+    const corner = sortCorner(v.worstCorner);
+    expect(corner.map((c) => [c.name, c.side])).toEqual([
+      ['geometry.cd', 'low'],
+      ['geometry.height', 'high'],
+    ]);
+    expectRel(corner[0]!.value, 32.5 * nm, 12); // 34 − 1.5 nm
+    expectRel(corner[1]!.value, 1.94 * um, 12); // 1.9 µm + 40 nm
+    expectRel(v.nominal, 1900 / 34, 12); // 55.88
+  });
+
+  it('gives byte-identical JSON when the handbook is loaded and evaluated twice', () => {
+    const again = loadHandbook(DEMO_ROOT);
+    if (!again.ok) throw new Error('demo handbook does not load');
+    const a = JSON.stringify(evaluateHandbook(handbook));
+    const b = JSON.stringify(evaluateHandbook(again.handbook));
+    expect(a.length).toBeGreaterThan(1000);
+    expect(b).toBe(a);
+  });
+});
