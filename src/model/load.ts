@@ -252,7 +252,7 @@ function loadMaterials(root: string, out: Diagnostic[]): Map<string, Material> {
     for (const [name, spec] of Object.entries(MATERIAL_PROPERTIES)) {
       if (entry[name] === undefined) continue;
       const r = readValue(report, `/${i}/${name}`, entry[name], spec);
-      if (r) properties[name] = { value: r.value, unit: spec.unit, written: r.written, source };
+      if (r) properties[name] = { ...r, unit: spec.unit, source };
     }
     materials.set(id, { id, title: String(entry.title), properties, origin: 'handbook', file: src.file });
   });
@@ -322,6 +322,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
       params.set(`materials.${role}.${prop}`, {
         name: `materials.${role}.${prop}`,
         value: mp.value,
+        ...(mp.low !== undefined ? { low: mp.low, high: mp.high } : {}),
         unit: mp.unit,
         written: mp.written,
         origin: { type: 'material-table', material: materialId, source: mp.source, pos: report.pos(pointer) },

@@ -82,6 +82,8 @@ export interface Rule {
 
 export interface MaterialProperty {
   value: number;
+  low?: number;
+  high?: number;
   unit: string;
   written: string;
   source: string;

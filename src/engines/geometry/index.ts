@@ -14,9 +14,17 @@ function extentSymbol(shape: Shape): string {
   return isOpening(shape.kind) ? 'D' : 'H';
 }
 
+/** Angles within this of 90° count as vertical: a value written as "90 deg" is exactly vertical. */
+const VERTICAL_TOLERANCE = 1e-9;
+
+/** cot θ, exactly zero for a vertical wall (floating-point cos(π/2) is 6e-17, not 0). */
+export function cotangent(angle: number): number {
+  return Math.abs(angle - Math.PI / 2) < VERTICAL_TOLERANCE ? 0 : Math.cos(angle) / Math.sin(angle);
+}
+
 /** Bottom CD of a straight tapered sidewall. Openings narrow downward when θ < 90°, standing bodies widen. */
 export function bottomCd(cd: number, extent: number, angle: number, opening: boolean): number {
-  const cot = Math.cos(angle) / Math.sin(angle);
+  const cot = cotangent(angle);
   return opening ? cd - 2 * extent * cot : cd + 2 * extent * cot;
 }
 
@@ -124,7 +132,7 @@ const closureDepth: QuantityDef = {
       symbols: { cd: '\\mathrm{CD}', angle: '\\theta' },
       formula: 'D_c = \\frac{\\mathrm{CD}}{2}\\tan\\theta',
       compute: ({ cd, angle }) =>
-        angle >= Math.PI / 2 ? noValue('vertical or re-entrant sidewalls never close', 'above') : (cd / 2) * Math.tan(angle),
+        angle >= Math.PI / 2 - VERTICAL_TOLERANCE ? noValue('vertical or re-entrant sidewalls never close', 'above') : (cd / 2) * Math.tan(angle),
     });
   },
 };
