@@ -6,9 +6,9 @@ import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { isOpening, type Handbook, type Rule, type Structure } from '../model/types.ts';
-import { countsChartSpec, marginChartSpec, renderChart } from './charts.ts';
+import { countsChart, marginChart, valueChart } from './charts.ts';
 import { renderCrossSection } from './cross-section.ts';
-import { formatMargin, formatValue } from './format.ts';
+import { displayScale, formatMargin, formatValue } from './format.ts';
 import { texToMathml } from './math.ts';
 import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from './words.ts';
 
@@ -114,7 +114,11 @@ export async function assembleReport(h: Handbook, results: Results) {
   for (const rule of h.rules) {
     const q = QUANTITIES.get(rule.quantity)!;
     const vs = scoped.filter((v) => v.rule === rule.id);
-    const bars = vs.filter((v) => v.margin !== null).map((v) => ({ label: v.structure, margin: v.margin!, status: v.status }));
+    const scale = displayScale(q.unit, rule.limit);
+    const points = vs
+      .filter((v) => v.value !== null)
+      .map((v) => ({ label: v.structure, value: v.value! * scale.factor, status: v.status, ...(typeof v.nominal === 'number' ? { nominal: v.nominal * scale.factor } : {}) }));
+    const axisTitle = `${q.title}${scale.label ? ` (${scale.label})` : ''}`;
     rules.push({
       id: rule.id,
       title: rule.title,
@@ -134,7 +138,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       file: `${rule.pos.file}:${rule.pos.line}`,
       verdicts: vs.map((v) => row(v, rule, structureById.get(v.structure)!)),
       worst: worstWord(vs),
-      chartSvg: bars.length ? await renderChart(marginChartSpec(bars, `Margin of each structure to ${rule.id}`)) : '',
+      chartSvg: points.length ? await valueChart(points, rule.limit * scale.factor, axisTitle) : '',
     });
   }
 
@@ -186,7 +190,7 @@ export async function assembleReport(h: Handbook, results: Results) {
         ...(p('geometry.pitch') !== undefined ? { pitch: p('geometry.pitch')! } : {}),
         ...(p('geometry.wall') !== undefined ? { wall: p('geometry.wall')! } : {}),
       }),
-      chartSvg: bars.length ? await renderChart(marginChartSpec(bars, `Margin of ${s.id} to each rule`)) : '',
+      chartSvg: bars.length ? await marginChart(bars) : '',
     });
   }
 
@@ -240,7 +244,7 @@ export async function assembleReport(h: Handbook, results: Results) {
     blocking: blocking.map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, valueText: v.valueText, limitText: v.limitText, marginText: v.marginText, ruleTitle: v.ruleTitle })),
     advisoryFailures: verdictPages.filter((v) => v.status === 'fail' && v.severity !== 'blocking').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, marginText: v.marginText, ruleTitle: v.ruleTitle })),
     incompletes: verdictPages.filter((v) => v.status === 'incomplete').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, missing: v.missing.join(', '), ruleTitle: v.ruleTitle })),
-    countsSvg: await renderChart(countsChartSpec(results.counts as unknown as Record<string, number>)),
+    countsSvg: await countsChart(results.counts),
     rules,
     structures,
     verdicts: verdictPages,

@@ -1,10 +1,10 @@
 // Charts: Vega-Lite specs compiled to Vega and rendered to SVG at build time, so the site works
-// offline and without script. Rendered SVG is cached by a hash of the spec and data.
+// offline and without script. Compiling and parsing a spec costs far more than rendering it, so
+// each kind of chart is compiled once into a View that is fed new data (and an axis title signal)
+// per chart; rendered SVG is also cached by a hash of the kind and its inputs.
 import { createHash } from 'node:crypto';
 import * as vega from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
-
-const svgCache = new Map<string, string>();
 
 export const PALETTE = {
   pass: '#2f7d5b',
@@ -19,19 +19,149 @@ const CONFIG = {
   font: 'system-ui, sans-serif',
   axis: { labelColor: PALETTE.ink, titleColor: PALETTE.ink, gridColor: PALETTE.grid, domainColor: '#9aa3ad', tickColor: '#9aa3ad', labelFontSize: 11, titleFontSize: 12 },
   view: { stroke: null },
-  background: null,
+  background: 'transparent',
 };
 
-export async function renderChart(spec: TopLevelSpec): Promise<string> {
-  const key = createHash('sha256').update(JSON.stringify(spec)).digest('hex');
+const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
+
+interface ChartKind {
+  spec: TopLevelSpec;
+  /** Data sources fed per chart. */
+  datasets: string[];
+  /** The x axis takes its title from the signal `x_title`. */
+  xTitleSignal: boolean;
+}
+
+const KINDS: Record<string, ChartKind> = {
+  value: {
+    datasets: ['nominals', 'values', 'limit'],
+    xTitleSignal: true,
+    spec: {
+      $schema: SCHEMA,
+      width: 520,
+      height: { step: 24 },
+      layer: [
+        {
+          data: { name: 'nominals' },
+          mark: { type: 'point', shape: 'circle', size: 70, filled: false, color: PALETTE.ink, opacity: 0.6 },
+          encoding: {
+            y: { field: 'label', type: 'nominal', sort: null, title: null, axis: { labelLimit: 220 } },
+            x: { field: 'value', type: 'quantitative', title: 'x', scale: { zero: false, nice: true } },
+          },
+        },
+        {
+          data: { name: 'values' },
+          mark: { type: 'point', shape: 'diamond', size: 110, filled: true },
+          encoding: {
+            y: { field: 'label', type: 'nominal', sort: null },
+            x: { field: 'value', type: 'quantitative' },
+            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+          },
+        },
+        {
+          data: { name: 'limit' },
+          mark: { type: 'rule', color: PALETTE.fail, strokeDash: [5, 3], strokeWidth: 1.5 },
+          encoding: { x: { field: 'limit', type: 'quantitative' } },
+        },
+        {
+          data: { name: 'limit' },
+          mark: { type: 'text', color: PALETTE.fail, dy: -8, align: 'left', dx: 3, fontSize: 10, baseline: 'bottom' },
+          encoding: { x: { field: 'limit', type: 'quantitative' }, y: { value: 0 }, text: { value: 'limit' } },
+        },
+      ],
+    } as TopLevelSpec,
+  },
+  margin: {
+    datasets: ['rows'],
+    xTitleSignal: false,
+    spec: {
+      $schema: SCHEMA,
+      width: 520,
+      height: { step: 22 },
+      data: { name: 'rows' },
+      layer: [
+        {
+          mark: { type: 'bar', cornerRadiusEnd: 2 },
+          encoding: {
+            y: { field: 'label', type: 'nominal', sort: null, title: null, axis: { labelLimit: 220 } },
+            x: { field: 'shown', type: 'quantitative', title: 'margin to the limit (%, clipped at ±100)', scale: { domain: { unionWith: [-10, 10] }, clamp: true } },
+            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+          },
+        },
+        { mark: { type: 'rule', color: PALETTE.ink, strokeWidth: 1.5 }, encoding: { x: { datum: 0, type: 'quantitative' } } },
+        {
+          mark: { type: 'text', align: 'left', dx: 4, fontSize: 10, color: PALETTE.ink },
+          encoding: { y: { field: 'label', type: 'nominal', sort: null }, x: { field: 'shown', type: 'quantitative' }, text: { field: 'pct' } },
+        },
+      ],
+    } as TopLevelSpec,
+  },
+  counts: {
+    datasets: ['rows'],
+    xTitleSignal: false,
+    spec: {
+      $schema: SCHEMA,
+      width: 360,
+      height: { step: 26 },
+      data: { name: 'rows' },
+      layer: [
+        {
+          mark: { type: 'bar', cornerRadiusEnd: 2 },
+          encoding: {
+            y: { field: 'status', type: 'nominal', sort: ['pass', 'fail', 'incomplete'], title: null },
+            x: { field: 'n', type: 'quantitative', title: 'verdicts', axis: { tickMinStep: 1 } },
+            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail', 'incomplete'], range: [PALETTE.pass, PALETTE.fail, PALETTE.incomplete] }, legend: null },
+          },
+        },
+        {
+          mark: { type: 'text', align: 'left', dx: 4, color: PALETTE.ink },
+          encoding: { y: { field: 'status', type: 'nominal', sort: ['pass', 'fail', 'incomplete'] }, x: { field: 'n', type: 'quantitative' }, text: { field: 'n' } },
+        },
+      ],
+    } as TopLevelSpec,
+  },
+};
+
+export type ChartKindName = keyof typeof KINDS;
+
+interface Compiled {
+  view: vega.View;
+  queue: Promise<unknown>;
+}
+const views = new Map<string, Compiled>();
+const svgCache = new Map<string, string>();
+
+function compiledView(kind: string): Compiled {
+  let c = views.get(kind);
+  if (c) return c;
+  const k = KINDS[kind]!;
+  const vg = compile({ ...k.spec, config: CONFIG } as TopLevelSpec).spec as vega.Spec & { signals?: vega.Signal[]; axes?: Array<Record<string, unknown>> };
+  if (k.xTitleSignal) {
+    vg.signals = [...(vg.signals ?? []), { name: 'x_title', value: '' }];
+    for (const axis of vg.axes ?? []) if (axis.title === 'x') axis.title = { signal: 'x_title' };
+  }
+  c = { view: new vega.View(vega.parse(vg), { renderer: 'none' }), queue: Promise.resolve() };
+  views.set(kind, c);
+  return c;
+}
+
+/** Render one chart of a kind with its data; the shared View is used by one chart at a time. */
+export async function renderChart(kind: ChartKindName, datasets: Record<string, unknown[]>, xTitle = ''): Promise<string> {
+  const key = createHash('sha256').update(JSON.stringify([kind, datasets, xTitle])).digest('hex');
   const hit = svgCache.get(key);
   if (hit) return hit;
-  const vgSpec = compile({ ...spec, config: { ...CONFIG, ...(spec.config ?? {}) } } as TopLevelSpec).spec;
-  const view = new vega.View(vega.parse(vgSpec), { renderer: 'none' });
-  const svg = (await view.toSVG())
-    .replace(/^<svg /, '<svg role="img" ')
-    .replace(/ width="(\d+(?:\.\d+)?)" height="(\d+(?:\.\d+)?)"/, (_m, w, h) => ` width="${w}" height="${h}" viewBox="0 0 ${w} ${h}" style="max-width:100%;height:auto"`);
-  view.finalize();
+  const c = compiledView(kind);
+  const job = c.queue.then(async () => {
+    const view = c.view;
+    for (const name of KINDS[kind]!.datasets) view.data(name, (datasets[name] ?? []).map((r) => ({ ...(r as object) })));
+    if (KINDS[kind]!.xTitleSignal) view.signal('x_title', xTitle);
+    await view.runAsync();
+    return (await view.toSVG())
+      .replace(/^<svg /, '<svg role="img" ')
+      .replace(/ width="(\d+(?:\.\d+)?)" height="(\d+(?:\.\d+)?)"/, (_m, w, h) => ` width="${w}" height="${h}" viewBox="0 0 ${w} ${h}" style="max-width:100%;height:auto"`);
+  });
+  c.queue = job.catch(() => undefined);
+  const svg = await job;
   svgCache.set(key, svg);
   return svg;
 }
@@ -43,62 +173,32 @@ export interface MarginBar {
 }
 
 /** Signed margin per item, as horizontal bars around zero (the limit). */
-export function marginChartSpec(rows: MarginBar[], title: string): TopLevelSpec {
-  const clipped = rows.map((r) => ({ ...r, shown: Math.max(-1, Math.min(1, r.margin)) * 100, pct: `${(r.margin * 100).toFixed(1)} %` }));
-  return {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    width: 520,
-    height: { step: 22 },
-    title: { text: title, anchor: 'start', fontSize: 13, color: PALETTE.ink },
-    data: { values: clipped },
-    layer: [
-      {
-        mark: { type: 'bar', cornerRadiusEnd: 2 },
-        encoding: {
-          y: { field: 'label', type: 'nominal', sort: null, title: null, axis: { labelLimit: 220 } },
-          x: { field: 'shown', type: 'quantitative', title: 'margin to the limit (%, clipped at ±100)', scale: { domain: [-100, 100] } },
-          color: {
-            field: 'status',
-            type: 'nominal',
-            scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] },
-            legend: null,
-          },
-        },
-      },
-      { mark: { type: 'rule', color: PALETTE.ink, strokeWidth: 1.5 }, data: { values: [{ x: 0 }] }, encoding: { x: { field: 'x', type: 'quantitative' } } },
-      {
-        mark: { type: 'text', align: 'left', dx: 4, fontSize: 10, color: PALETTE.ink },
-        encoding: {
-          y: { field: 'label', type: 'nominal', sort: null },
-          x: { field: 'shown', type: 'quantitative' },
-          text: { field: 'pct' },
-        },
-      },
-    ],
-  } as TopLevelSpec;
+export function marginChart(rows: MarginBar[]): Promise<string> {
+  const shown = rows.map((r) => ({ label: r.label, status: r.status, shown: Math.max(-1, Math.min(1, r.margin)) * 100, pct: `${(r.margin * 100).toFixed(1)} %` }));
+  return renderChart('margin', { rows: shown });
+}
+
+export interface ValuePoint {
+  label: string;
+  value: number;
+  nominal?: number;
+  status: string;
+}
+
+/** Each structure's deciding value against the rule's limit, in display units; nominal hollow. */
+export function valueChart(rows: ValuePoint[], limit: number, axisTitle: string): Promise<string> {
+  return renderChart(
+    'value',
+    {
+      values: rows.map((r) => ({ label: r.label, value: r.value, status: r.status })),
+      nominals: rows.filter((r) => r.nominal !== undefined).map((r) => ({ label: r.label, value: r.nominal })),
+      limit: [{ limit }],
+    },
+    axisTitle,
+  );
 }
 
 /** Count of verdicts by status, one bar each. */
-export function countsChartSpec(counts: Record<string, number>): TopLevelSpec {
-  const order = ['pass', 'fail', 'incomplete'];
-  return {
-    $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-    width: 360,
-    height: { step: 26 },
-    data: { values: order.map((s) => ({ status: s === 'incomplete' ? 'incomplete' : s, n: counts[s] ?? 0 })) },
-    layer: [
-      {
-        mark: { type: 'bar', cornerRadiusEnd: 2 },
-        encoding: {
-          y: { field: 'status', type: 'nominal', sort: order, title: null },
-          x: { field: 'n', type: 'quantitative', title: 'verdicts', axis: { tickMinStep: 1 } },
-          color: { field: 'status', type: 'nominal', scale: { domain: order, range: [PALETTE.pass, PALETTE.fail, PALETTE.incomplete] }, legend: null },
-        },
-      },
-      {
-        mark: { type: 'text', align: 'left', dx: 4, color: PALETTE.ink },
-        encoding: { y: { field: 'status', type: 'nominal', sort: order }, x: { field: 'n', type: 'quantitative' }, text: { field: 'n' } },
-      },
-    ],
-  } as TopLevelSpec;
+export function countsChart(counts: Record<string, number>): Promise<string> {
+  return renderChart('counts', { rows: ['pass', 'fail', 'incomplete'].map((status) => ({ status, n: counts[status] ?? 0 })) });
 }

@@ -81,3 +81,14 @@ export function formatMargin(m: number | null): string {
 export function displayUnit(unit: string): string {
   return formatValue(1, unit).replace(/^[-\d.e]+\s*/, '') || '1';
 }
+
+/** A common display scale for a set of values of one unit (for chart axes): factor and label. */
+export function displayScale(unit: string, typical: number): { factor: number; label: string } {
+  if (unit === 'rad') return { factor: 180 / Math.PI, label: '°' };
+  if (unit === '1') return { factor: 1, label: '' };
+  const shown = formatValue(typical, unit);
+  const label = shown.replace(/^[-+]?[\d.]+(e[-+]?\d+)?\s*/, '');
+  const number = Number(shown.split(/\s/)[0]);
+  const factor = typical !== 0 && Number.isFinite(number) && number !== 0 ? number / typical : 1;
+  return { factor, label };
+}

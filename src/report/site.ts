@@ -31,6 +31,8 @@ export async function renderSite(report: ReportData, outDir: string): Promise<vo
       cfg.addGlobalData('report', report);
     },
   });
+  // Errors still throw; this only silences Eleventy's own "Wrote N files" line.
+  elev.disableLogger();
   await elev.write();
 }
 

@@ -8,5 +8,6 @@ declare module '@11ty/eleventy' {
   export default class Eleventy {
     constructor(input: string, output: string, options?: EleventyOptions);
     write(): Promise<unknown>;
+    disableLogger(): void;
   }
 }
