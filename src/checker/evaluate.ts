@@ -32,7 +32,8 @@ export interface TraceStep {
   value: number | null;
   reason?: string;
   /** Argument name → (symbol, value) actually used. */
-  args: Array<{ arg: string; symbol: string; from: string; value: number }>;
+  /** `null` where the input is a step that has no value. */
+  args: Array<{ arg: string; symbol: string; from: string; value: number | null }>;
   /** Validity notes raised for these inputs. */
   warnings: string[];
 }
@@ -85,9 +86,10 @@ export function appliesTo(rule: Rule, s: Structure): boolean {
   return true;
 }
 
-/** Signed relative margin: positive passes. */
-export function margin(value: number, limit: number, comparison: Comparison): number {
-  const scale = Math.abs(limit) || 1;
+/** Signed relative margin: positive passes. A zero limit has no relative margin. */
+export function margin(value: number, limit: number, comparison: Comparison): number | null {
+  if (limit === 0) return null;
+  const scale = Math.abs(limit);
   return comparison === 'at_least' ? (value - limit) / scale : (limit - value) / scale;
 }
 
@@ -169,13 +171,14 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
   const steps: TraceStep[] = plan.steps.map((s, i) => {
     const args = s.args.map(([arg, src]) => {
       const from = 'param' in src ? plan.params[src.param]!.name : plan.steps[src.step]!.def.name;
-      const value = 'param' in src ? point.inputs[src.param]! : (run.values[src.step] ?? NaN);
+      const value = 'param' in src ? point.inputs[src.param]! : (run.values[src.step] ?? null);
       return { arg, symbol: s.variant.symbols?.[arg] ?? arg, from, value };
     });
     const warnings: string[] = [];
     for (const check of s.def.validity ?? []) {
       const a = args.find((x) => x.arg === check.arg);
       if (!a) continue;
+      if (a.value === null) continue;
       if ((check.min !== undefined && a.value < check.min) || (check.max !== undefined && a.value > check.max)) warnings.push(check.why);
     }
     const value = run.values[i] ?? null;
@@ -258,6 +261,10 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
   const plan = plans.get(s, rule.quantity);
   if (plan.status === 'not-applicable') return verdict('not-applicable', plan.reason);
   if (plan.status === 'incomplete') return verdict('incomplete', `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}`, plan.missing);
+  const toleranced = plan.params.filter((p) => p.low !== undefined).length;
+  if (rule.evaluateAt === 'worst-case' && toleranced > MAX_TOLERANCED_INPUTS) {
+    return verdict('incomplete', `${toleranced} toleranced inputs are more than a corner sweep covers (${MAX_TOLERANCED_INPUTS}); evaluate at nominal or drop tolerances that do not matter`, []);
+  }
 
   const e = plans.evaluate(s, plan, rule.evaluateAt, rule.comparison);
   const d = e.decisive;

@@ -2,10 +2,15 @@
 // derivation of one verdict. Words about verdicts come from report/words.ts, shared with the site.
 import type { Results, Verdict } from '../checker/evaluate.ts';
 import type { StructureQuantity } from '../checker/evaluate.ts';
+import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../report/format.ts';
 import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from '../report/words.ts';
+
+function plural(n: number, word: string): string {
+  return `${n} ${word}${n === 1 ? '' : 's'}`;
+}
 
 function table(rows: string[][]): string {
   const widths: number[] = [];
@@ -22,8 +27,8 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
       (a, b) =>
         (a.status === 'fail' && a.severity === 'blocking' ? -1 : 0) - (b.status === 'fail' && b.severity === 'blocking' ? -1 : 0) ||
         (ORDER[a.status] ?? 9) - (ORDER[b.status] ?? 9) ||
-        a.rule.localeCompare(b.rule) ||
-        a.structure.localeCompare(b.structure),
+        byCodePoint(a.rule, b.rule) ||
+        byCodePoint(a.structure, b.structure),
     );
   const rows = [['verdict', 'rule', 'structure', 'value', 'limit', 'margin']];
   for (const v of shown) {
@@ -33,7 +38,7 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
   }
   const c = results.counts;
   const lines = [
-    `${h.meta.title}: ${h.structures.length} structures, ${h.rules.length} rules`,
+    `${h.meta.title}: ${plural(h.structures.length, 'structure')}, ${plural(h.rules.length, 'rule')}`,
     '',
     table(rows),
     '',
@@ -44,7 +49,7 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
 }
 
 export function renderStructureQuantities(s: Structure, quantities: Record<string, StructureQuantity>, incomplete: Record<string, string[]>): string {
-  const rows = [['quantity', 'value', 'source']];
+  const rows = [['quantity', 'value', 'what it is']];
   for (const [name, q] of Object.entries(quantities)) {
     rows.push([name, q.value === null ? `none: ${q.reason}` : formatValue(q.value, q.unit), QUANTITIES.get(name)?.title ?? '']);
   }

@@ -37,10 +37,12 @@ export interface Diagnostic {
   other?: { file: string; line: number; column: number };
 }
 
+/** Locale-independent string order, so output is byte-identical on every machine. */
+export function byCodePoint(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+
 /** Stable order: by file, then position, then code. */
 export function sortDiagnostics(list: Diagnostic[]): Diagnostic[] {
-  return [...list].sort(
-    (a, b) =>
-      a.file.localeCompare(b.file) || a.line - b.line || a.column - b.column || a.code.localeCompare(b.code),
-  );
+  return [...list].sort((a, b) => byCodePoint(a.file, b.file) || a.line - b.line || a.column - b.column || byCodePoint(a.code, b.code));
 }

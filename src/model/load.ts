@@ -7,7 +7,7 @@ import { join, relative, basename, extname } from 'node:path';
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import { closest, distance } from 'fastest-levenshtein';
 import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
-import { sortDiagnostics } from '../diagnostics/diagnostic.ts';
+import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
 import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, type ParamSpec } from './parameters.ts';
@@ -26,6 +26,7 @@ import {
   type SourcePos,
   type Structure,
 } from './types.ts';
+import { formatValue } from '../report/format.ts';
 import { isUnitProblem, parseValue } from './units.ts';
 import { isYamlFailure, parseYamlSource, pointerToField, positionOf, type YamlSource } from './yaml-source.ts';
 
@@ -90,8 +91,8 @@ function suggest(word: string, options: readonly string[], max = 3): string[] {
   const limit = Math.max(2, Math.floor(word.length / 3));
   return options
     .map((o) => ({ o, d: distance(word, o) }))
-    .filter((x) => x.d <= limit || x.o.includes(word) || (word.includes('.') && x.o.endsWith(word.split('.').pop() ?? '\0')))
-    .sort((a, b) => a.d - b.d || a.o.localeCompare(b.o))
+    .filter((x) => x.d <= limit || (word.length >= 4 && x.o.includes(word)) || (word.includes('.') && x.o.endsWith(word.split('.').pop() ?? '\0')))
+    .sort((a, b) => a.d - b.d || byCodePoint(a.o, b.o))
     .slice(0, max)
     .map((x) => x.o);
 }
@@ -134,6 +135,7 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
         break;
       }
       case 'pattern':
+        if ((e as { propertyName?: string }).propertyName !== undefined) continue; // reported with propertyNames
         if (/\/id$/.test(e.instancePath)) {
           report.add('id-not-url-safe', e.instancePath, {
             expected: e.instancePath.includes('rule') || /^\/(\d+\/)?id$/.test(e.instancePath) ? describePattern(e.schemaPath) : 'lower-case letters, digits and single dashes',
@@ -143,7 +145,13 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
           report.add('bad-value', e.instancePath, { expected: describePattern(e.schemaPath), found: jsonType(value) });
         }
         break;
-      case 'propertyNames':
+      case 'propertyNames': {
+        const name = (e.params as { propertyName: string }).propertyName;
+        key += name;
+        if (seen.has(key)) continue;
+        report.add('bad-value', `${e.instancePath}/${name}`, { expected: 'a role name in lower case (letters, digits, underscores), such as body or fill', found: `"${name}"` }, 'key');
+        break;
+      }
       case 'if':
         continue;
       default:
@@ -194,6 +202,14 @@ function readAndParse(root: string, path: string, out: Diagnostic[]): Loaded | n
   return { src: parsed, report: new FileReport(parsed, out) };
 }
 
+function rangeText(spec: ParamSpec): string {
+  const show = (x: number) => formatValue(x, spec.unit);
+  const lo = spec.min !== undefined ? `${spec.exclusiveMin ? 'above' : 'at least'} ${show(spec.min)}` : '';
+  const hi = spec.max !== undefined ? `${spec.exclusiveMax ? 'below' : 'at most'} ${show(spec.max)}` : '';
+  if (spec.min === 0 && spec.exclusiveMin && spec.max === undefined) return 'a finite positive value';
+  return `a finite value${lo ? ` ${lo}` : ''}${lo && hi ? ' and' : ''}${hi ? ` ${hi}` : ''}`;
+}
+
 /** Parse a value with a unit at `pointer`, reporting a problem there. */
 function readValue(
   report: FileReport,
@@ -207,12 +223,16 @@ function readValue(
     report.add(parsed.code, pointer, { expected: parsed.expected, found: `"${String(raw)}"` });
     return null;
   }
-  const below = spec.min !== undefined && (spec.exclusiveMin ? parsed.value <= spec.min : parsed.value < spec.min);
-  const above = spec.max !== undefined && parsed.value > spec.max;
-  const lowBad = parsed.low !== undefined && spec.min !== undefined && parsed.low < spec.min;
-  if (below || above || lowBad) {
-    const range = spec.max !== undefined ? `between ${spec.min} and ${spec.max} (SI)` : spec.exclusiveMin ? 'a positive value' : `at least ${spec.min}`;
-    report.add('bad-value', pointer, { expected: range + (lowBad && !below ? ', also at the low end of its tolerance' : ''), found: `"${String(raw)}"` });
+  // Every end of the tolerance must lie in the input's domain, and be finite.
+  const ends = [parsed.value, parsed.low, parsed.high].filter((x): x is number => x !== undefined);
+  const slack = 1e-12 * Math.max(1, Math.abs(spec.max ?? 0)); // "180 deg" converts to π less rounding
+  const outside = (x: number) =>
+    !Number.isFinite(x) ||
+    (spec.min !== undefined && (spec.exclusiveMin ? x <= spec.min : x < spec.min)) ||
+    (spec.max !== undefined && (spec.exclusiveMax ? x >= spec.max - slack : x > spec.max));
+  if (ends.some(outside)) {
+    const end = outside(parsed.value) ? '' : ' (at an end of its tolerance)';
+    report.add('bad-value', pointer, { expected: `${rangeText(spec)}${end}`, found: `"${String(raw)}"` });
     return null;
   }
   return { ...parsed, written: String(raw) };
@@ -303,7 +323,9 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const pitch = params.get('geometry.pitch');
   const wall = params.get('geometry.wall');
   if (cd && pitch && pitch.value <= cd.value) report.add('bad-value', '/geometry/pitch', { expected: 'a pitch larger than the CD (neighbours would overlap)', found: `"${pitch.written}"` });
+  const height = params.get('geometry.height');
   if (cd && wall && 2 * wall.value >= cd.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than half the CD', found: `"${wall.written}"` });
+  else if (height && wall && wall.value >= height.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than the cylinder is tall', found: `"${wall.written}"` });
 
   const materialRoles: Record<string, string> = {};
   const mats = isMapping(raw.materials) ? raw.materials : {};
@@ -395,7 +417,8 @@ function rulesFromFile(loaded: Loaded): LocatedRule[] {
     let limit: number | null = null;
     if (q) {
       const r = readValue(report, `${base}/${comparison}`, limitRaw, { unit: q.unit, description: q.title });
-      if (r) {
+      if (r && !Number.isFinite(r.value)) report.add('bad-value', `${base}/${comparison}`, { expected: 'a finite limit', found: `"${String(limitRaw)}"` });
+      else if (r) {
         if (r.low !== undefined) report.add('malformed-tolerance', `${base}/${comparison}`, { expected: 'a limit without tolerance', found: `"${String(limitRaw)}"` });
         else limit = r.value;
       }
@@ -478,28 +501,30 @@ export function loadHandbook(root: string): LoadResult {
   }
   const rules: Rule[] = [];
   const ruleIds: IdPlace[] = [];
+  const ruleSources: Array<{ rule: Rule; report: FileReport; pointer: string }> = [];
   for (const path of ruleFiles) {
     const loaded = readAndParse(root, path, out);
     if (!loaded) continue;
     for (const { rule, idPointer } of rulesFromFile(loaded)) {
       rules.push(rule);
       ruleIds.push({ id: rule.id, at: loaded.report.pos(idPointer), field: pointerToField(idPointer) });
+      ruleSources.push({ rule, report: loaded.report, pointer: idPointer.slice(0, -'/id'.length) });
     }
   }
   checkDuplicates(structureIds, out);
   checkDuplicates(ruleIds, out);
   // Rules that name structures must name real ones.
   const ids = structures.map((s) => s.id);
-  for (const r of rules) {
-    for (const sid of r.appliesTo.structures ?? []) {
+  for (const { rule, report, pointer } of ruleSources) {
+    (rule.appliesTo.structures ?? []).forEach((sid, i) => {
       if (!ids.includes(sid)) {
-        out.push({ code: 'bad-value', file: r.file, line: r.pos.line, column: r.pos.column, field: `${r.id}.applies_to.structures`, expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids) });
+        report.add('bad-value', `${pointer}/applies_to/structures/${i}`, { expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids) });
       }
-    }
+    });
   }
   if (out.length > 0) return { ok: false, diagnostics: sortDiagnostics(out) };
-  structures.sort((a, b) => a.id.localeCompare(b.id));
-  rules.sort((a, b) => a.id.localeCompare(b.id));
+  structures.sort((a, b) => byCodePoint(a.id, b.id));
+  rules.sort((a, b) => byCodePoint(a.id, b.id));
   return { ok: true, handbook: { root, meta, structures, rules, materials } };
 }
 

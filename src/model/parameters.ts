@@ -8,6 +8,7 @@ export interface ParamSpec {
   min?: number;
   max?: number;
   exclusiveMin?: boolean;
+  exclusiveMax?: boolean;
 }
 
 export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {
@@ -15,7 +16,7 @@ export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {
   depth: { unit: 'm', description: 'Depth of an opening (hole, trench, via), from the top surface to the bottom.', min: 0, exclusiveMin: true },
   height: { unit: 'm', description: 'Height of a standing structure (pillar, cylinder, line), from its base to its top.', min: 0, exclusiveMin: true },
   pitch: { unit: 'm', description: 'Centre-to-centre distance to the nearest neighbour in the array.', min: 0, exclusiveMin: true },
-  sidewall_angle: { unit: 'rad', description: 'Angle between sidewall and wafer plane, measured in the solid: 90° vertical; below 90° an opening narrows toward its bottom and a standing structure widens toward its base.', min: 0, max: Math.PI, exclusiveMin: true },
+  sidewall_angle: { unit: 'rad', description: 'Angle between sidewall and wafer plane, measured in the solid: 90° vertical; below 90° an opening narrows toward its bottom and a standing structure widens toward its base.', min: 0, max: Math.PI, exclusiveMin: true, exclusiveMax: true },
   wall: { unit: 'm', description: 'Wall thickness of a hollow cylinder.', min: 0, exclusiveMin: true },
   length: { unit: 'm', description: 'Length along the wafer of a trench or line (for areas and volumes).', min: 0, exclusiveMin: true },
 };

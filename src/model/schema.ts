@@ -63,9 +63,9 @@ const ruleProperties = (): JsonSchema => ({
     type: 'object',
     additionalProperties: false,
     properties: {
-      kinds: { type: 'array', items: { type: 'string', enum: [...KINDS] } },
-      tags: { type: 'array', items: { type: 'string' } },
-      structures: { type: 'array', items: { type: 'string' } },
+      kinds: { type: 'array', minItems: 1, items: { type: 'string', enum: [...KINDS] } },
+      tags: { type: 'array', minItems: 1, items: { type: 'string' } },
+      structures: { type: 'array', minItems: 1, items: { type: 'string' } },
     },
   },
   quantity: { type: 'string', pattern: '^[a-z_]+\\.[a-z0-9_]+$', description: 'Quantity name, engine.name.' },

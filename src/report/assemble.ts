@@ -5,7 +5,7 @@ import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict } f
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
-import { isOpening, type Handbook, type Rule, type Structure } from '../model/types.ts';
+import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Structure } from '../model/types.ts';
 import { countsChart, marginChart, valueChart } from './charts.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { displayScale, formatMargin, formatValue } from './format.ts';
@@ -25,11 +25,15 @@ export const urls = {
 export interface VerdictRow {
   rule: string;
   ruleTitle: string;
+  ruleUrl: string;
   structure: string;
   structureTitle: string;
+  structureUrl: string;
   status: Verdict['status'];
   statusWord: string;
   severity: string;
+  /** A failing advisory rule: shown apart from blocking failures. */
+  advisory: boolean;
   valueText: string;
   limitText: string;
   marginText: string;
@@ -40,11 +44,14 @@ function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
   return {
     rule: rule.id,
     ruleTitle: rule.title,
+    ruleUrl: urls.rule(rule.id),
     structure: s.id,
     structureTitle: s.title,
+    structureUrl: urls.structure(s.id),
     status: v.status,
     statusWord: STATUS_WORDS[v.status],
     severity: v.severity,
+    advisory: v.status === 'fail' && v.severity === 'advisory',
     valueText: v.status === 'incomplete' ? `needs ${v.missing?.join(', ')}` : v.status === 'not-applicable' ? (v.reason ?? '') : valuePhrase(v),
     limitText: limitPhrase(rule, v.unit),
     marginText: formatMargin(v.margin),
@@ -76,15 +83,15 @@ export async function assembleReport(h: Handbook, results: Results) {
     const t = v.trace;
     return {
       ...row(v, rule, s),
-      ruleUrl: urls.rule(rule.id),
-      structureUrl: urls.structure(s.id),
       quantity: v.quantity,
+      /** Which end of the corner sweep decides: the lowest value for at_least, the highest for at_most. */
+      worstWord: rule.comparison === 'at_least' ? 'lowest' : 'highest',
       quantityTitle: QUANTITIES.get(v.quantity)?.title ?? v.quantity,
       quantityUrl: urls.quantity(v.quantity),
       evaluateAt: v.evaluateAt,
       reason: v.reason ?? '',
       missing: v.missing ?? [],
-      nominalText: v.evaluateAt === 'worst-case' ? formatValue(v.nominal ?? null, v.unit) : '',
+      nominalText: v.evaluateAt === 'worst-case' && v.nominal !== undefined ? formatValue(v.nominal, v.unit) : '',
       corners: v.corners ?? 0,
       worstCorner: (v.worstCorner ?? []).map((c) => ({ name: c.name, side: c.side, valueText: formatValue(c.value, unitOfStep(v, c.name)) })),
       inputs: (t?.inputs ?? []).map((i) => ({
@@ -128,6 +135,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       quantityUrl: urls.quantity(rule.quantity),
       symbolHtml: texToMathml(q.symbol),
       limitText: limitPhrase(rule, q.unit),
+      limitValueText: formatValue(rule.limit, q.unit),
       limitWritten: rule.limitWritten,
       comparisonWord: rule.comparison === 'at_least' ? 'at least' : 'at most',
       severity: rule.severity,
@@ -273,26 +281,19 @@ function worstWord(vs: Verdict[]): string {
   return 'not-applicable';
 }
 
-/** Formula of each variant a quantity has, for the methods page. */
+/** Formula of each variant a quantity has, for the methods page: every kind with every array it can have. */
 function variantsOf(name: string): Array<{ label: string; formulaHtml: string }> {
   const q = QUANTITIES.get(name)!;
   const seen = new Map<string, string[]>();
-  const shapes = [
-    { kind: 'hole', array: 'hexagonal' },
-    { kind: 'hole', array: 'square' },
-    { kind: 'via', array: 'square' },
-    { kind: 'trench', array: 'lines' },
-    { kind: 'pillar', array: 'hexagonal' },
-    { kind: 'pillar', array: 'square' },
-    { kind: 'cylinder', array: 'hexagonal' },
-    { kind: 'line', array: 'lines' },
-  ] as const;
-  for (const shape of shapes) {
-    const v = q.variant(shape);
-    if (!('formula' in v)) continue;
-    const list = seen.get(v.formula) ?? [];
-    list.push(shape.kind === 'trench' || shape.kind === 'line' ? shape.kind : `${shape.kind} (${shape.array})`);
-    seen.set(v.formula, list);
+  for (const kind of KINDS) {
+    const arrays: ArrayLayout[] = isElongated(kind) ? ['lines'] : ['square', 'hexagonal'];
+    for (const array of arrays) {
+      const v = q.variant({ kind, array });
+      if (!('formula' in v)) continue;
+      const list = seen.get(v.formula) ?? [];
+      list.push(isElongated(kind) ? kind : `${kind} (${array})`);
+      seen.set(v.formula, list);
+    }
   }
-  return [...seen.entries()].map(([formula, kinds]) => ({ label: [...new Set(kinds)].join(', '), formulaHtml: texToMathml(formula, true) }));
+  return [...seen.entries()].map(([formula, kinds]) => ({ label: kinds.join(', '), formulaHtml: texToMathml(formula, true) }));
 }

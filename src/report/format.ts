@@ -64,14 +64,20 @@ const DISPLAY: Record<string, (v: number, d: number) => string> = {
 /** `3.2e-8, 'm'` → `32 nm`; dimensionless values are plain numbers. */
 export function formatValue(value: number | null, unit: string, digits = 4): string {
   if (value === null) return '—';
-  if (!Number.isFinite(value)) return String(value);
+  if (!Number.isFinite(value)) return value > 0 ? '+∞' : value < 0 ? '−∞' : 'undefined';
+  if (value === 0 && unit !== '1') return `0 ${displayUnitOf(unit)}`;
   const f = DISPLAY[unit];
   return f ? f(value, digits) : `${sig(value, digits)} ${unit}`;
 }
 
+function displayUnitOf(unit: string): string {
+  const base: Record<string, string> = { m: 'm', 'm^2': 'm²', 'm^3': 'm³', rad: '°', 'N/m': 'mN/m', 'm/s': 'nm/min', '1/K': 'ppm/K', 'ohm*m': 'µΩ·cm' };
+  return base[unit] ?? unit;
+}
+
 /** Margin as a signed percentage. */
 export function formatMargin(m: number | null): string {
-  if (m === null) return '—';
+  if (m === null || !Number.isFinite(m)) return '—';
   const pct = m * 100;
   const s = Math.abs(pct) >= 1000 ? pct.toExponential(1) : sig(pct, 3);
   return `${pct >= 0 ? '+' : ''}${s} %`;
@@ -86,6 +92,7 @@ export function displayUnit(unit: string): string {
 export function displayScale(unit: string, typical: number): { factor: number; label: string } {
   if (unit === 'rad') return { factor: 180 / Math.PI, label: '°' };
   if (unit === '1') return { factor: 1, label: '' };
+  if (typical === 0 || !Number.isFinite(typical)) return { factor: 1, label: unit };
   const shown = formatValue(typical, unit);
   const label = shown.replace(/^[-+]?[\d.]+(e[-+]?\d+)?\s*/, '');
   const number = Number(shown.split(/\s/)[0]);

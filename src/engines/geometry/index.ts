@@ -2,7 +2,7 @@
 // Conventions: `cd` is the top critical dimension (outer diameter of a cylinder); the sidewall angle
 // is measured in the solid, 90° vertical (see the format reference). A straight sidewall is assumed.
 import { isElongated, isOpening } from '../../model/types.ts';
-import { noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
+import { noValue, variant, type Engine, type NoValue, type QuantityDef, type Shape } from '../quantity.ts';
 
 const ELEMENTARY = 'Elementary geometry of a straight-walled frustum or prism (e.g. CRC Standard Mathematical Tables, mensuration of solids)';
 
@@ -41,11 +41,18 @@ export function frustumVolume(d1: number, d2: number, h: number): number {
 
 /**
  * Cavity of a hollow cylinder (a cup): top diameter CD − 2t_w; its floor lies one wall thickness
- * above the base, where the outer diameter has tapered to CD_b + (CD − CD_b)·t_w/H.
+ * above the base, where the outer diameter has tapered to CD_b + (CD − CD_b)·t_w/H. A cavity that
+ * narrows to nothing above its floor (a re-entrant cup) ends in a point: it is a cone to that depth.
  */
-export function cavity(cd: number, bottom: number, height: number, wall: number): { top: number; bottom: number; depth: number } {
-  const outerAtFloor = bottom + ((cd - bottom) * wall) / height;
-  return { top: cd - 2 * wall, bottom: outerAtFloor - 2 * wall, depth: height - wall };
+export function cavity(cd: number, bottom: number, height: number, wall: number): { top: number; bottom: number; depth: number } | NoValue {
+  const top = cd - 2 * wall;
+  const depth = height - wall;
+  if (top <= 0) return noValue('the wall is at least half the CD: the cylinder has no cavity');
+  if (depth <= 0) return noValue('the wall is at least as thick as the cylinder is tall');
+  const floor = bottom + ((cd - bottom) * wall) / height - 2 * wall;
+  if (floor > 0) return { top, bottom: floor, depth };
+  // Linear narrowing from `top` at the rim to `floor` at `depth` reaches zero at depth·top/(top − floor).
+  return { top, bottom: 0, depth: (depth * top) / (top - floor) };
 }
 
 /** Area of one array cell, per structure: p² (square), (√3/2)p² (hexagonal), p per unit length (lines). */
@@ -144,17 +151,22 @@ const space: QuantityDef = {
   symbol: 's',
   description: 'Gap between neighbouring structures (standing kinds) or solid left between neighbouring openings, at the narrowest height: pitch minus the larger of top and bottom CD.',
   source: `${ELEMENTARY}; nearest neighbours sit one pitch apart in line, square and hexagonal arrays`,
+  assumptions: ['Straight sidewall; an opening that closes above its bottom is widest at its top.'],
   better: 'higher',
-  variant: () =>
-    variant({
-      inputs: { pitch: 'geometry.pitch', cd: 'geometry.cd', bottom: 'geometry.bottom_cd' },
-      symbols: { pitch: 'p', cd: '\\mathrm{CD}', bottom: '\\mathrm{CD}_b' },
-      formula: 's = p - \\max(\\mathrm{CD}, \\mathrm{CD}_b)',
-      compute: ({ pitch, cd, bottom }) => {
-        const s = pitch - Math.max(cd, bottom);
-        return s > 0 ? s : noValue('neighbours touch or overlap: the pitch is not larger than the CD');
+  variant: (shape) => {
+    const opening = isOpening(shape.kind);
+    const e = extentSymbol(shape);
+    return variant({
+      inputs: { pitch: 'geometry.pitch', cd: 'geometry.cd', extent: extentInput(shape), angle: 'geometry.sidewall_angle' },
+      symbols: { pitch: 'p', cd: '\\mathrm{CD}', extent: e, angle: '\\theta' },
+      formula: `s = p - \\max\\left(\\mathrm{CD},\\; \\mathrm{CD} ${opening ? '-' : '+'} 2${e}\\cot\\theta\\right)`,
+      compute: ({ pitch, cd, extent, angle }) => {
+        // The straight-wall bottom CD may be negative (the opening closes first): then the top is widest.
+        const s = pitch - Math.max(cd, bottomCd(cd, extent, angle, opening));
+        return s > 0 ? s : noValue('neighbours touch or overlap: the pitch is not larger than the widest CD');
       },
-    }),
+    });
+  },
 };
 
 const openArea: QuantityDef = {
@@ -181,9 +193,10 @@ const openArea: QuantityDef = {
       compute: (a: Record<string, number>) => {
         const cd = a.cd!;
         const p = a.pitch!;
+        if (hollow && cd - 2 * a.wall! <= 0) return noValue('the wall is at least half the CD: the cylinder has no cavity');
         const footprint = elongated ? cd : hollow ? (Math.PI / 4) * (cd * cd - (cd - 2 * a.wall!) ** 2) : (Math.PI / 4) * cd * cd;
+        if (cd > p) return noValue('neighbours overlap: the CD is larger than the pitch');
         const f = footprint / cell.area(p);
-        if (f > 1) return noValue('the structures overlap at this pitch');
         return opening ? f : 1 - f;
       },
     });
@@ -195,7 +208,7 @@ const sidewallArea: QuantityDef = {
   title: 'Sidewall area',
   unit: 'm^2',
   symbol: 'A_{sw}',
-  description: 'Area of the sidewalls of one structure: the frustum surface of a hole, via or pillar; both faces of a trench or line over its length; outer and inner faces of a hollow cylinder.',
+  description: 'Area of the sidewalls of one structure: the frustum surface of a hole, via or pillar; both faces of a trench or line over its length (end walls left out: length ≫ CD); outer and inner faces of a hollow cylinder.',
   source: `${ELEMENTARY}; frustum lateral area π(r₁ + r₂)·s with slant s`,
   variant: (shape) => {
     const e = extentSymbol(shape);
@@ -214,10 +227,10 @@ const sidewallArea: QuantityDef = {
       return variant({
         inputs: { ...base, wall: 'geometry.wall' },
         symbols,
-        formula: `A_{sw} = \\tfrac{\\pi}{2}(\\mathrm{CD}+\\mathrm{CD}_b)s + \\tfrac{\\pi}{2}(d_i+d_{ib})s_i,\\; s = ${slant},\\; d_i = \\mathrm{CD}-2t_w,\\; d_{ib} = \\mathrm{CD}_b + (\\mathrm{CD}-\\mathrm{CD}_b)\\tfrac{t_w}{${e}} - 2t_w`,
+        formula: `A_{sw} = \\tfrac{\\pi}{2}(\\mathrm{CD}+\\mathrm{CD}_b)s + \\tfrac{\\pi}{2}(d_i+d_{ib})s_i,\\; s = ${slant},\\; s_i = \\sqrt{(${e}-t_w)^2 + \\left(\\tfrac{d_i-d_{ib}}{2}\\right)^2},\\; d_i = \\mathrm{CD}-2t_w,\\; d_{ib} = \\mathrm{CD}_b + (\\mathrm{CD}-\\mathrm{CD}_b)\\tfrac{t_w}{${e}} - 2t_w`,
         compute: ({ cd, bottom, extent, wall }) => {
           const c = cavity(cd, bottom, extent, wall);
-          return frustumLateralArea(cd, bottom, extent) + frustumLateralArea(c.top, c.bottom, c.depth);
+          return 'reason' in c ? c : frustumLateralArea(cd, bottom, extent) + frustumLateralArea(c.top, c.bottom, c.depth);
         },
       });
     }
@@ -237,7 +250,7 @@ const volume: QuantityDef = {
   symbol: 'V',
   description: 'Volume of one opening (what a fill must close), or of the solid body of one standing structure (a hollow cylinder without its cavity).',
   source: `${ELEMENTARY}; frustum volume πh(d₁² + d₁d₂ + d₂²)/12`,
-  assumptions: ['A hollow cylinder is a cup: its cavity reaches down to a bottom plate as thick as its wall, and the wall keeps its thickness, measured across, along the taper.'],
+  assumptions: ['A hollow cylinder is a cup: its cavity reaches down to a bottom plate as thick as its wall, and the wall keeps its thickness, measured horizontally, along the taper. A cavity that narrows to nothing above its floor is a cone.'],
   variant: (shape) => {
     const e = extentSymbol(shape);
     const base = { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', extent: extentInput(shape) };
@@ -257,7 +270,7 @@ const volume: QuantityDef = {
         formula: `V = \\tfrac{\\pi ${e}}{12}(\\mathrm{CD}^2+\\mathrm{CD}\\,\\mathrm{CD}_b+\\mathrm{CD}_b^2) - \\tfrac{\\pi (${e}-t_w)}{12}(d_i^2+d_i d_{ib}+d_{ib}^2),\\; d_i = \\mathrm{CD}-2t_w,\\; d_{ib} = \\mathrm{CD}_b + (\\mathrm{CD}-\\mathrm{CD}_b)\\tfrac{t_w}{${e}} - 2t_w`,
         compute: ({ cd, bottom, extent, wall }) => {
           const c = cavity(cd, bottom, extent, wall);
-          return frustumVolume(cd, bottom, extent) - frustumVolume(c.top, c.bottom, c.depth);
+          return 'reason' in c ? c : frustumVolume(cd, bottom, extent) - frustumVolume(c.top, c.bottom, c.depth);
         },
       });
     }
