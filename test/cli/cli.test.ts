@@ -45,8 +45,12 @@ describe('check', () => {
     // bottom 40 − 2·400·tan 0.5° = 33.0 nm ≥ 25 nm.
     const r = await cli('check', '--root', FIXTURES + 'ok_small', '--json');
     expect(r.code).toBe(0);
-    const j = JSON.parse(r.out) as { counts: Record<string, number> };
+    const j = JSON.parse(r.out) as { counts: Record<string, number>; verdicts: Array<{ quantity: string; status: string; value: number | null }> };
     expect(j.counts).toEqual({ pass: 3, fail: 0, incomplete: 0, 'not-applicable': 3 });
+    const valueOf = (q: string) => j.verdicts.find((v) => v.quantity === q && v.status === 'pass')?.value ?? null;
+    expectRel(valueOf('geometry.aspect_ratio'), 410 / 38, 9);
+    expectRel(valueOf('geometry.space'), 68e-9, 9);
+    expectRel(valueOf('geometry.bottom_cd'), 40e-9 - 2 * 400e-9 * Math.tan((0.5 * Math.PI) / 180), 9);
   });
 
   it('exits 2 on an invalid handbook and names file:line:column', async () => {
@@ -121,5 +125,13 @@ describe('the real binary', () => {
     const p = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', 'test/fixtures/invalid_wrong_dimension'], { cwd: ROOT, encoding: 'utf8' });
     expect(p.status).toBe(2);
     expect(p.stderr).toContain('structures/probe-hole.yaml:6:10');
+  });
+
+  it('gives byte-identical JSON from two separate processes (the brief: results are deterministic)', () => {
+    const once = () => spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, LANG: 'C' } });
+    const a = once();
+    const b = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, LANG: 'tr_TR.UTF-8', LC_ALL: 'tr_TR.UTF-8' } });
+    expect(a.status).toBe(1);
+    expect(b.stdout).toBe(a.stdout);
   });
 });
