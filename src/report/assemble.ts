@@ -197,6 +197,7 @@ export async function assembleReport(h: Handbook, results: Results) {
         ...(num('geometry.bottom_cd') !== undefined ? { bottomCd: num('geometry.bottom_cd')! } : {}),
         ...(p('geometry.pitch') !== undefined ? { pitch: p('geometry.pitch')! } : {}),
         ...(p('geometry.wall') !== undefined ? { wall: p('geometry.wall')! } : {}),
+        ...(num('geometry.closure_depth') !== undefined ? { closesAt: num('geometry.closure_depth')! } : {}),
       }),
       chartSvg: bars.length ? await marginChart(bars) : '',
     });

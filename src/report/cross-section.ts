@@ -11,6 +11,8 @@ export interface SectionInput {
   bottomCd?: number;
   pitch?: number;
   wall?: number;
+  /** For an opening that closes before its bottom: the depth where its walls meet. */
+  closesAt?: number;
 }
 
 const W = 520;
@@ -52,6 +54,7 @@ export function renderCrossSection(s: SectionInput): string {
   const yTop = MARGIN.top;
   const yBot = MARGIN.top + extent * sy;
   const opening = isOpening(s.kind);
+  const closes = opening && s.closesAt !== undefined && s.closesAt < extent;
   const shapes: string[] = [];
   const centres = Array.from({ length: n }, (_, i) => x0 + i * pitch * sx);
   const trap = (cx: number, top: number, bot: number, y1: number, y2: number) =>
@@ -60,7 +63,13 @@ export function renderCrossSection(s: SectionInput): string {
   const right = W - MARGIN.right + 10;
   if (opening) {
     shapes.push(`<rect class="solid" x="${left}" y="${f(yTop)}" width="${right - left}" height="${f(yBot - yTop + 24)}"/>`);
-    for (const cx of centres) shapes.push(`<polygon class="void" points="${trap(cx, s.cd, bottom, yTop, yBot)}"/>`);
+    const yEnd = closes ? yTop + s.closesAt! * sy : yBot;
+    for (const cx of centres) shapes.push(`<polygon class="void" points="${trap(cx, s.cd, closes ? 0 : bottom, yTop, yEnd)}"/>`);
+    if (closes) {
+      const cx = centres[0]!;
+      shapes.push(`<line class="target" x1="${f(cx - (s.cd * sx) / 2)}" y1="${f(yBot)}" x2="${f(cx + (s.cd * sx) / 2)}" y2="${f(yBot)}"/>`);
+      shapes.push(`<text class="warnnote" x="${f(cx + (s.cd * sx) / 2 + 6)}" y="${f(yEnd + 4)}">closes at ${esc(formatValue(s.closesAt!, 'm', 3))}, above its target depth</text>`);
+    }
   } else {
     shapes.push(`<rect class="solid" x="${left}" y="${f(yBot)}" width="${right - left}" height="24"/>`);
     for (const cx of centres) {
@@ -88,7 +97,7 @@ export function renderCrossSection(s: SectionInput): string {
   const note = compression > 1.05 ? `vertical scale compressed ×${compression >= 10 ? Math.round(compression) : compression.toFixed(1)}` : 'drawn to scale';
   const label = `${isElongated(s.kind) ? 'section across the lines' : 'section through the centres'}; ${note}${s.pitch === undefined ? '; neighbours placed for illustration (no pitch given)' : ''}`;
   return `<svg class="section" role="img" aria-label="Cross-section of the structure" viewBox="0 0 ${W} ${H + 20}" width="${W}" height="${H + 20}" style="max-width:100%;height:auto">
-<style>.solid{fill:#c9d3de;stroke:#44515f;stroke-width:1}.void{fill:#fbfaf6;stroke:#44515f;stroke-width:1}.inner{fill:#fbfaf6}.dim line{stroke:#8c3b2b;stroke-width:1}.dim text{fill:#1d2733;font:11px system-ui,sans-serif}.note{fill:#5b6673;font:italic 11px system-ui,sans-serif}</style>
+<style>.solid{fill:#c9d3de;stroke:#44515f;stroke-width:1}.void{fill:#fbfaf6;stroke:#44515f;stroke-width:1}.inner{fill:#fbfaf6}.dim line{stroke:#8c3b2b;stroke-width:1}.dim text{fill:#1d2733;font:11px system-ui,sans-serif}.note{fill:#5b6673;font:italic 11px system-ui,sans-serif}.target{stroke:#b8432f;stroke-dasharray:4 3}.warnnote{fill:#b8432f;font:11px system-ui,sans-serif}</style>
 ${shapes.join('\n')}
 ${dims.join('\n')}
 <text class="note" x="${MARGIN.left - 10}" y="${H + 14}">${esc(label)}</text>
