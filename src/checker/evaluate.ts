@@ -31,6 +31,8 @@ export interface TraceStep {
   source: string;
   value: number | null;
   reason?: string;
+  /** How the value was reached (which case of the model applied). */
+  note?: string;
   /** Argument name → (symbol, value) actually used. */
   /** `null` where the input is a step that has no value. */
   args: Array<{ arg: string; symbol: string; from: string; value: number | null }>;
@@ -192,6 +194,7 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
       source: s.def.source,
       value,
       ...(value === null && run.reasons[i] ? { reason: run.reasons[i] } : {}),
+      ...(run.notes[i] ? { note: run.notes[i] } : {}),
       args,
       warnings,
     };
@@ -313,6 +316,8 @@ export interface StructureQuantity {
   unit: string;
   reason?: string;
   unbounded?: 'above' | 'below';
+  /** How the value was reached, when the engine says (e.g. which span governs). */
+  note?: string;
 }
 
 /** Every quantity the engines can compute for a structure, at nominal; and what blocks the others. */
@@ -333,7 +338,7 @@ export function evaluateStructure(s: Structure, plans: PlanCache = new PlanCache
     quantities[name] =
       value === null
         ? { value: null, unit, reason: run.reasons[last] ?? 'no value', ...(run.unbounded[last] ? { unbounded: run.unbounded[last] } : {}) }
-        : { value, unit };
+        : { value, unit, ...(run.notes[last] ? { note: run.notes[last] } : {}) };
   }
   return { quantities, incomplete };
 }

@@ -25,6 +25,8 @@ export interface Run {
   reasons: Array<string | undefined>;
   /** Direction a null step is unbounded in, when it is. */
   unbounded: Array<'above' | 'below' | undefined>;
+  /** How a step's value was reached, when its engine says. */
+  notes: Array<string | undefined>;
 }
 
 export function buildPlan(structure: Structure, quantity: string): Plan {
@@ -54,7 +56,7 @@ export function buildPlan(structure: Structure, quantity: string): Plan {
     const done = stepIndex.get(name);
     if (done !== undefined) return { step: done };
     if (stack.includes(name)) throw new Error(`quantity cycle: ${[...stack, name].join(' → ')}`);
-    const v = def.variant({ kind: structure.kind, ...(structure.array ? { array: structure.array } : {}) });
+    const v = def.variant({ kind: structure.kind, ...(structure.array ? { array: structure.array } : {}), ...(structure.drying ? { drying: structure.drying } : {}) });
     if ('notApplicable' in v) {
       notApplicable ??= name === quantity ? v.notApplicable : `${name}: ${v.notApplicable}`;
       return null;
@@ -89,6 +91,7 @@ export function runPlan(plan: Extract<Plan, { status: 'ready' }>, inputs: ArrayL
   const values: Array<number | null> = new Array(n);
   const reasons: Array<string | undefined> = new Array(n);
   const unbounded: Array<'above' | 'below' | undefined> = new Array(n);
+  const notes: Array<string | undefined> = new Array(n);
   for (let i = 0; i < n; i++) {
     const step = plan.steps[i]!;
     const args: Record<string, number> = {};
@@ -117,11 +120,15 @@ export function runPlan(plan: Extract<Plan, { status: 'ready' }>, inputs: ArrayL
         values[i] = null;
         reasons[i] = `the formula gave a non-finite result (${out}) for these inputs`;
       }
+    } else if (out.value !== null) {
+      values[i] = Number.isFinite(out.value) ? out.value : null;
+      if (values[i] === null) reasons[i] = `the formula gave a non-finite result (${out.value}) for these inputs`;
+      notes[i] = out.note;
     } else {
       values[i] = null;
       reasons[i] = out.reason;
       unbounded[i] = out.unbounded;
     }
   }
-  return { values, reasons, unbounded };
+  return { values, reasons, unbounded, notes };
 }

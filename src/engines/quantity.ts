@@ -1,6 +1,6 @@
 // What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
 // the report read only these declarations, never a specific engine.
-import type { ArrayLayout, Kind } from '../model/types.ts';
+import type { ArrayLayout, DryingShape, Kind } from '../model/types.ts';
 
 /** A result that has no finite value for this structure, with the reason shown to the reader. */
 export interface NoValue {
@@ -14,7 +14,17 @@ export interface NoValue {
   unbounded?: 'above' | 'below';
 }
 
-export type Outcome = number | NoValue;
+/** A value with a short note on how it was reached (which span governs, how its ends are held). */
+export interface Noted {
+  value: number;
+  note: string;
+}
+
+export type Outcome = number | NoValue | Noted;
+
+export function noted(value: number, note: string): Noted {
+  return { value, note };
+}
 
 export function noValue(reason: string, unbounded?: 'above' | 'below'): NoValue {
   return unbounded ? { value: null, reason, unbounded } : { value: null, reason };
@@ -24,6 +34,7 @@ export function noValue(reason: string, unbounded?: 'above' | 'below'): NoValue 
 export interface Shape {
   kind: Kind;
   array?: ArrayLayout;
+  drying?: DryingShape;
 }
 
 /**

@@ -10,11 +10,13 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, type ParamSpec } from './parameters.ts';
+import { DRYING_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
   isElongated,
+  isOpening,
+  type DryingShape,
   type ArrayLayout,
   type Handbook,
   type HandbookMeta,
@@ -286,7 +288,13 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const schemaOk = v(raw);
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
-      ptr === '' ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'materials'] : ptr === '/geometry' ? [...Object.keys(GEOMETRY_PARAMS), 'array'] : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
+      ptr === ''
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'drying', 'materials']
+        : ptr === '/geometry'
+          ? [...Object.keys(GEOMETRY_PARAMS), 'array']
+          : ptr === '/drying'
+            ? ['liquid', ...Object.keys(DRYING_PARAMS), 'supports', 'supports_hold']
+            : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
     // only a file that is not a mapping at all stops here.
@@ -360,11 +368,14 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
   }
 
+  const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
+
   if (!schemaOk) return null;
   return {
     id,
     title: String(raw.title),
     kind,
+    ...(drying ? { drying } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -379,6 +390,59 @@ interface LocatedRule {
   rule: Rule;
   /** Pointer to the rule's id within its file. */
   idPointer: string;
+}
+
+/** The `drying:` block: liquid (with its surface tension), contact angle and support heights. */
+function readDrying(
+  report: FileReport,
+  d: Record<string, unknown>,
+  kind: Kind | undefined,
+  params: Map<string, Param>,
+  materials: Map<string, Material>,
+): DryingShape | undefined {
+  if (kind && isOpening(kind)) {
+    report.add('unknown-field', '/drying', { expected: `a drying block only on standing kinds (pillar, cylinder, line), not on a ${kind}` }, 'key');
+    return undefined;
+  }
+  if (typeof d.liquid !== 'string') return undefined; // reported by the schema
+  const liquid = d.liquid;
+  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
+  if (liquid === 'none') {
+    params.set('drying.surface_tension', { name: 'drying.surface_tension', value: 0, unit: 'N/m', written: 'none (no liquid–vapour interface)', origin: handbook('/drying/liquid') });
+  } else {
+    const m = materials.get(liquid);
+    const gamma = m?.properties.surface_tension;
+    if (!m) report.add('unknown-material', '/drying/liquid', { found: liquid, suggestions: suggest(liquid, [...materials.entries()].filter(([, x]) => x.properties.surface_tension).map(([k]) => k)) });
+    else if (!gamma && d.surface_tension === undefined) report.add('bad-value', '/drying/liquid', { expected: 'a liquid with a surface tension (such as water or isopropanol), or none', found: `"${liquid}"` });
+    else if (gamma) {
+      params.set('drying.surface_tension', {
+        name: 'drying.surface_tension',
+        value: gamma.value,
+        ...(gamma.low !== undefined ? { low: gamma.low, high: gamma.high } : {}),
+        unit: gamma.unit,
+        written: gamma.written,
+        origin: { type: 'material-table', material: liquid, source: gamma.source, pos: report.pos('/drying/liquid') },
+      });
+    }
+  }
+  for (const [name, spec] of Object.entries(DRYING_PARAMS)) {
+    if (d[name] === undefined) continue;
+    const r = readValue(report, `/drying/${name}`, d[name], spec);
+    if (r) params.set(`drying.${name}`, { name: `drying.${name}`, ...r, unit: spec.unit, origin: handbook(`/drying/${name}`) });
+  }
+  const supports = Array.isArray(d.supports) ? d.supports : [];
+  const height = params.get('geometry.height');
+  let previous = 0;
+  supports.forEach((raw, i) => {
+    const pointer = `/drying/supports/${i}`;
+    const r = readValue(report, pointer, raw, SUPPORT_SPEC);
+    if (!r) return;
+    if (r.value <= previous) report.add('bad-value', pointer, { expected: 'support heights in rising order', found: `"${r.written}"` });
+    else if (height && r.value > height.value) report.add('bad-value', pointer, { expected: `a height within the structure (at most ${formatValue(height.value, 'm')})`, found: `"${r.written}"` });
+    previous = r.value;
+    params.set(`drying.support_${i + 1}`, { name: `drying.support_${i + 1}`, ...r, unit: 'm', origin: handbook(pointer) });
+  });
+  return { liquid, supportCount: supports.length, supportHold: d.supports_hold === 'clamped' ? 'clamped' : 'pinned' };
 }
 
 function rulesFromFile(loaded: Loaded): LocatedRule[] {

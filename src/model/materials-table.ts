@@ -74,6 +74,7 @@ export const BUILT_IN_MATERIALS: TableMaterial[] = [
       poisson_ratio: { value: '0.25', source: FILM },
       thermal_expansion: { value: '9.4 ppm/K', source: FILM },
       resistivity: { value: '1e-6 ohm*m', source: `${FILM}; 20–200 µΩ·cm by process` },
+      fracture_strength: { value: '3 GPa', source: 'order of the bending strength of sputtered TiN microcantilevers (recalled, low confidence; measure your own film)' },
     },
   },
   {

@@ -31,6 +31,15 @@ export const MATERIAL_PROPERTIES: Record<string, ParamSpec> = {
   fracture_strength: { unit: 'Pa', description: 'Stress at which the material breaks in bending', min: 0, exclusiveMin: true },
 };
 
+/** Inputs of a `drying:` block (rinse and dry of standing structures). */
+export const DRYING_PARAMS: Record<string, ParamSpec> = {
+  surface_tension: { unit: 'N/m', description: 'Surface tension of the rinse liquid (overrides the liquid material’s value).', min: 0 },
+  contact_angle: { unit: 'rad', description: 'Contact angle of the rinse liquid on the structure’s sidewall.', min: 0, max: Math.PI },
+};
+
+/** Spec of one support height in `drying.supports`. */
+export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
+
 /** Standing kinds have a height, openings a depth; the rest are shared. */
 export const GEOMETRY_BY_KIND: Record<string, string[]> = {
   hole: ['cd', 'depth', 'pitch', 'sidewall_angle'],
@@ -45,6 +54,7 @@ export const GEOMETRY_BY_KIND: Record<string, string[]> = {
 export function paramSpecOf(path: string): ParamSpec | undefined {
   const [block, a, b] = path.split('.');
   if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
+  if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
   if (block === 'materials' && b) return MATERIAL_PROPERTIES[b];
   return undefined;
 }

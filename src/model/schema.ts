@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { DRYING_PARAMS, GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -39,6 +39,18 @@ export function structureSchema(): JsonSchema {
         properties: {
           ...propertiesFrom(GEOMETRY_PARAMS),
           array: { type: 'string', enum: ['hexagonal', 'square', 'lines'], description: 'Arrangement of neighbours.' },
+        },
+      },
+      drying: {
+        type: 'object',
+        description: 'The rinse and dry the standing structures go through (capillary collapse).',
+        additionalProperties: false,
+        required: ['liquid'],
+        properties: {
+          liquid: { type: 'string', description: 'Rinse liquid: a material with a surface tension, or `none` for drying without a liquid–vapour interface.' },
+          ...propertiesFrom(DRYING_PARAMS),
+          supports: { type: 'array', items: { type: ['string', 'number'] }, description: 'Heights above the base of lateral support lattices, e.g. ["0.6 um", "1.2 um"].' },
+          supports_hold: { type: 'string', enum: ['pinned', 'clamped'], description: 'How a support holds the structure between supports (default pinned).' },
         },
       },
       materials: {

@@ -43,11 +43,24 @@ export type ParamOrigin =
   | { type: 'handbook'; pos: SourcePos }
   | { type: 'material-table'; material: string; source: string; pos?: SourcePos };
 
+export type SupportHold = 'pinned' | 'clamped';
+
+/** Shape facts of a drying step (the numbers are params: `drying.surface_tension`, ...). */
+export interface DryingShape {
+  /** Material id of the rinse liquid, or `none` for drying without a liquid–vapour interface. */
+  liquid: string;
+  /** How many lateral support lattices tie the structures together (`drying.support_1` ...). */
+  supportCount: number;
+  /** How a support holds the structure between supports. */
+  supportHold: SupportHold;
+}
+
 export interface Structure {
   id: string;
   title: string;
   kind: Kind;
   array?: ArrayLayout;
+  drying?: DryingShape;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

@@ -27,13 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 16 applicable pairs of 112 (16 rules × 7 structures): 13 pass, 2 fail (1 blocking), 1 incomplete (hand).
+    // 26 applicable pairs of 200 (20 rules × 10 structures): 20 pass, 5 fail (3 blocking), 1
+    // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 13, fail: 2, incomplete: 1, 'not-applicable': 96 });
-    expect(j.blocking_failures).toBe(1);
-    expect(j.verdicts).toHaveLength(112);
+    expect(j.counts).toEqual({ pass: 20, fail: 5, incomplete: 1, 'not-applicable': 174 });
+    expect(j.blocking_failures).toBe(3);
+    expect(j.verdicts).toHaveLength(200);
   });
 
   it('accepts --root before the command too', async () => {
