@@ -2,7 +2,7 @@
 // the steps that compute it from them, in dependency order. Plans are built once per structure and
 // quantity; running one is a loop over plain numbers, so corners and sampling stay cheap.
 import { QUANTITIES } from '../engines/index.ts';
-import type { Outcome, QuantityDef, Variant } from '../engines/quantity.ts';
+import type { Outcome, QuantityDef, Shape, Variant } from '../engines/quantity.ts';
 import type { Param, Structure } from '../model/types.ts';
 
 export type ArgSource = { param: number } | { step: number };
@@ -27,6 +27,11 @@ export interface Run {
   unbounded: Array<'above' | 'below' | undefined>;
   /** How a step's value was reached, when its engine says. */
   notes: Array<string | undefined>;
+}
+
+/** The shape facts of a structure that quantities branch on. */
+export function shapeOf(structure: Structure): Shape {
+  return { kind: structure.kind, ...(structure.array ? { array: structure.array } : {}), ...(structure.drying ? { drying: structure.drying } : {}) };
 }
 
 export function buildPlan(structure: Structure, quantity: string): Plan {
@@ -56,7 +61,7 @@ export function buildPlan(structure: Structure, quantity: string): Plan {
     const done = stepIndex.get(name);
     if (done !== undefined) return { step: done };
     if (stack.includes(name)) throw new Error(`quantity cycle: ${[...stack, name].join(' → ')}`);
-    const v = def.variant({ kind: structure.kind, ...(structure.array ? { array: structure.array } : {}), ...(structure.drying ? { drying: structure.drying } : {}) });
+    const v = def.variant(shapeOf(structure));
     if ('notApplicable' in v) {
       notApplicable ??= name === quantity ? v.notApplicable : `${name}: ${v.notApplicable}`;
       return null;

@@ -76,6 +76,11 @@ export interface QuantityDef {
   /** Which way is better; the report uses it for chart direction, never for verdicts. */
   better?: 'higher' | 'lower';
   /**
+   * The input a verdict page sweeps to chart this quantity against (e.g. the height), as a
+   * range of multiples of the structure's own value. The report runs the same plan at each point.
+   */
+  sweep?: { input: (shape: Shape) => string; from: number; to: number };
+  /**
    * The way to compute it for a shape; or a reason it does not apply to that shape; or the shape
    * facts (such as `geometry.array`) the structure must state before it can be computed.
    */

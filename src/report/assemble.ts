@@ -6,7 +6,8 @@ import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Structure } from '../model/types.ts';
-import { countsChart, marginChart, valueChart } from './charts.ts';
+import { countsChart, marginChart, sweepChart, valueChart } from './charts.ts';
+import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { displayScale, formatMargin, formatValue } from './format.ts';
 import { texToMathml } from './math.ts';
@@ -77,11 +78,13 @@ export async function assembleReport(h: Handbook, results: Results) {
   const inScope = (v: Verdict) => appliesTo(ruleById.get(v.rule)!, structureById.get(v.structure)!);
   const scoped = results.verdicts.filter(inScope);
 
-  const verdictPages = scoped.map((v) => {
+  const verdictPages = [];
+  for (const v of scoped) {
     const rule = ruleById.get(v.rule)!;
     const s = structureById.get(v.structure)!;
     const t = v.trace;
-    return {
+    const sweep = await sweepOf(v, s, plans);
+    verdictPages.push({
       ...row(v, rule, s),
       quantity: v.quantity,
       /** Which end of the corner sweep decides: the lowest value for at_least, the highest for at_most. */
@@ -112,10 +115,13 @@ export async function assembleReport(h: Handbook, results: Results) {
         args: st.args.map((a) => ({ symbolHtml: texToMathml(a.symbol), from: a.from, valueText: formatValue(a.value, unitOfStep(v, a.from)) })),
         valueText: st.value === null ? `no value: ${st.reason ?? ''}` : formatValue(st.value, st.unit),
         source: st.source,
+        note: st.note ?? '',
         warnings: st.warnings,
       })),
-    };
-  });
+      sweepSvg: sweep?.svg ?? '',
+      sweepCaption: sweep?.caption ?? '',
+    });
+  }
 
   const rules = [];
   for (const rule of h.rules) {
@@ -265,6 +271,41 @@ export async function assembleReport(h: Handbook, results: Results) {
 
 export type ReportData = Awaited<ReturnType<typeof assembleReport>>;
 
+const SWEEP_POINTS = 48;
+
+/**
+ * The verdict's quantity against the input its declaration sweeps (the height, say), from the
+ * deciding inputs: the same plan run at each point. Empty when the quantity declares no sweep.
+ */
+async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ svg: string; caption: string } | null> {
+  const def = QUANTITIES.get(v.quantity);
+  if (!def?.sweep || !v.trace || v.value === null) return null;
+  const plan = plans.get(s, v.quantity);
+  if (plan.status !== 'ready') return null;
+  const inputName = def.sweep.input(shapeOf(s));
+  const idx = plan.params.findIndex((p) => p.name === inputName);
+  if (idx < 0) return null;
+  const base = v.trace.inputs.map((i) => i.value);
+  const x0 = base[idx]!;
+  const last = plan.steps.length - 1;
+  const xScale = displayScale(plan.params[idx]!.unit, x0);
+  const yScale = displayScale(def.unit, v.value);
+  const curve: Array<{ x: number; y: number }> = [];
+  for (let k = 0; k < SWEEP_POINTS; k++) {
+    const x = x0 * (def.sweep.from + ((def.sweep.to - def.sweep.from) * k) / (SWEEP_POINTS - 1));
+    const inputs = base.slice();
+    inputs[idx] = x;
+    const y = runPlan(plan, inputs).values[last];
+    if (y !== null && y !== undefined && Number.isFinite(y)) curve.push({ x: x * xScale.factor, y: y * yScale.factor });
+  }
+  if (curve.length < 2) return null;
+  const xTitle = `${inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
+  const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
+  const svg = await sweepChart(curve, { x: x0 * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle);
+  const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
+  return { svg, caption: `${def.title} against ${inputName}, with ${corner}; ◆ this structure, dashed: the limit.` };
+}
+
 function scopeText(rule: Rule): string {
   const a = rule.appliesTo;
   const parts: string[] = [];
@@ -289,7 +330,8 @@ function variantsOf(name: string): Array<{ label: string; formulaHtml: string }>
   for (const kind of KINDS) {
     const arrays: ArrayLayout[] = isElongated(kind) ? ['lines'] : ['square', 'hexagonal'];
     for (const array of arrays) {
-      const v = q.variant({ kind, array });
+      // Standing kinds are shown drying without supports, the simplest case of their formulas.
+      const v = q.variant({ kind, array, ...(isOpening(kind) ? {} : { drying: { liquid: 'water', supportCount: 0, supportHold: 'pinned' as const } }) });
       if (!('formula' in v)) continue;
       const list = seen.get(v.formula) ?? [];
       list.push(isElongated(kind) ? kind : `${kind} (${array})`);

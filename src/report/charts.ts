@@ -28,8 +28,9 @@ interface ChartKind {
   spec: TopLevelSpec;
   /** Data sources fed per chart. */
   datasets: string[];
-  /** The x axis takes its title from the signal `x_title`. */
+  /** The x axis takes its title from the signal `x_title` (and the y axis from `y_title`). */
   xTitleSignal: boolean;
+  yTitleSignal?: boolean;
 }
 
 const KINDS: Record<string, ChartKind> = {
@@ -96,6 +97,45 @@ const KINDS: Record<string, ChartKind> = {
       ],
     } as TopLevelSpec,
   },
+  sweep: {
+    datasets: ['curve', 'own', 'limit'],
+    xTitleSignal: true,
+    yTitleSignal: true,
+    spec: {
+      $schema: SCHEMA,
+      width: 520,
+      height: 260,
+      layer: [
+        {
+          data: { name: 'curve' },
+          mark: { type: 'line', color: PALETTE.ink, strokeWidth: 1.8, interpolate: 'monotone' },
+          encoding: {
+            x: { field: 'x', type: 'quantitative', title: 'x', scale: { zero: false } },
+            y: { field: 'y', type: 'quantitative', title: 'y', scale: { zero: false } },
+          },
+        },
+        {
+          data: { name: 'limit' },
+          mark: { type: 'rule', color: PALETTE.fail, strokeDash: [5, 3], strokeWidth: 1.5 },
+          encoding: { y: { field: 'limit', type: 'quantitative' } },
+        },
+        {
+          data: { name: 'limit' },
+          mark: { type: 'text', color: PALETTE.fail, align: 'left', dx: 4, dy: -6, fontSize: 10 },
+          encoding: { y: { field: 'limit', type: 'quantitative' }, x: { value: 0 }, text: { value: 'limit' } },
+        },
+        {
+          data: { name: 'own' },
+          mark: { type: 'point', shape: 'diamond', size: 120, filled: true },
+          encoding: {
+            x: { field: 'x', type: 'quantitative' },
+            y: { field: 'y', type: 'quantitative' },
+            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+          },
+        },
+      ],
+    } as TopLevelSpec,
+  },
   counts: {
     datasets: ['rows'],
     xTitleSignal: false,
@@ -140,14 +180,18 @@ function compiledView(kind: string): Compiled {
     vg.signals = [...(vg.signals ?? []), { name: 'x_title', value: '' }];
     for (const axis of vg.axes ?? []) if (axis.title === 'x') axis.title = { signal: 'x_title' };
   }
+  if (k.yTitleSignal) {
+    vg.signals = [...(vg.signals ?? []), { name: 'y_title', value: '' }];
+    for (const axis of vg.axes ?? []) if (axis.title === 'y') axis.title = { signal: 'y_title' };
+  }
   c = { view: new vega.View(vega.parse(vg), { renderer: 'none' }), queue: Promise.resolve() };
   views.set(kind, c);
   return c;
 }
 
 /** Render one chart of a kind with its data; the shared View is used by one chart at a time. */
-export async function renderChart(kind: ChartKindName, datasets: Record<string, unknown[]>, xTitle = ''): Promise<string> {
-  const key = createHash('sha256').update(JSON.stringify([kind, datasets, xTitle])).digest('hex');
+export async function renderChart(kind: ChartKindName, datasets: Record<string, unknown[]>, xTitle = '', yTitle = ''): Promise<string> {
+  const key = createHash('sha256').update(JSON.stringify([kind, datasets, xTitle, yTitle])).digest('hex');
   const hit = svgCache.get(key);
   if (hit) return hit;
   const c = compiledView(kind);
@@ -155,6 +199,7 @@ export async function renderChart(kind: ChartKindName, datasets: Record<string, 
     const view = c.view;
     for (const name of KINDS[kind]!.datasets) view.data(name, (datasets[name] ?? []).map((r) => ({ ...(r as object) })));
     if (KINDS[kind]!.xTitleSignal) view.signal('x_title', xTitle);
+    if (KINDS[kind]!.yTitleSignal) view.signal('y_title', yTitle);
     await view.runAsync();
     return (await view.toSVG())
       .replace(/^<svg /, '<svg role="img" ')
@@ -196,6 +241,11 @@ export function valueChart(rows: ValuePoint[], limit: number, axisTitle: string)
     },
     axisTitle,
   );
+}
+
+/** A quantity against one of its inputs, the structure's own point and the rule's limit. */
+export function sweepChart(curve: Array<{ x: number; y: number }>, own: { x: number; y: number; status: string }, limit: number, xTitle: string, yTitle: string): Promise<string> {
+  return renderChart('sweep', { curve, own: [own], limit: [{ limit }] }, xTitle, yTitle);
 }
 
 /** Count of verdicts by status, one bar each. */

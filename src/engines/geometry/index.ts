@@ -88,6 +88,7 @@ const bottomCdQ: QuantityDef = {
   description: 'Critical dimension at the bottom of an opening or the base of a standing structure, for a straight sidewall.',
   source: ELEMENTARY,
   assumptions: ['Straight (linear) sidewall from top to bottom.'],
+  sweep: { input: extentInput, from: 0.25, to: 2 },
   variant: (shape) => {
     const opening = isOpening(shape.kind);
     const e = extentSymbol(shape);

@@ -263,7 +263,7 @@ function collapseQuantity(
     variant: (shape): Variant | { notApplicable: string } | { incomplete: string[] } => {
       if (!sectionOf(shape)) return STANDING_ONLY;
       if (!shape.drying) return NO_DRYING;
-      const symbols: Record<string, string> = { ...COLLAPSE_SYMBOLS, load: shape.kind === 'line' ? '\\Delta P' : 'F', strength: '\\sigma_f' };
+      const symbols: Record<string, string> = { ...COLLAPSE_SYMBOLS, load: shape.kind === 'line' ? '\\Delta P' : 'F', strength: '\\sigma_f', length: 'L', deflection: '\\delta_1' };
       for (let i = 1; i <= shape.drying.supportCount; i++) symbols[`support_${i}`] = `z_{${i}}`;
       return variant({
         label: `${shape.kind}, ${shape.drying.supportCount === 0 ? 'no supports' : `${shape.drying.supportCount} support${shape.drying.supportCount > 1 ? 's' : ''} (${shape.drying.supportHold})`}`,
@@ -350,6 +350,7 @@ const tipDeflection = collapseQuantity(
     source: `${ROARK}; a free top is integrated along its taper by the unit-load method, δ = ∫M·x/(E·I) dx`,
     assumptions: ['Small deflections, linear elastic body, straight sidewall; spans held at both ends use the section at mid-span.'],
     better: 'lower',
+    sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   },
   (shape) =>
     shape.kind === 'line'
@@ -374,6 +375,8 @@ const criticalHeight = collapseQuantity(
       ? '\\delta_1(L_c) = \\frac{s}{8} \\;\\;\\Rightarrow\\;\\; L_c^4 = \\frac{E\\,W^3 s^2}{24\\,\\gamma\\cos\\theta_c} \\text{ (prismatic)}'
       : '\\delta_1(L_c)\\,p = \\delta^*(p - 2\\delta^*),\\;\\; \\delta^* = \\min\\left(\\tfrac{s}{2}, \\tfrac{p}{4}\\right)',
   (g) => (Number.isFinite(g.criticalLength) ? noted(g.criticalLength, g.describe) : noLoad('nothing pulls the structures together')),
+  // Shown in the derivation: the span's deflection under the initial load, which sets L_c.
+  { deflection: 'mechanics.tip_deflection' },
 );
 
 const collapseMargin = collapseQuantity(
@@ -385,9 +388,15 @@ const collapseMargin = collapseQuantity(
     description: 'Critical free length over the actual length of the governing span: above 1 the structures stand through the dry.',
     source: SPRING,
     better: 'higher',
+    sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   },
-  () => '\\frac{L_c}{L}',
-  (g) => (Number.isFinite(g.margin) ? noted(g.margin, g.describe) : noLoad('the structures stand whatever their height')),
+  (shape) =>
+    shape.kind === 'line'
+      ? '\\frac{L_c}{L},\\;\\; \\delta_1(L_c) = \\frac{s}{8}'
+      : '\\frac{L_c}{L},\\;\\; \\delta_1(L_c)\\,p = \\delta^*(p - 2\\delta^*),\\;\\; \\delta^* = \\min\\left(\\tfrac{s}{2}, \\tfrac{p}{4}\\right)',
+  (g, a) => (Number.isFinite(g.criticalLength) ? noted(g.criticalLength / a.length!, g.describe) : noLoad('the structures stand whatever their height')),
+  // The governing span and its deflection appear as steps of the derivation.
+  { length: 'mechanics.free_length', deflection: 'mechanics.tip_deflection' },
 );
 
 const baseStress = collapseQuantity(
