@@ -177,11 +177,15 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
       return { arg, symbol: s.variant.symbols?.[arg] ?? arg, from, value };
     });
     const warnings: string[] = [];
+    const known = Object.fromEntries(args.filter((a) => a.value !== null).map((a) => [a.arg, a.value as number]));
     for (const check of s.def.validity ?? []) {
-      const a = args.find((x) => x.arg === check.arg);
-      if (!a) continue;
-      if (a.value === null) continue;
-      if ((check.min !== undefined && a.value < check.min) || (check.max !== undefined && a.value > check.max)) warnings.push(check.why);
+      if ('holds' in check) {
+        if (args.every((a) => a.value !== null) && !check.holds(known)) warnings.push(check.why);
+        continue;
+      }
+      const v = known[check.arg];
+      if (v === undefined) continue;
+      if ((check.min !== undefined && v < check.min) || (check.max !== undefined && v > check.max)) warnings.push(check.why);
     }
     const value = run.values[i] ?? null;
     return {

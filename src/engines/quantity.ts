@@ -52,13 +52,13 @@ export interface Variant<A extends string = string> {
   compute: (args: Record<A, number>) => Outcome;
 }
 
-export interface ValidityCheck {
-  /** Argument name the range applies to. */
-  arg: string;
-  min?: number;
-  max?: number;
-  why: string;
-}
+/**
+ * Where a model holds: a range on one argument, or a condition over several. Inputs outside it
+ * are still evaluated but flagged on the verdict page with `why`.
+ */
+export type ValidityCheck =
+  | { arg: string; min?: number; max?: number; why: string }
+  | { holds: (args: Record<string, number>) => boolean; why: string };
 
 export interface QuantityDef {
   /** `engine.name`, snake_case. */

@@ -279,3 +279,22 @@ describe('round bodies', () => {
     expect(q(s, 'mechanics.collapse_margin')?.value).toBeLessThan(0.5);
   });
 });
+
+describe('validity flags', () => {
+  const verdictFor = (cd: number, pitch: number) => {
+    const s = makeStructure('pillar', { cd: cd * nm, height: 400 * nm, pitch: pitch * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    addDrying(s, 169e9, 0.072, 0, []);
+    return evaluateRule(makeRule({ quantity: 'mechanics.collapse_margin', comparison: 'at_least', limit: 1 }), s, new PlanCache());
+  };
+  const warnings = (v: ReturnType<typeof verdictFor>) => v.trace!.steps.flatMap((st) => st.warnings);
+
+  it('flag the immersion force in a dense array (CD/p above 0.5, where the linearised meniscus fails)', () => {
+    // 40 nm on a 60 nm pitch: CD/p = 0.67 — Cooray, Cicuta & Vella (2012) on steep menisci.
+    expect(warnings(verdictFor(40, 60)).join(' ')).toMatch(/order-of-magnitude estimate/);
+  });
+
+  it('stay quiet for a sparse array', () => {
+    // 40 nm on a 200 nm pitch: CD/p = 0.2; 400 nm tall is ten widths.
+    expect(warnings(verdictFor(40, 200))).toEqual([]);
+  });
+});

@@ -311,6 +311,12 @@ const meniscusForce: QuantityDef = {
     'Linearised meniscus (small slopes), r ≪ p ≪ capillary length; in dense arrays with steep menisci it is an estimate only (Cooray, Cicuta & Vella, J. Phys.: Condens. Matter 24, 284104 (2012)).',
     'Radius at the top of the body; |cos θ| as for the Laplace pressure.',
   ],
+  validity: [
+    {
+      holds: ({ cd, pitch }) => cd! / pitch! <= 0.5,
+      why: 'the linearised meniscus assumes neighbours far apart compared with their radius (CD/p ≤ 0.5); in a denser array the force is an order-of-magnitude estimate.',
+    },
+  ],
   variant: (shape) => {
     if (!sectionOf(shape)) return STANDING_ONLY;
     if (isElongated(shape.kind)) return { notApplicable: 'lines are loaded by the Laplace pressure over their height (mechanics.capillary_pressure)' };
@@ -349,6 +355,7 @@ const tipDeflection = collapseQuantity(
     description: 'Largest deflection of the governing span under the initial capillary load, before the gap starts to close (linear beam theory with its end conditions).',
     source: `${ROARK}; a free top is integrated along its taper by the unit-load method, δ = ∫M·x/(E·I) dx`,
     assumptions: ['Small deflections, linear elastic body, straight sidewall; spans held at both ends use the section at mid-span.'],
+    validity: [{ holds: ({ cd, height }) => cd! > 0 && height! > 2 * cd!, why: 'beam theory needs a span several times longer than it is wide (height above twice the CD).' }],
     better: 'lower',
     sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   },
@@ -387,6 +394,9 @@ const collapseMargin = collapseQuantity(
     symbol: 'L_c/L',
     description: 'Critical free length over the actual length of the governing span: above 1 the structures stand through the dry.',
     source: SPRING,
+    validity: [
+      { holds: ({ deflection, length }) => deflection! <= 0.1 * length!, why: 'the deflection under the initial load exceeds a tenth of the span: small-deflection beam theory no longer holds (the span has long collapsed).' },
+    ],
     better: 'higher',
     sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   },
