@@ -408,6 +408,10 @@ function readDrying(
   const liquid = d.liquid;
   const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
   if (liquid === 'none') {
+    if (d.surface_tension !== undefined) {
+      report.add('bad-value', '/drying/surface_tension', { expected: 'no surface tension with liquid: none (drying without a liquid–vapour interface)', found: `"${String(d.surface_tension)}"` }, 'key');
+      return undefined;
+    }
     params.set('drying.surface_tension', { name: 'drying.surface_tension', value: 0, unit: 'N/m', written: 'none (no liquid–vapour interface)', origin: handbook('/drying/liquid') });
   } else {
     const m = materials.get(liquid);

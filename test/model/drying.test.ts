@@ -50,6 +50,13 @@ describe('drying block', () => {
     if (code === 'unknown-material') expect(r.diagnostics[0]!.suggestions).toContain('water');
   });
 
+  it('refuses a surface tension together with liquid: none', () => {
+    const r = load(`${PILLAR}drying:\n  liquid: none\n  surface_tension: 72 mN/m\n`);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.diagnostics).toEqual([expect.objectContaining({ code: 'bad-value', field: 'drying.surface_tension', line: 14, column: 3 })]);
+  });
+
   it('is refused on an opening', () => {
     const r = load('id: test-pillar\ntitle: Hole\nkind: hole\ngeometry:\n  cd: 40 nm\n  depth: 400 nm\ndrying:\n  liquid: water\n');
     expect(r.ok).toBe(false);

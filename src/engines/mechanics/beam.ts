@@ -1,35 +1,18 @@
-// Beam mechanics for standing structures: sections, end conditions and deflections.
+// Beam mechanics for standing structures: sections and a finite-element solution of the whole
+// standing body as one continuous beam — clamped at its base, held laterally by its support
+// lattices, free (or held) at its top — with its section varying along the taper.
 // Pure functions over SI numbers.
 //
-// Prismatic spans use the classical coefficients of Roark's Formulas for Stress and Strain
-// (Young & Budynas, 7th ed., Table 8.1). A tapered free-standing span is integrated along its
-// height by the unit-load method, δ = ∫ M(x)·m(x) / (E·I(x)) dx, so a body that widens toward its
-// base is stiffer there, as it is.
+// Method: Euler–Bernoulli beam elements with cubic Hermite shape functions (two degrees of freedom
+// per node: deflection and rotation), element stiffness (E·I/ℓ³)[12 6ℓ −12 6ℓ; 6ℓ 4ℓ² −6ℓ 2ℓ²; …],
+// consistent nodal loads for a uniform line load, E·I taken at each element's mid-height. See any
+// finite-element text, e.g. Cook, Malkus, Plesha & Witt, Concepts and Applications of Finite
+// Element Analysis, 4th ed., ch. 2. The stiffness matrix is banded (half-bandwidth 3), so one
+// solution costs O(n). The prismatic cases reproduce Roark's formulas (tests check them).
 
-/** How the two ends of a span are held. Root first: the lower end. */
-export type EndConditions = 'clamped-free' | 'clamped-pinned' | 'pinned-pinned' | 'clamped-clamped';
+export type SectionShape = 'line' | 'solid-round' | 'hollow-round';
 
-/** Where the load acts: spread uniformly along the span, or as a single force. */
-export type LoadCase = 'uniform' | 'point';
-
-/**
- * Coefficients for a prismatic span of length L with uniform load w (N/m) or point load F (N):
- * δ_max = cδ · w·L⁴/(E·I) or cδ · F·L³/(E·I), M_max = cM · w·L² or cM · F·L.
- * Uniform load — Roark Table 8.1 cases 2a (cantilever), 2e (both ends simply supported),
- * 2c (fixed, simply supported: δ_max = wL⁴/(184.6EI) at 0.4215L from the pinned end, M_max = wL²/8
- * at the fixed end) and 2d (both ends fixed).
- * Point load — at the free end of a cantilever (case 1a); at mid-span otherwise (cases 1e, 1c
- * with δ_max = FL³/(48√5·EI) at 0.447L from the pinned end and M_max = 3FL/16, and 1d).
- */
-export const SPAN_COEFFICIENTS: Record<EndConditions, Record<LoadCase, { deflection: number; moment: number }>> = {
-  'clamped-free': { uniform: { deflection: 1 / 8, moment: 1 / 2 }, point: { deflection: 1 / 3, moment: 1 } },
-  'pinned-pinned': { uniform: { deflection: 5 / 384, moment: 1 / 8 }, point: { deflection: 1 / 48, moment: 1 / 4 } },
-  // (39 + 55√33)/65536 = 0.0054161 = 1/184.6, which Roark rounds to 1/185.
-  'clamped-pinned': { uniform: { deflection: (39 + 55 * Math.sqrt(33)) / 65536, moment: 1 / 8 }, point: { deflection: 1 / (48 * Math.sqrt(5)), moment: 3 / 16 } },
-  'clamped-clamped': { uniform: { deflection: 1 / 384, moment: 1 / 12 }, point: { deflection: 1 / 192, moment: 1 / 8 } },
-};
-
-/** Cross-section of a standing body at one height: the width that takes the load, I and the outer fibre. */
+/** Cross-section of a standing body at one height. */
 export interface Section {
   /** Width facing the neighbour (the line width, or the outer diameter). */
   width: number;
@@ -39,8 +22,6 @@ export interface Section {
   fibre: number;
 }
 
-export type SectionShape = 'line' | 'solid-round' | 'hollow-round';
-
 /** Section of a line (per unit length: W³/12), a solid round body (πD⁴/64) or a tube (π(D⁴ − Dᵢ⁴)/64). */
 export function sectionAt(shape: SectionShape, width: number, wall = 0): Section {
   if (shape === 'line') return { width, inertia: width ** 3 / 12, fibre: width / 2 };
@@ -49,70 +30,171 @@ export function sectionAt(shape: SectionShape, width: number, wall = 0): Section
   return { width, inertia: (Math.PI * (width ** 4 - inner ** 4)) / 64, fibre: width / 2 };
 }
 
-/** Gauss–Legendre nodes and weights on [-1, 1], 24 points: exact for polynomials to degree 47. */
-const GL_NODES: number[] = [];
-const GL_WEIGHTS: number[] = [];
-(() => {
-  const n = 24;
-  for (let i = 1; i <= n; i++) {
-    // Newton iteration on P_n from the Chebyshev-like first guess.
-    let x = Math.cos((Math.PI * (i - 0.25)) / (n + 0.5));
-    let dp = 0;
-    for (let iter = 0; iter < 100; iter++) {
-      let p0 = 1;
-      let p1 = x;
-      for (let k = 2; k <= n; k++) {
-        const p2 = ((2 * k - 1) * x * p1 - (k - 1) * p0) / k;
-        p0 = p1;
-        p1 = p2;
-      }
-      dp = (n * (x * p1 - p0)) / (x * x - 1);
-      const dx = p1 / dp;
-      x -= dx;
-      if (Math.abs(dx) < 1e-16) break;
-    }
-    GL_NODES.push(x);
-    GL_WEIGHTS.push(2 / ((1 - x * x) * dp * dp));
-  }
-})();
+export type Hold = 'pinned' | 'clamped';
 
-/** ∫_a^b f, by Gauss–Legendre on `panels` equal panels. */
-export function integrate(f: (x: number) => number, a: number, b: number, panels = 8): number {
-  const h = (b - a) / panels;
-  let sum = 0;
-  for (let p = 0; p < panels; p++) {
-    const mid = a + (p + 0.5) * h;
-    for (let i = 0; i < GL_NODES.length; i++) sum += GL_WEIGHTS[i]! * f(mid + (GL_NODES[i]! * h) / 2);
+export interface BeamModel {
+  /** Node heights above the base, rising from 0 to the top. */
+  z: number[];
+  /** E·I of each element (between nodes i and i+1). */
+  ei: number[];
+  /** Outer-fibre distance over I of each element, to turn moments into stresses. */
+  stressPerMoment: number[];
+  /** Nodes held laterally, and how (the base is always clamped). */
+  held: Map<number, Hold>;
+}
+
+/** Build the element mesh: at least `elements` elements, with a node at every support height. */
+export function meshBeam(opts: {
+  height: number;
+  supports: number[];
+  hold: Hold;
+  section: (z: number) => Section;
+  modulus: number;
+  elements?: number;
+}): BeamModel {
+  const { height: H, supports } = opts;
+  const n = opts.elements ?? 96;
+  const points = new Set<number>();
+  for (let i = 0; i <= n; i++) points.add((H * i) / n);
+  const inside = supports.filter((s) => s > 0 && s <= H);
+  for (const s of inside) points.add(s);
+  // Merge points closer than a millionth of the height (a support on a grid point).
+  const z: number[] = [];
+  for (const p of [...points].sort((a, b) => a - b)) if (z.length === 0 || p - z[z.length - 1]! > H * 1e-6) z.push(p);
+  z[z.length - 1] = H;
+  const ei: number[] = [];
+  const stressPerMoment: number[] = [];
+  for (let i = 0; i + 1 < z.length; i++) {
+    const s = opts.section((z[i]! + z[i + 1]!) / 2);
+    ei.push(opts.modulus * s.inertia);
+    stressPerMoment.push(s.fibre / s.inertia);
   }
-  return (sum * h) / 2;
+  const held = new Map<number, Hold>([[0, 'clamped']]);
+  for (const s of inside) {
+    let best = 0;
+    for (let i = 1; i < z.length; i++) if (Math.abs(z[i]! - s) < Math.abs(z[best]! - s)) best = i;
+    held.set(best, opts.hold);
+  }
+  return { z, ei, stressPerMoment, held };
+}
+
+/** A factorised stiffness matrix, ready for any number of load vectors. */
+export interface BeamSolver {
+  model: BeamModel;
+  /** Deflections and rotations for nodal forces f (2 per node: force, moment). */
+  solve: (f: Float64Array) => Float64Array;
+}
+
+const BAND = 3; // half-bandwidth of the assembled stiffness matrix
+
+export function factorBeam(model: BeamModel): BeamSolver {
+  const nDof = 2 * model.z.length;
+  // Banded symmetric storage: k[i][d] = K(i, i + d), d = 0..BAND.
+  const k = Array.from({ length: nDof }, () => new Float64Array(BAND + 1));
+  for (let e = 0; e + 1 < model.z.length; e++) {
+    const l = model.z[e + 1]! - model.z[e]!;
+    const c = model.ei[e]! / l ** 3;
+    const ke = [
+      [12, 6 * l, -12, 6 * l],
+      [6 * l, 4 * l * l, -6 * l, 2 * l * l],
+      [-12, -6 * l, 12, -6 * l],
+      [6 * l, 2 * l * l, -6 * l, 4 * l * l],
+    ];
+    for (let a = 0; a < 4; a++) {
+      for (let b = a; b < 4; b++) k[2 * e + a]![b - a]! += c * ke[a]![b]!;
+    }
+  }
+  // Held degrees of freedom: deflection at every held node, rotation too where clamped.
+  const fixed = new Set<number>();
+  for (const [node, hold] of model.held) {
+    fixed.add(2 * node);
+    if (hold === 'clamped') fixed.add(2 * node + 1);
+  }
+  for (const i of fixed) {
+    for (let d = 0; d <= BAND; d++) k[i]![d] = 0;
+    for (let d = 1; d <= BAND && i - d >= 0; d++) k[i - d]![d] = 0;
+    k[i]![0] = 1;
+  }
+  // Banded Cholesky: K = Lᵀ·L stored in place (upper band).
+  for (let i = 0; i < nDof; i++) {
+    for (let d = 0; d <= BAND && i + d < nDof; d++) {
+      let sum = k[i]![d]!;
+      for (let m = 1; m <= BAND - d && i - m >= 0; m++) sum -= k[i - m]![m]! * k[i - m]![m + d]!;
+      if (d === 0) {
+        if (!(sum > 0)) throw new Error('beam stiffness matrix is not positive definite');
+        k[i]![0] = Math.sqrt(sum);
+      } else k[i]![d] = sum / k[i]![0]!;
+    }
+  }
+  const solve = (f: Float64Array): Float64Array => {
+    const y = Float64Array.from(f);
+    for (const i of fixed) y[i] = 0;
+    for (let i = 0; i < nDof; i++) {
+      let sum = y[i]!;
+      for (let m = 1; m <= BAND && i - m >= 0; m++) sum -= k[i - m]![m]! * y[i - m]!;
+      y[i] = sum / k[i]![0]!;
+    }
+    for (let i = nDof - 1; i >= 0; i--) {
+      let sum = y[i]!;
+      for (let d = 1; d <= BAND && i + d < nDof; d++) sum -= k[i]![d]! * y[i + d]!;
+      y[i] = sum / k[i]![0]!;
+    }
+    return y;
+  };
+  return { model, solve };
 }
 
 /**
- * Tip deflection and root moment of a cantilever whose width varies linearly from `tipWidth` at
- * the free end to `rootWidth` at the clamped end, under a uniform pressure `pressure` on the face
- * it presents (uniform case) or a force `force` at the tip (point case).
- * Unit-load method with x measured from the tip: m(x) = x; for a line the load per unit length of
- * line is the pressure itself; for a round body it is pressure × local width.
+ * Largest |deflection| along the beam, sampling the Hermite cubic of every element (its nodal
+ * values are exact; between nodes the cubic follows the deflected shape closely).
  */
-export function taperedCantilever(opts: {
-  shape: SectionShape;
-  length: number;
-  tipWidth: number;
-  rootWidth: number;
-  wall?: number;
-  modulus: number;
-  load: { case: 'uniform'; pressure: number } | { case: 'point'; force: number };
-}): { deflection: number; rootMoment: number; rootSection: Section } {
-  const { shape, length: L, tipWidth: a, rootWidth: b, modulus: E, load } = opts;
-  const slope = (b - a) / L;
-  const widthAt = (x: number) => a + slope * x;
-  // Bending moment at distance x from the tip.
-  const moment = (x: number): number => {
-    if (load.case === 'point') return load.force * x;
-    if (shape === 'line') return (load.pressure * x * x) / 2;
-    // ∫0^x p·(a + s·ξ)(x − ξ) dξ = p·(a·x²/2 + s·x³/6)
-    return load.pressure * ((a * x * x) / 2 + (slope * x ** 3) / 6);
-  };
-  const deflection = integrate((x) => (moment(x) * x) / (E * sectionAt(shape, widthAt(x), opts.wall).inertia), 0, L);
-  return { deflection, rootMoment: moment(L), rootSection: sectionAt(shape, b, opts.wall) };
+export function maxDeflection(model: BeamModel, u: Float64Array, samples = 8): { value: number; z: number } {
+  let best = { value: 0, z: 0 };
+  for (let e = 0; e + 1 < model.z.length; e++) {
+    const l = model.z[e + 1]! - model.z[e]!;
+    const [w1, t1, w2, t2] = [u[2 * e]!, u[2 * e + 1]!, u[2 * e + 2]!, u[2 * e + 3]!];
+    for (let k = 0; k <= samples; k++) {
+      const x = k / samples;
+      const h1 = 1 - 3 * x * x + 2 * x ** 3;
+      const h2 = l * (x - 2 * x * x + x ** 3);
+      const h3 = 3 * x * x - 2 * x ** 3;
+      const h4 = l * (x ** 3 - x * x);
+      const w = Math.abs(h1 * w1 + h2 * t1 + h3 * w2 + h4 * t2);
+      if (w > best.value) best = { value: w, z: model.z[e]! + x * l };
+    }
+  }
+  return best;
+}
+
+/** Consistent nodal loads of a line load q(z) (N/m, evaluated at element mid-height). */
+export function uniformLoad(model: BeamModel, q: (z: number) => number): Float64Array {
+  const f = new Float64Array(2 * model.z.length);
+  for (let e = 0; e + 1 < model.z.length; e++) {
+    const l = model.z[e + 1]! - model.z[e]!;
+    const w = q((model.z[e]! + model.z[e + 1]!) / 2);
+    f[2 * e] = f[2 * e]! + (w * l) / 2;
+    f[2 * e + 1] = f[2 * e + 1]! + (w * l * l) / 12;
+    f[2 * e + 2] = f[2 * e + 2]! + (w * l) / 2;
+    f[2 * e + 3] = f[2 * e + 3]! - (w * l * l) / 12;
+  }
+  return f;
+}
+
+/**
+ * Largest |bending stress| along the beam for a solution u: the bending moments at both ends of
+ * every element from its end forces K_e·u_e − f_e (exact at the nodes, including the fixed-end
+ * moments of a line load q on the element), times c/I of the element.
+ */
+export function peakStress(model: BeamModel, u: Float64Array, q?: (z: number) => number): number {
+  let peak = 0;
+  for (let e = 0; e + 1 < model.z.length; e++) {
+    const l = model.z[e + 1]! - model.z[e]!;
+    const c = model.ei[e]! / l ** 3;
+    const [w1, t1, w2, t2] = [u[2 * e]!, u[2 * e + 1]!, u[2 * e + 2]!, u[2 * e + 3]!];
+    const w = q ? q((model.z[e]! + model.z[e + 1]!) / 2) : 0;
+    const m1 = c * (6 * l * w1 + 4 * l * l * t1 - 6 * l * w2 + 2 * l * l * t2) - (w * l * l) / 12;
+    const m2 = c * (6 * l * w1 + 2 * l * l * t1 - 6 * l * w2 + 4 * l * l * t2) + (w * l * l) / 12;
+    peak = Math.max(peak, Math.max(Math.abs(m1), Math.abs(m2)) * model.stressPerMoment[e]!);
+  }
+  return peak;
 }
