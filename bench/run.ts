@@ -53,7 +53,25 @@ async function time(c: Case): Promise<boolean> {
   return ok;
 }
 
+/** Storage-node-like cylinders with lattices, one worst-case collapse rule each (5 toleranced inputs). */
+function writeCollapseHandbook(structures: number): string {
+  const root = mkdtempSync(join(tmpdir(), 'plumbline-bench-collapse-'));
+  mkdirSync(join(root, 'structures'));
+  mkdirSync(join(root, 'rules'));
+  writeFileSync(join(root, 'handbook.yaml'), 'title: Collapse benchmark\n');
+  for (let i = 0; i < structures; i++) {
+    writeFileSync(
+      join(root, 'structures', `c-${i}.yaml`),
+      `id: c-${i}\ntitle: Cylinder ${i}\nkind: cylinder\ngeometry:\n  cd: ${30 + (i % 7)} nm ± 1.5 nm\n  height: ${1.5 + (i % 5) * 0.1} um ± 40 nm\n  pitch: 52 nm\n  array: hexagonal\n  sidewall_angle: 90.1 deg ± 0.05 deg\n  wall: 6 nm ± 0.5 nm\nmaterials:\n  body: titanium-nitride\ndrying:\n  liquid: water\n  contact_angle: 10 deg\n  supports: [0.7 um, 1.3 um]\n`,
+    );
+  }
+  writeFileSync(join(root, 'rules', 'r.yaml'), 'id: C-STAND-1\ntitle: Stands\napplies_to: {}\nquantity: mechanics.collapse_margin\nat_least: 1\nevaluate_at: worst-case\n');
+  return root;
+}
+
 const big = writeHandbook(1000, 100);
+const collapse = loadHandbook(writeCollapseHandbook(200));
+if (!collapse.ok) throw new Error(JSON.stringify(collapse.diagnostics.slice(0, 3)));
 const loaded = loadHandbook(big);
 if (!loaded.ok) throw new Error(JSON.stringify(loaded.diagnostics.slice(0, 3)));
 const mid = process.env.BENCH_SITE === "0" ? "" : writeHandbook(200, 100);
@@ -67,6 +85,11 @@ const cases: Case[] = [
       const r = evaluateHandbook(loaded.handbook);
       if (r.verdicts.length !== 100_000) throw new Error('wrong verdict count');
     },
+  },
+  {
+    name: 'evaluate 200 collapse verdicts (finite-element body, 16 corners each)',
+    targetMs: 5000,
+    run: () => void evaluateHandbook(collapse.handbook),
   },
   ...(mid === '' ? [] : [{
     name: 'build the site for 200 structures × 100 rules (matrix of 20,000 cells)',
