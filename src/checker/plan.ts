@@ -31,7 +31,12 @@ export interface Run {
 
 /** The shape facts of a structure that quantities branch on. */
 export function shapeOf(structure: Structure): Shape {
-  return { kind: structure.kind, ...(structure.array ? { array: structure.array } : {}), ...(structure.drying ? { drying: structure.drying } : {}) };
+  return {
+    kind: structure.kind,
+    ...(structure.array ? { array: structure.array } : {}),
+    ...(structure.drying ? { drying: structure.drying } : {}),
+    ...(structure.etch ? { etch: structure.etch } : {}),
+  };
 }
 
 export function buildPlan(structure: Structure, quantity: string): Plan {

@@ -1,6 +1,6 @@
 // What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
 // the report read only these declarations, never a specific engine.
-import type { ArrayLayout, DryingShape, Kind } from '../model/types.ts';
+import type { ArrayLayout, DryingShape, EtchShape, Kind } from '../model/types.ts';
 
 /** A result that has no finite value for this structure, with the reason shown to the reader. */
 export interface NoValue {
@@ -35,6 +35,7 @@ export interface Shape {
   kind: Kind;
   array?: ArrayLayout;
   drying?: DryingShape;
+  etch?: EtchShape;
 }
 
 /**

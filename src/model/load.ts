@@ -10,13 +10,14 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { DRYING_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
   isElongated,
   isOpening,
   type DryingShape,
+  type EtchShape,
   type ArrayLayout,
   type Handbook,
   type HandbookMeta,
@@ -289,11 +290,15 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'drying', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'drying', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
             ? ['liquid', ...Object.keys(DRYING_PARAMS), 'supports', 'supports_hold']
+            : ptr === '/etch'
+              ? [...Object.keys(ETCH_PARAMS), 'calibration']
+              : /^\/etch\/calibration\/\d+$/.test(ptr)
+                ? Object.keys(CALIBRATION_SPECS)
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -369,6 +374,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   }
 
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
+  const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
 
   if (!schemaOk) return null;
   return {
@@ -376,6 +382,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     title: String(raw.title),
     kind,
     ...(drying ? { drying } : {}),
+    ...(etch ? { etch } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -447,6 +454,35 @@ function readDrying(
     params.set(`drying.support_${i + 1}`, { name: `drying.support_${i + 1}`, ...r, unit: 'm', origin: handbook(pointer) });
   });
   return { liquid, supportCount: supports.length, supportHold: d.supports_hold === 'clamped' ? 'clamped' : 'pinned' };
+}
+
+/** The `etch:` block: recipe numbers and optional calibration points. */
+function readEtch(report: FileReport, e: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>): EtchShape | undefined {
+  if (kind && !isOpening(kind)) {
+    report.add('unknown-field', '/etch', { expected: `an etch block only on openings (hole, trench, via), not on a ${kind}` }, 'key');
+    return undefined;
+  }
+  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
+  for (const [name, spec] of Object.entries(ETCH_PARAMS)) {
+    if (e[name] === undefined) continue;
+    const r = readValue(report, `/etch/${name}`, e[name], spec);
+    if (r) params.set(`etch.${name}`, { name: `etch.${name}`, ...r, unit: spec.unit, origin: handbook(`/etch/${name}`) });
+  }
+  if (e.mask_thickness === undefined) {
+    // The format makes the mask optional: none in the conductance path unless written.
+    params.set('etch.mask_thickness', { name: 'etch.mask_thickness', value: 0, unit: 'm', written: '0 (no mask written)', origin: handbook('/etch') });
+  }
+  const points = Array.isArray(e.calibration) ? e.calibration : [];
+  points.forEach((point, i) => {
+    if (!isMapping(point)) return;
+    for (const [name, spec] of Object.entries(CALIBRATION_SPECS)) {
+      if (point[name] === undefined) continue;
+      const pointer = `/etch/calibration/${i}/${name}`;
+      const r = readValue(report, pointer, point[name], spec);
+      if (r) params.set(`etch.calibration_${i + 1}_${name}`, { name: `etch.calibration_${i + 1}_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
+    }
+  });
+  return { calibrationPoints: points.length };
 }
 
 function rulesFromFile(loaded: Loaded): LocatedRule[] {

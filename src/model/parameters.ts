@@ -37,6 +37,22 @@ export const DRYING_PARAMS: Record<string, ParamSpec> = {
   contact_angle: { unit: 'rad', description: 'Contact angle of the rinse liquid on the structure’s sidewall.', min: 0, max: Math.PI },
 };
 
+/** Inputs of an `etch:` block (the etch that cuts an opening). */
+export const ETCH_PARAMS: Record<string, ParamSpec> = {
+  open_rate: { unit: 'm/s', description: 'Etch rate on an open field (no aspect-ratio loss).', min: 0, exclusiveMin: true },
+  reaction_probability: { unit: '1', description: 'Reaction probability of the limiting neutral at the etch front.', min: 0, max: 1, exclusiveMin: true },
+  time_budget: { unit: 's', description: 'Etch time the recipe may use.', min: 0, exclusiveMin: true },
+  mask_thickness: { unit: 'm', description: 'Thickness of the mask above the opening (part of the conductance path).', min: 0 },
+  reference_cd: { unit: 'm', description: 'CD of a wider feature etched in the same step (for lag).', min: 0, exclusiveMin: true },
+  stop_fraction: { unit: '1', description: 'Fraction of the open-field rate below which the etch counts as stopped.', min: 0, max: 1, exclusiveMin: true, exclusiveMax: true },
+};
+
+/** Spec of one calibration point of `etch.calibration`. */
+export const CALIBRATION_SPECS: Record<string, ParamSpec> = {
+  aspect_ratio: { unit: '1', description: 'Aspect ratio at which the rate was measured.', min: 0, exclusiveMin: true },
+  rate: { unit: 'm/s', description: 'Measured etch rate at that aspect ratio.', min: 0, exclusiveMin: true },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -55,6 +71,7 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   const [block, a, b] = path.split('.');
   if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
+  if (block === 'etch' && a) return a.startsWith('calibration_') ? CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')] : ETCH_PARAMS[a];
   if (block === 'materials' && b) return MATERIAL_PROPERTIES[b];
   return undefined;
 }

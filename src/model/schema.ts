@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { DRYING_PARAMS, GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -39,6 +39,25 @@ export function structureSchema(): JsonSchema {
         properties: {
           ...propertiesFrom(GEOMETRY_PARAMS),
           array: { type: 'string', enum: ['hexagonal', 'square', 'lines'], description: 'Arrangement of neighbours.' },
+        },
+      },
+      etch: {
+        type: 'object',
+        description: 'The etch that cuts the opening: rates, reaction probability, time budget (aspect-ratio-dependent etching).',
+        additionalProperties: false,
+        properties: {
+          ...propertiesFrom(ETCH_PARAMS),
+          calibration: {
+            type: 'array',
+            minItems: 1,
+            description: 'Measured (aspect ratio, rate) points; the engine fits the reaction probability (and the open-field rate when it is not given).',
+            items: {
+              type: 'object',
+              additionalProperties: false,
+              required: ['aspect_ratio', 'rate'],
+              properties: { aspect_ratio: { type: ['string', 'number'] }, rate: { type: ['string', 'number'] } },
+            },
+          },
         },
       },
       drying: {

@@ -55,12 +55,19 @@ export interface DryingShape {
   supportHold: SupportHold;
 }
 
+/** Shape facts of an etch step (its numbers are params: `etch.open_rate`, ...). */
+export interface EtchShape {
+  /** Measured (aspect ratio, rate) points: `etch.calibration_1_aspect_ratio`, `..._rate`, ... */
+  calibrationPoints: number;
+}
+
 export interface Structure {
   id: string;
   title: string;
   kind: Kind;
   array?: ArrayLayout;
   drying?: DryingShape;
+  etch?: EtchShape;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

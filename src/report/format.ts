@@ -65,6 +65,7 @@ const DISPLAY: Record<string, (v: number, d: number) => string> = {
 export function formatValue(value: number | null, unit: string, digits = 4): string {
   if (value === null) return '—';
   if (!Number.isFinite(value)) return value > 0 ? '+∞' : value < 0 ? '−∞' : 'undefined';
+  if (value === 0 && unit === 'rad') return '0°';
   if (value === 0 && unit !== '1') return `0 ${displayUnitOf(unit)}`;
   const f = DISPLAY[unit];
   return f ? f(value, digits) : `${sig(value, digits)} ${unit}`;

@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 26 applicable pairs of 200 (20 rules × 10 structures): 20 pass, 5 fail (3 blocking), 1
+    // 31 applicable pairs of 250 (25 rules × 10 structures): 23 pass, 7 fail (5 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 20, fail: 5, incomplete: 1, 'not-applicable': 174 });
-    expect(j.blocking_failures).toBe(3);
-    expect(j.verdicts).toHaveLength(200);
+    expect(j.counts).toEqual({ pass: 23, fail: 7, incomplete: 1, 'not-applicable': 219 });
+    expect(j.blocking_failures).toBe(5);
+    expect(j.verdicts).toHaveLength(250);
   });
 
   it('accepts --root before the command too', async () => {

@@ -1,0 +1,329 @@
+// Aspect-ratio-dependent etching: how fast the bottom of an opening etches as it deepens, whether
+// it reaches its target depth within the time budget, how far it lags a wider feature etched in
+// the same step, and where it effectively stops.
+//
+// Model (neutral-limited, Coburn & Winters, Appl. Phys. Lett. 55, 2730 (1989)): the flux balance at
+// the etch front Γ_b = K·Γ₀ + (1 − K)(1 − S)·Γ_b gives ER(h)/ER₀ = K/(K + S − K·S), with K the
+// transmission of the opening cut so far (../transport) and S the reaction probability at the
+// front. The depth follows dh/dt = ER₀·K(h)/(K(h) + S − K(h)·S), integrated as
+// t(D) = (1/ER₀)·∫₀ᴰ [1 + S·(1/K(h) − 1)] dh — the opening's taper and mask enter through K(h).
+// Calibration: measured (aspect ratio, rate) points fix S by least squares on the rates.
+import { isElongated, isOpening } from '../../model/types.ts';
+import { integrate } from '../numeric.ts';
+import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
+import { slotTransmission, tubeTransmission } from '../transport/clausing.ts';
+import { openingTransmission } from '../transport/index.ts';
+
+const COBURN_WINTERS = 'Coburn & Winters, Appl. Phys. Lett. 55, 2730 (1989): ER/ER₀ = K/(K + S − K·S)';
+const REVIEW = 'Gottscho, Jurgensen & Vitkavage, J. Vac. Sci. Technol. B 10, 2133 (1992): aspect-ratio-dependent etching (review)';
+
+/** Coburn–Winters bottom rate ratio for transmission K and reaction probability S. */
+export function rateRatio(k: number, s: number): number {
+  return k / (k + s - k * s);
+}
+
+/**
+ * Time to etch to depth D at open-field rate er0, for a transmission K(h) of the part cut so far:
+ * t = (1/ER₀)·∫₀ᴰ [1 + S(1/K(h) − 1)] dh (Gauss–Legendre on 16 panels).
+ */
+export function timeToDepth(depth: number, er0: number, s: number, k: (h: number) => number): number {
+  return integrate((h) => 1 + s * (1 / k(h) - 1), 0, depth, 16) / er0;
+}
+
+/** Depth reached after time t: the inverse of timeToDepth, by bisection (t grows with depth). */
+export function depthAfter(time: number, er0: number, s: number, k: (h: number) => number, maxDepth: number): number {
+  if (timeToDepth(maxDepth, er0, s, k) <= time) return maxDepth;
+  let lo = 0;
+  let hi = maxDepth;
+  for (let i = 0; i < 80 && hi - lo > 1e-12 * hi; i++) {
+    const mid = (lo + hi) / 2;
+    if (timeToDepth(mid, er0, s, k) < time) lo = mid;
+    else hi = mid;
+  }
+  return (lo + hi) / 2;
+}
+
+/** Transmission as a function of the depth cut so far; NaN-free: a closed opening transmits nothing. */
+function transmissionOf(elongated: boolean, cd: number, angle: number, mask: number): (h: number) => number {
+  return (h: number) => {
+    const k = openingTransmission(elongated, cd, angle, h, mask);
+    return typeof k === 'number' ? k : 0;
+  };
+}
+
+/** Depth at which a straight tapered opening closes (Infinity for vertical or re-entrant walls). */
+function closureDepth(cd: number, angle: number): number {
+  const cot = Math.cos(angle) / Math.sin(angle);
+  return cot > 1e-12 ? cd / (2 * cot) : Infinity;
+}
+
+/**
+ * Least-squares reaction probability for measured (AR, rate) points on vertical walls:
+ * minimise Σ (ER₀·R(K(AR), S) − rate)² over S in (0, 1], golden-section search in log S.
+ * Returns S and the RMS of the relative residuals.
+ */
+export function fitReactionProbability(elongated: boolean, er0: number, points: Array<{ ar: number; rate: number }>): { s: number; residual: number } {
+  const kOf = (ar: number) => (elongated ? slotTransmission(ar) : tubeTransmission(2 * ar));
+  const cost = (logS: number) => {
+    const s = Math.exp(logS);
+    return points.reduce((sum, p) => sum + ((er0 * rateRatio(kOf(p.ar), s) - p.rate) / p.rate) ** 2, 0);
+  };
+  let a = Math.log(1e-6);
+  let b = 0;
+  const g = (Math.sqrt(5) - 1) / 2;
+  let c = b - g * (b - a);
+  let d = a + g * (b - a);
+  for (let i = 0; i < 120; i++) {
+    if (cost(c) < cost(d)) b = d;
+    else a = c;
+    c = b - g * (b - a);
+    d = a + g * (b - a);
+  }
+  const logS = (a + b) / 2;
+  return { s: Math.exp(logS), residual: Math.sqrt(cost(logS) / points.length) };
+}
+
+// ── Quantity declarations ─────────────────────────────────────────────────────────────────────
+
+const OPENINGS_ONLY = { notApplicable: 'etching concerns openings (hole, trench, via)' } as const;
+const NO_ETCH = { incomplete: ['etch.open_rate'] };
+
+function calibrationInputs(shape: Shape): Record<string, string> {
+  const inputs: Record<string, string> = {};
+  for (let i = 1; i <= (shape.etch?.calibrationPoints ?? 0); i++) {
+    inputs[`ar_${i}`] = `etch.calibration_${i}_aspect_ratio`;
+    inputs[`rate_${i}`] = `etch.calibration_${i}_rate`;
+  }
+  return inputs;
+}
+
+function calibrationPoints(shape: Shape, a: Record<string, number>): Array<{ ar: number; rate: number }> {
+  const points = [];
+  for (let i = 1; i <= (shape.etch?.calibrationPoints ?? 0); i++) points.push({ ar: a[`ar_${i}`]!, rate: a[`rate_${i}`]! });
+  return points;
+}
+
+/** The reaction probability a recipe uses: written, or fitted to its calibration points. */
+function reactionInput(shape: Shape): string {
+  return (shape.etch?.calibrationPoints ?? 0) > 0 ? 'etch.fitted_reaction_probability' : 'etch.reaction_probability';
+}
+
+const SYMBOLS: Record<string, string> = {
+  depth: 'D',
+  cd: '\\mathrm{CD}',
+  angle: '\\theta',
+  mask: 't_m',
+  rate: '\\mathrm{ER}_0',
+  s: 'S',
+  budget: 'T',
+  k: 'K',
+  reference: '\\mathrm{CD}_{ref}',
+  fraction: 'f',
+  time: 't_D',
+};
+
+/** An etch quantity over the opening's geometry and the recipe. */
+function etchQuantity(
+  def: Omit<QuantityDef, 'variant'>,
+  inputs: (shape: Shape) => Record<string, string>,
+  formula: string,
+  compute: (a: Record<string, number>, elongated: boolean, shape: Shape) => Outcome,
+): QuantityDef {
+  return {
+    ...def,
+    variant: (shape): Variant | { notApplicable: string } | { incomplete: string[] } => {
+      if (!isOpening(shape.kind)) return OPENINGS_ONLY;
+      if (!shape.etch) return NO_ETCH;
+      const elongated = isElongated(shape.kind);
+      return variant({
+        label: elongated ? 'trench (long slot)' : `${shape.kind} (round tube)`,
+        inputs: inputs(shape),
+        symbols: SYMBOLS,
+        formula,
+        compute: (a: Record<string, number>) => compute(a, elongated, shape),
+      });
+    },
+  };
+}
+
+const geometryInputs = { depth: 'geometry.depth', cd: 'geometry.cd', angle: 'geometry.sidewall_angle', mask: 'etch.mask_thickness' };
+
+const fittedReaction: QuantityDef = {
+  name: 'etch.fitted_reaction_probability',
+  title: 'Reaction probability fitted to the calibration',
+  unit: '1',
+  symbol: 'S',
+  description: 'Reaction probability at the etch front that best reproduces the measured (aspect ratio, rate) points with the Coburn–Winters model on vertical walls (least squares on the relative rate residuals).',
+  source: COBURN_WINTERS,
+  assumptions: ['The measured features have vertical walls and no mask in their conductance path; the open-field rate is the recipe’s.'],
+  variant: (shape) => {
+    if (!isOpening(shape.kind)) return OPENINGS_ONLY;
+    if (!shape.etch) return NO_ETCH;
+    if (shape.etch.calibrationPoints === 0) return { notApplicable: 'the recipe gives its reaction probability; it has no calibration points to fit' };
+    const elongated = isElongated(shape.kind);
+    return variant({
+      inputs: { rate: 'etch.open_rate', ...calibrationInputs(shape) },
+      symbols: SYMBOLS,
+      formula: 'S = \\arg\\min_S \\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K(\\mathrm{AR}_i), S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2',
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).s,
+    });
+  },
+};
+
+const fitResidual: QuantityDef = {
+  name: 'etch.fit_residual',
+  title: 'Calibration fit residual',
+  unit: '1',
+  symbol: '\\epsilon_{rms}',
+  description: 'Root-mean-square relative difference between the measured rates and the fitted model: a large value says the points do not follow the neutral-transport model.',
+  source: COBURN_WINTERS,
+  better: 'lower',
+  variant: (shape) => {
+    const v = fittedReaction.variant(shape);
+    if (!('compute' in v)) return v;
+    const elongated = isElongated(shape.kind);
+    return variant({
+      inputs: v.inputs,
+      symbols: SYMBOLS,
+      formula: '\\epsilon_{rms} = \\sqrt{\\frac{1}{n}\\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K_i, S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2}',
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).residual,
+    });
+  },
+};
+
+const bottomRateRatio = etchQuantity(
+  {
+    name: 'etch.bottom_rate_ratio',
+    title: 'Bottom etch rate over open-field rate',
+    unit: '1',
+    symbol: '\\mathrm{ER}/\\mathrm{ER}_0',
+    description: 'Etch rate at the target depth relative to an open field: the neutral flux that reaches the front and reacts.',
+    source: `${COBURN_WINTERS}; ${REVIEW}`,
+    assumptions: ['Neutral-limited etching; ions reach the front undiminished; the front reacts with probability S, the walls not at all.'],
+    better: 'higher',
+    sweep: { input: () => 'geometry.depth', from: 0.1, to: 2 },
+  },
+  (shape) => ({ k: 'transport.transmission', s: reactionInput(shape) }),
+  '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S}',
+  (a) => rateRatio(a.k!, a.s!),
+);
+
+const timeToDepthQ = etchQuantity(
+  {
+    name: 'etch.time_to_depth',
+    title: 'Time to reach the target depth',
+    unit: 's',
+    symbol: 't_D',
+    description: 'Etch time needed to reach the target depth as the rate falls with the growing aspect ratio (and the taper narrows the opening).',
+    source: `${COBURN_WINTERS}, integrated over depth`,
+    better: 'lower',
+  },
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape) }),
+  't_D = \\frac{1}{\\mathrm{ER}_0}\\int_0^{D} \\left[1 + S\\left(\\frac{1}{K(h)} - 1\\right)\\right] dh',
+  (a, elongated) => {
+    if (closureDepth(a.cd!, a.angle!) <= a.depth!) return noValue('the tapered opening closes before it reaches its target depth: the etch never gets there', 'above');
+    return timeToDepth(a.depth!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!));
+  },
+);
+
+const timeMargin = etchQuantity(
+  {
+    name: 'etch.time_margin',
+    title: 'Time-budget margin',
+    unit: '1',
+    symbol: 'T/t_D',
+    description: 'Time budget over the time needed to reach the target depth: above 1 the etch gets there in time; 0 when it never gets there.',
+    source: `${COBURN_WINTERS}, integrated over depth`,
+    better: 'higher',
+  },
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget' }),
+  '\\frac{T}{t_D}',
+  (a, elongated) => {
+    if (closureDepth(a.cd!, a.angle!) <= a.depth!) return noted(0, 'the tapered opening closes before its target depth');
+    return a.budget! / timeToDepth(a.depth!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!));
+  },
+);
+
+const depthInBudget = etchQuantity(
+  {
+    name: 'etch.depth_in_budget',
+    title: 'Depth reached within the time budget',
+    unit: 'm',
+    symbol: 'D_T',
+    description: 'Depth the etch reaches in the time budget (at most where a tapered opening closes).',
+    source: `${COBURN_WINTERS}, integrated over depth and inverted`,
+    better: 'higher',
+    sweep: { input: () => 'etch.time_budget', from: 0.1, to: 2 },
+  },
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget' }),
+  't(D_T) = T',
+  (a, elongated) => {
+    const closes = closureDepth(a.cd!, a.angle!);
+    const k = transmissionOf(elongated, a.cd!, a.angle!, a.mask!);
+    // Open-field depth bounds the search; a closing taper caps it.
+    const max = Math.min(a.rate! * a.budget!, 0.999999 * closes);
+    const d = depthAfter(a.budget!, a.rate!, a.s!, k, max);
+    return closes < Infinity && d >= 0.99999 * closes ? noted(d, 'stopped where the tapered opening closes') : d;
+  },
+);
+
+const lag = etchQuantity(
+  {
+    name: 'etch.lag',
+    title: 'Lag behind the wider reference feature',
+    unit: '1',
+    symbol: '\\Lambda',
+    description: 'Relative depth deficit against the wider reference feature etched in the same step, after the time budget: 0 when both reach the same depth.',
+    source: `${COBURN_WINTERS}; ${REVIEW} (RIE lag)`,
+    assumptions: ['The reference feature has vertical walls, the same mask and the same recipe.'],
+    better: 'lower',
+  },
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', reference: 'etch.reference_cd' }),
+  '\\Lambda = 1 - \\frac{D_T(\\mathrm{CD})}{D_T(\\mathrm{CD}_{ref})}',
+  (a, elongated) => {
+    const closes = closureDepth(a.cd!, a.angle!);
+    const max = Math.min(a.rate! * a.budget!, 0.999999 * closes);
+    const own = depthAfter(a.budget!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!), max);
+    const ref = depthAfter(a.budget!, a.rate!, a.s!, transmissionOf(elongated, a.reference!, Math.PI / 2, a.mask!), a.rate! * a.budget!);
+    return 1 - own / ref;
+  },
+);
+
+const stopAspectRatio = etchQuantity(
+  {
+    name: 'etch.stop_aspect_ratio',
+    title: 'Aspect ratio where the etch stops',
+    unit: '1',
+    symbol: '\\mathrm{AR}_{stop}',
+    description: 'Aspect ratio (vertical walls, no mask) at which the bottom rate falls to the stated fraction of the open-field rate.',
+    source: COBURN_WINTERS,
+    better: 'higher',
+  },
+  (shape) => ({ s: reactionInput(shape), fraction: 'etch.stop_fraction' }),
+  'R(K(\\mathrm{AR}_{stop}), S) = f \\;\\Rightarrow\\; K = \\frac{f S}{1 - f(1 - S)}',
+  (a, elongated): number | NoValue => {
+    const f = a.fraction!;
+    const s = a.s!;
+    const target = (f * s) / (1 - f * (1 - s));
+    const kOf = (ar: number) => (elongated ? slotTransmission(ar) : tubeTransmission(2 * ar));
+    let lo = 0;
+    let hi = 1;
+    while (kOf(hi) > target) {
+      hi *= 2;
+      if (hi > 1e7) return noValue('the rate never falls that low', 'above');
+    }
+    for (let i = 0; i < 80; i++) {
+      const mid = (lo + hi) / 2;
+      if (kOf(mid) > target) lo = mid;
+      else hi = mid;
+    }
+    return (lo + hi) / 2;
+  },
+);
+
+export const etchEngine: Engine = {
+  id: 'etch',
+  title: 'Etch: aspect-ratio-dependent etching',
+  summary: 'Bottom etch rate, time to depth, depth in the time budget, lag behind a wider feature and the aspect ratio where the etch stops, from neutral transport (Coburn–Winters), with calibration to measured rates.',
+  quantities: [fittedReaction, fitResidual, bottomRateRatio, timeToDepthQ, timeMargin, depthInBudget, lag, stopAspectRatio],
+};

@@ -1,0 +1,45 @@
+// Numerical tools shared by engines: Gauss–Legendre quadrature.
+
+const cache = new Map<number, { x: number[]; w: number[] }>();
+
+/** Gauss–Legendre nodes and weights on [−1, 1] (Newton iteration on Pₙ). */
+export function gaussLegendre(n: number): { x: number[]; w: number[] } {
+  const hit = cache.get(n);
+  if (hit) return hit;
+  const x: number[] = [];
+  const w: number[] = [];
+  for (let i = 1; i <= n; i++) {
+    let z = Math.cos((Math.PI * (i - 0.25)) / (n + 0.5));
+    let dp = 0;
+    for (let it = 0; it < 100; it++) {
+      let p0 = 1;
+      let p1 = z;
+      for (let k = 2; k <= n; k++) {
+        const p2 = ((2 * k - 1) * z * p1 - (k - 1) * p0) / k;
+        p0 = p1;
+        p1 = p2;
+      }
+      dp = (n * (z * p1 - p0)) / (z * z - 1);
+      const dz = p1 / dp;
+      z -= dz;
+      if (Math.abs(dz) < 1e-16) break;
+    }
+    x.push(z);
+    w.push(2 / ((1 - z * z) * dp * dp));
+  }
+  const rule = { x, w };
+  cache.set(n, rule);
+  return rule;
+}
+
+/** ∫ₐᵇ f by 12-point Gauss–Legendre on `panels` equal panels. */
+export function integrate(f: (x: number) => number, a: number, b: number, panels = 8): number {
+  const { x, w } = gaussLegendre(12);
+  const h = (b - a) / panels;
+  let sum = 0;
+  for (let p = 0; p < panels; p++) {
+    const mid = a + (p + 0.5) * h;
+    for (let i = 0; i < x.length; i++) sum += w[i]! * f(mid + (x[i]! * h) / 2);
+  }
+  return (sum * h) / 2;
+}

@@ -1,0 +1,135 @@
+// Test-particle Monte Carlo of free-molecular transmission through an opening of any straight
+// profile: a round hole (a cone frustum, including a vertical tube) or a long slot (a trench,
+// vertical or tapered). Molecules enter the top with a cosine distribution, fly straight, and
+// leave a wall in a new cosine-distributed direction (diffuse re-emission, no reaction) until they
+// cross the bottom (transmitted) or the top (returned). Seeded, so a run is repeatable.
+//
+// The method is the classical one of Davis, J. Appl. Phys. 31, 1169 (1960); it needs no closed
+// form, which is why it checks them and covers tapered profiles they do not.
+
+export interface OpeningProfile {
+  shape: 'tube' | 'slot';
+  depth: number;
+  /** Diameter (tube) or width (slot) at the top. */
+  topWidth: number;
+  /** Diameter or width at the bottom (equal to the top for vertical walls). */
+  bottomWidth: number;
+}
+
+export interface TransmissionEstimate {
+  value: number;
+  /** One standard deviation of the estimate (binomial). */
+  sigma: number;
+  particles: number;
+}
+
+/** mulberry32: a small, well-mixed 32-bit generator (public domain). */
+export function seededRandom(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+type Vec = [number, number, number];
+
+/** A cosine-distributed unit vector about the unit normal n. */
+function cosineAbout(n: Vec, rnd: () => number): Vec {
+  const u1 = rnd();
+  const u2 = rnd();
+  const sinT = Math.sqrt(u1);
+  const cosT = Math.sqrt(1 - u1);
+  const phi = 2 * Math.PI * u2;
+  // Orthonormal basis (t1, t2, n).
+  const a: Vec = Math.abs(n[0]) < 0.9 ? [1, 0, 0] : [0, 1, 0];
+  const t1: Vec = [n[1] * a[2] - n[2] * a[1], n[2] * a[0] - n[0] * a[2], n[0] * a[1] - n[1] * a[0]];
+  const l1 = Math.hypot(...t1);
+  t1[0] /= l1;
+  t1[1] /= l1;
+  t1[2] /= l1;
+  const t2: Vec = [n[1] * t1[2] - n[2] * t1[1], n[2] * t1[0] - n[0] * t1[2], n[0] * t1[1] - n[1] * t1[0]];
+  const c1 = sinT * Math.cos(phi);
+  const c2 = sinT * Math.sin(phi);
+  return [c1 * t1[0] + c2 * t2[0] + cosT * n[0], c1 * t1[1] + c2 * t2[1] + cosT * n[1], c1 * t1[2] + c2 * t2[2] + cosT * n[2]];
+}
+
+const EPS = 1e-12;
+
+/** Distance along the ray to the wall, and the inward normal there; z grows downward. */
+function hitWall(p: Vec, d: Vec, prof: OpeningProfile, r1: number, k: number): { t: number; n: Vec } | null {
+  if (prof.shape === 'tube') {
+    // x² + y² = (r1 + k·z)²
+    const A = d[0] * d[0] + d[1] * d[1] - k * k * d[2] * d[2];
+    const rz = r1 + k * p[2];
+    const B = 2 * (p[0] * d[0] + p[1] * d[1] - k * rz * d[2]);
+    const C = p[0] * p[0] + p[1] * p[1] - rz * rz;
+    let best = Infinity;
+    if (Math.abs(A) < 1e-300) {
+      if (Math.abs(B) > 0) best = -C / B;
+    } else {
+      const disc = B * B - 4 * A * C;
+      if (disc >= 0) {
+        const s = Math.sqrt(disc);
+        for (const t of [(-B - s) / (2 * A), (-B + s) / (2 * A)]) {
+          if (t > EPS && t < best && r1 + k * (p[2] + t * d[2]) > 0) best = t;
+        }
+      }
+    }
+    if (!Number.isFinite(best) || best <= EPS) return null;
+    const x = p[0] + best * d[0];
+    const y = p[1] + best * d[1];
+    const r = Math.hypot(x, y);
+    const out: Vec = [x / r, y / r, -k];
+    const l = Math.hypot(...out);
+    return { t: best, n: [-out[0] / l, -out[1] / l, -out[2] / l] };
+  }
+  // Slot: walls x = ±(r1 + k·z).
+  let best: { t: number; n: Vec } | null = null;
+  for (const side of [1, -1]) {
+    const denom = d[0] - side * k * d[2];
+    if (Math.abs(denom) < 1e-300) continue;
+    const t = (side * (r1 + k * p[2]) - p[0]) / denom;
+    if (t > EPS && (!best || t < best.t)) {
+      const l = Math.hypot(1, k);
+      best = { t, n: [-side / l, 0, k / l] };
+    }
+  }
+  return best;
+}
+
+/** Estimate the transmission probability with `particles` test particles. */
+export function transmissionMonteCarlo(prof: OpeningProfile, particles: number, seed = 1): TransmissionEstimate {
+  const rnd = seededRandom(seed);
+  const r1 = prof.topWidth / 2;
+  const k = (prof.bottomWidth - prof.topWidth) / (2 * prof.depth);
+  let through = 0;
+  for (let i = 0; i < particles; i++) {
+    // Uniform entry over the opening.
+    let p: Vec;
+    if (prof.shape === 'tube') {
+      const rr = r1 * Math.sqrt(rnd());
+      const ph = 2 * Math.PI * rnd();
+      p = [rr * Math.cos(ph), rr * Math.sin(ph), 0];
+    } else p = [(rnd() - 0.5) * 2 * r1, 0, 0];
+    let d = cosineAbout([0, 0, 1], rnd);
+    for (let bounce = 0; bounce < 1_000_000; bounce++) {
+      const wall = hitWall(p, d, prof, r1, k);
+      const tBottom = d[2] > 0 ? (prof.depth - p[2]) / d[2] : Infinity;
+      const tTop = d[2] < 0 ? -p[2] / d[2] : Infinity;
+      const tWall = wall ? wall.t : Infinity;
+      if (tBottom <= tWall && tBottom <= tTop) {
+        through++;
+        break;
+      }
+      if (tTop <= tWall) break;
+      p = [p[0] + tWall * d[0], p[1] + tWall * d[1], p[2] + tWall * d[2]];
+      d = cosineAbout(wall!.n, rnd);
+    }
+  }
+  const value = through / particles;
+  return { value, sigma: Math.sqrt((value * (1 - value)) / particles), particles };
+}

@@ -1,0 +1,100 @@
+// Aspect-ratio-dependent etching. Sources beside each check:
+// - Coburn & Winters, Appl. Phys. Lett. 55, 2730 (1989): ER/ER₀ = K/(K + S − K·S) and its limits
+//   (S = 1 gives K; S → 0 gives no lag);
+// - Cole's tube values (Livesey 1998, Table 2.5) for K at tabulated L/R;
+// - a closed-form integral: with K(h) = 1/(1 + a·h) the time to depth is (D + S·a·D²/2)/ER₀;
+// - calibration recovering the S that generated its points, and reporting a poor fit honestly.
+import { describe, expect, it } from 'vitest';
+import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { depthAfter, fitReactionProbability, rateRatio, timeToDepth } from '../../src/engines/etch/index.ts';
+import type { Param, Structure } from '../../src/model/types.ts';
+import { deg, expectRel, makeStructure, nm, um } from '../helpers.ts';
+
+describe('Coburn–Winters rate ratio', () => {
+  it('is the transmission itself when every molecule reacts (S = 1)', () => {
+    for (const k of [0.9, 0.3, 0.02]) expectRel(rateRatio(k, 1), k, 12);
+  });
+  it('shows little lag for a small reaction probability', () => {
+    // S = 0.001 at K = 0.19 (L/R = 10): 0.19/(0.19 + 0.001·0.81) = 0.99576 (hand).
+    expectRel(rateRatio(0.190941, 0.001), 0.190941 / (0.190941 + 0.001 * (1 - 0.190941)), 12);
+    expect(rateRatio(0.190941, 0.001)).toBeGreaterThan(0.995);
+  });
+});
+
+describe('depth integration', () => {
+  const a = 1 / (100 * nm); // K = 1/(1 + h/100 nm)
+  const K = (h: number) => 1 / (1 + a * h);
+  const er0 = 5e-9; // 300 nm/min
+  const S = 0.2;
+  it('matches the closed form t = (D + S·a·D²/2)/ER₀ for K = 1/(1 + a·h)', () => {
+    for (const D of [50 * nm, 1 * um, 3 * um]) expectRel(timeToDepth(D, er0, S, K), (D + (S * a * D * D) / 2) / er0, 10);
+  });
+  it('inverts it: D(t) = (√(1 + 2·S·a·ER₀·t) − 1)/(S·a)', () => {
+    const t = 600;
+    expectRel(depthAfter(t, er0, S, K, 1e-3), (Math.sqrt(1 + 2 * S * a * er0 * t) - 1) / (S * a), 9);
+  });
+});
+
+describe('calibration', () => {
+  // Points generated with S = 0.05 on round holes at AR 2.5, 5, 10, 20 (L/R = 5, 10, 20, 40), where
+  // Cole's table gives K exactly: 0.310525, 0.190941, 0.109304, 0.059422.
+  const er0 = 5e-9;
+  const K = { 2.5: 0.310525, 5: 0.190941, 10: 0.109304, 20: 0.059422 } as const;
+  const points = Object.entries(K).map(([ar, k]) => ({ ar: Number(ar), rate: er0 * (k / (k + 0.05 - k * 0.05)) }));
+  it('recovers the reaction probability that generated the points', () => {
+    const fit = fitReactionProbability(false, er0, points);
+    expectRel(fit.s, 0.05, 4);
+    expect(fit.residual).toBeLessThan(1e-4);
+  });
+  it('reports a poor fit when the rates do not fall with aspect ratio as the model says', () => {
+    const flat = points.map((p, i) => ({ ar: p.ar, rate: er0 * (i % 2 === 0 ? 0.95 : 0.3) }));
+    expect(fitReactionProbability(false, er0, flat).residual).toBeGreaterThan(0.2);
+  });
+});
+
+/** A hole with an etch block, in SI. */
+function etchedHole(geometry: Record<string, number>, etch: Record<string, number>, kind: 'hole' | 'trench' = 'hole'): Structure {
+  const s = makeStructure(kind, geometry, kind === 'hole' ? { array: 'square' } : {});
+  const pos = { file: 'test', line: 1, column: 1 };
+  for (const [k, v] of Object.entries({ mask_thickness: 0, ...etch })) {
+    s.params.set(`etch.${k}`, { name: `etch.${k}`, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos } } satisfies Param);
+  }
+  s.etch = { calibrationPoints: 0 };
+  return s;
+}
+const value = (s: Structure, q: string) => evaluateStructure(s).quantities[q];
+
+describe('etch quantities of a structure', () => {
+  it('vertical walls, no mask: the rate ratio is exactly Coburn–Winters with Cole’s transmission', () => {
+    // 80 nm hole, 800 nm deep: L/R = 20, K = 0.109304 (Cole); S = 0.2 → 0.109304/(0.109304 + 0.2 − 0.0218608).
+    const s = etchedHole({ cd: 80 * nm, depth: 800 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, reaction_probability: 0.2, time_budget: 600 });
+    expectRel(value(s, 'transport.transmission')?.value, 0.109304, 6);
+    expectRel(value(s, 'etch.bottom_rate_ratio')?.value, 0.109304 / (0.109304 + 0.2 - 0.2 * 0.109304), 6);
+  });
+
+  it('never reaches a depth below where its taper closes: no time, a zero time margin', () => {
+    // 80 nm at 89°: closes at 40 nm·tan 89° = 2.29 µm < 3 µm.
+    const s = etchedHole({ cd: 80 * nm, depth: 3 * um, sidewall_angle: deg(89) }, { open_rate: 5e-9, reaction_probability: 0.2, time_budget: 600 });
+    expect(value(s, 'etch.time_to_depth')).toMatchObject({ value: null, unbounded: 'above' });
+    expect(value(s, 'etch.time_margin')?.value).toBe(0);
+    expect(value(s, 'etch.depth_in_budget')?.value).toBeLessThan(2.2915 * um);
+  });
+
+  it('has no lag behind a reference feature of its own size', () => {
+    const s = etchedHole({ cd: 80 * nm, depth: 800 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, reaction_probability: 0.2, time_budget: 600, reference_cd: 80 * nm });
+    expect(Math.abs(value(s, 'etch.lag')!.value!)).toBeLessThan(1e-9);
+  });
+
+  it('stops between AR 10 and 20 when every molecule reacts and the stop is a tenth of the open rate', () => {
+    // S = 1: the ratio is K; K = 0.1 lies between Cole's L/R = 20 (0.109) and 40 (0.059), i.e. AR 10–20.
+    const s = etchedHole({ cd: 80 * nm, depth: 800 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, reaction_probability: 1, time_budget: 600, stop_fraction: 0.1 });
+    const ar = value(s, 'etch.stop_aspect_ratio')!.value!;
+    expect(ar).toBeGreaterThan(10);
+    expect(ar).toBeLessThan(20);
+  });
+
+  it('reaches the open-field depth in the budget when nothing reacts at the walls’ expense (S → 0)', () => {
+    const s = etchedHole({ cd: 80 * nm, depth: 800 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, reaction_probability: 1e-6, time_budget: 60 });
+    expectRel(value(s, 'etch.depth_in_budget')?.value, 300 * nm, 3);
+  });
+});

@@ -1,0 +1,97 @@
+// Molecular transmission of tubes and slots. Sources beside each check:
+// - Cole's exact tube values as tabulated by Livesey (1998), Table 2.5 (quoted in
+//   ../shared/design/physics-references.md as confirmed);
+// - Santeler, J. Vac. Sci. Technol. A 4, 338 (1986): closed form, stated error below 0.7 %;
+// - Knudsen's long-tube limit W → 8R/(3L);
+// - an independent method: the seeded test-particle Monte Carlo, within its statistical error;
+// - the slot solution of Clausing's integral equation, re-solved here on a finer mesh.
+import { describe, expect, it } from 'vitest';
+import { COLE_TUBE, monotoneCubic, santelerTube, slotTransmission, slotTransmissionNystrom, tubeTransmission } from '../../src/engines/transport/clausing.ts';
+import { transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
+import { openingTransmission } from '../../src/engines/transport/index.ts';
+import { expectRel } from '../helpers.ts';
+
+describe('round tube', () => {
+  it('passes through every tabulated value of Cole (Livesey 1998, Table 2.5)', () => {
+    for (const [l, w] of COLE_TUBE) expectRel(tubeTransmission(l), w, 6);
+  });
+
+  it('Santeler’s closed form stays within its stated 0.7 % of the table', () => {
+    for (const [l, w] of COLE_TUBE) expect(Math.abs(santelerTube(l) / w - 1), `L/R = ${l}`).toBeLessThan(0.007);
+  });
+
+  it('interpolates between table points to better than 0.2 % (each interior point left out in turn)', () => {
+    // The stated interpolation error: rebuild the ratio-to-Santeler interpolant without one point
+    // and compare with the published value there.
+    for (let skip = 1; skip < COLE_TUBE.length - 1; skip++) {
+      const kept = COLE_TUBE.filter((_, i) => i !== skip);
+      const ratio = monotoneCubic(kept.map(([l]) => Math.log(l)), kept.map(([l, w]) => w / santelerTube(l)));
+      const [l, w] = COLE_TUBE[skip]!;
+      expect(Math.abs((santelerTube(l) * ratio(Math.log(l))) / w - 1), `L/R = ${l}`).toBeLessThan(2e-3);
+    }
+  });
+
+  it('tends to Knudsen’s 8R/(3L) for long tubes', () => {
+    expect(tubeTransmission(1e5) / (8 / (3 * 1e5))).toBeCloseTo(1, 3);
+  });
+
+  it('agrees with a test-particle Monte Carlo within three standard deviations', () => {
+    for (const l of [1, 5]) {
+      const mc = transmissionMonteCarlo({ shape: 'tube', depth: l, topWidth: 2, bottomWidth: 2 }, 60_000, 11);
+      expect(Math.abs(mc.value - tubeTransmission(l)), `L/R = ${l}`).toBeLessThan(3 * mc.sigma);
+    }
+  });
+});
+
+describe('long slot', () => {
+  it('the committed table matches a fresh solution of Clausing’s equation on a finer mesh', () => {
+    // Interpolation in the table (ten points per decade) adds less than 1e-4.
+    for (const l of [0.3, 2, 7.3, 30]) expectRel(slotTransmission(l), slotTransmissionNystrom(l, 0.5), 4);
+  });
+
+  it('agrees with a test-particle Monte Carlo within three standard deviations', () => {
+    for (const l of [1, 5]) {
+      const mc = transmissionMonteCarlo({ shape: 'slot', depth: l, topWidth: 1, bottomWidth: 1 }, 60_000, 13);
+      expect(Math.abs(mc.value - slotTransmission(l)), `L/w = ${l}`).toBeLessThan(3 * mc.sigma);
+    }
+  });
+
+  it('is not the tube of hydraulic diameter 2w (the trap: tens of percent at L/w = 10, about 2× at 100)', () => {
+    expect(slotTransmission(10) / tubeTransmission(10)).toBeGreaterThan(1.2);
+    expect(slotTransmission(100) / tubeTransmission(100)).toBeGreaterThan(1.7);
+  });
+
+  it('approaches the long-slot form (w/L)·ln(L/w) from above', () => {
+    // Long-slot asymptote W ≈ (w/L)·ln(L/w) (from memory); the exact solution keeps a positive
+    // constant beyond the logarithm.
+    for (const l of [50, 100, 300]) {
+      const ratio = (slotTransmission(l) * l) / Math.log(l);
+      expect(ratio).toBeGreaterThan(1);
+      expect(ratio).toBeLessThan(1.06);
+    }
+  });
+});
+
+describe('tapered openings', () => {
+  it.each([
+    // shape, top CD, depth, sidewall angle (deg)
+    ['tube', 100e-9, 1e-6, 89],
+    ['tube', 80e-9, 2e-6, 89.6],
+    ['slot', 40e-9, 400e-9, 89],
+    ['slot', 24e-9, 230e-9, 88.5],
+  ] as const)('the equal-conductance approximation stays within 5 %% of the Monte Carlo: %s, %d m top, %d m deep, %d°', (shape, cd, depth, deg) => {
+    const angle = (deg * Math.PI) / 180;
+    const bottom = cd - (2 * depth) / Math.tan(angle);
+    const mc = transmissionMonteCarlo({ shape, depth, topWidth: cd, bottomWidth: bottom }, 60_000, 17);
+    const approx = openingTransmission(shape === 'slot', cd, angle, depth, 0) as number;
+    expect(Math.abs(approx / mc.value - 1)).toBeLessThan(0.05 + (3 * mc.sigma) / mc.value);
+  });
+
+  it('the Monte Carlo sees a converging hole transmit less than a straight hole of its bottom size would suggest per area, but more than its narrowest section', () => {
+    // Reciprocity bounds (W·A is a conductance): the 100 → 65 nm cone conducts more than a 65 nm tube
+    // of the same length and less than a 100 nm one.
+    const cone = transmissionMonteCarlo({ shape: 'tube', depth: 1e-6, topWidth: 100e-9, bottomWidth: 65e-9 }, 40_000, 19).value * 100 ** 2;
+    expect(cone).toBeGreaterThan(tubeTransmission(1000 / 32.5) * 65 ** 2);
+    expect(cone).toBeLessThan(tubeTransmission(1000 / 50) * 100 ** 2);
+  });
+});
