@@ -80,7 +80,16 @@ export interface QuantityDef {
    * The input a verdict page sweeps to chart this quantity against (e.g. the height), as a
    * range of multiples of the structure's own value. The report runs the same plan at each point.
    */
-  sweep?: { input: (shape: Shape) => string; from: number; to: number };
+  sweep?: {
+    input: (shape: Shape) => string;
+    from: number;
+    to: number;
+    /**
+     * A second curve for comparison: the same plan with some inputs replaced by another input's
+     * value or a constant (e.g. the reference feature's CD and vertical walls).
+     */
+    companion?: { label: string; replace: Record<string, string | number> };
+  };
   /**
    * The way to compute it for a shape; or a reason it does not apply to that shape; or the shape
    * facts (such as `geometry.array`) the structure must state before it can be computed.

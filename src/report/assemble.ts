@@ -290,20 +290,39 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
   const last = plan.steps.length - 1;
   const xScale = displayScale(plan.params[idx]!.unit, x0);
   const yScale = displayScale(def.unit, v.value);
-  const curve: Array<{ x: number; y: number }> = [];
-  for (let k = 0; k < SWEEP_POINTS; k++) {
-    const x = x0 * (def.sweep.from + ((def.sweep.to - def.sweep.from) * k) / (SWEEP_POINTS - 1));
-    const inputs = base.slice();
-    inputs[idx] = x;
-    const y = runPlan(plan, inputs).values[last];
-    if (y !== null && y !== undefined && Number.isFinite(y)) curve.push({ x: x * xScale.factor, y: y * yScale.factor });
-  }
+  const sweepFrom = (start: number[]) => {
+    const points: Array<{ x: number; y: number }> = [];
+    for (let k = 0; k < SWEEP_POINTS; k++) {
+      const x = x0 * (def.sweep!.from + ((def.sweep!.to - def.sweep!.from) * k) / (SWEEP_POINTS - 1));
+      const inputs = start.slice();
+      inputs[idx] = x;
+      const y = runPlan(plan, inputs).values[last];
+      if (y !== null && y !== undefined && Number.isFinite(y)) points.push({ x: x * xScale.factor, y: y * yScale.factor });
+    }
+    return points;
+  };
+  const curve = sweepFrom(base);
   if (curve.length < 2) return null;
+  // The companion curve: the same plan with some inputs replaced (all must be known).
+  let companion: Array<{ x: number; y: number }> = [];
+  const comp = def.sweep.companion;
+  if (comp) {
+    const start = base.slice();
+    let complete = true;
+    for (const [target, source] of Object.entries(comp.replace)) {
+      const ti = plan.params.findIndex((p) => p.name === target);
+      const value = typeof source === 'number' ? source : s.params.get(source)?.value;
+      if (ti < 0 || value === undefined) complete = false;
+      else start[ti] = value;
+    }
+    if (complete) companion = sweepFrom(start);
+  }
   const xTitle = `${inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
-  const svg = await sweepChart(curve, { x: x0 * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle);
+  const svg = await sweepChart(curve, { x: x0 * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle, companion);
   const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
-  return { svg, caption: `${def.title} against ${inputName}, with ${corner}; ◆ this structure, dashed: the limit.` };
+  const also = companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '';
+  return { svg, caption: `${def.title} against ${inputName}, with ${corner}; ◆ this structure, dashed: the limit${also}.` };
 }
 
 function scopeText(rule: Rule): string {
@@ -330,8 +349,13 @@ function variantsOf(name: string): Array<{ label: string; formulaHtml: string }>
   for (const kind of KINDS) {
     const arrays: ArrayLayout[] = isElongated(kind) ? ['lines'] : ['square', 'hexagonal'];
     for (const array of arrays) {
-      // Standing kinds are shown drying without supports, the simplest case of their formulas.
-      const v = q.variant({ kind, array, ...(isOpening(kind) ? {} : { drying: { liquid: 'water', supportCount: 0, supportHold: 'pinned' as const } }) });
+      // Standing kinds are shown drying without supports, openings with an etch recipe that has
+      // calibration points: the simplest shapes that have every formula.
+      const v = q.variant({
+        kind,
+        array,
+        ...(isOpening(kind) ? { etch: { calibrationPoints: 1 } } : { drying: { liquid: 'water', supportCount: 0, supportHold: 'pinned' as const } }),
+      });
       if (!('formula' in v)) continue;
       const list = seen.get(v.formula) ?? [];
       list.push(isElongated(kind) ? kind : `${kind} (${array})`);

@@ -98,7 +98,7 @@ const KINDS: Record<string, ChartKind> = {
     } as TopLevelSpec,
   },
   sweep: {
-    datasets: ['curve', 'own', 'limit'],
+    datasets: ['curve', 'companion', 'own', 'limit'],
     xTitleSignal: true,
     yTitleSignal: true,
     spec: {
@@ -113,6 +113,11 @@ const KINDS: Record<string, ChartKind> = {
             x: { field: 'x', type: 'quantitative', title: 'x', scale: { zero: false } },
             y: { field: 'y', type: 'quantitative', title: 'y', scale: { zero: false } },
           },
+        },
+        {
+          data: { name: 'companion' },
+          mark: { type: 'line', color: '#7a8aa0', strokeWidth: 1.5, strokeDash: [2, 2], interpolate: 'monotone' },
+          encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
         },
         {
           data: { name: 'limit' },
@@ -244,8 +249,15 @@ export function valueChart(rows: ValuePoint[], limit: number, axisTitle: string)
 }
 
 /** A quantity against one of its inputs, the structure's own point and the rule's limit. */
-export function sweepChart(curve: Array<{ x: number; y: number }>, own: { x: number; y: number; status: string }, limit: number, xTitle: string, yTitle: string): Promise<string> {
-  return renderChart('sweep', { curve, own: [own], limit: [{ limit }] }, xTitle, yTitle);
+export function sweepChart(
+  curve: Array<{ x: number; y: number }>,
+  own: { x: number; y: number; status: string },
+  limit: number | null,
+  xTitle: string,
+  yTitle: string,
+  companion: Array<{ x: number; y: number }> = [],
+): Promise<string> {
+  return renderChart('sweep', { curve, companion, own: [own], limit: limit === null ? [] : [{ limit }] }, xTitle, yTitle);
 }
 
 /** Count of verdicts by status, one bar each. */

@@ -257,6 +257,8 @@ describe('the demo handbook, verdict by verdict', () => {
     ['CH-CAL-1', 'channel-hole', 'pass', [0, 0.1]],
     // Cell trench against the 120 nm periphery trench: lags more than 30 %.
     ['ISO-LAG-1', 'cell-isolation-trench', 'fail', [0.3, 1]],
+    // Cell trench depth in 4 min: above the 250 nm limit, below the open-field 4 × 150 = 600 nm.
+    ['ISO-DEPTH-1', 'cell-isolation-trench', 'pass', [250 * nm, 600 * nm]],
     // Via: worst corner 112 µm deep, 72 min × 8 µm/min / 112 µm = 5.14 open-field; passes 1.15.
     ['TSV-ETCH-1', 'package-tsv', 'pass', [1.15, (72 * 8) / 112]],
     // (110 + 2)/(8 − 0.3) = 14.545 ≤ 15.
@@ -281,10 +283,10 @@ describe('the demo handbook, verdict by verdict', () => {
     }
   });
 
-  it('counts 23 pass, 7 fail (5 blocking), 1 incomplete, 219 not applicable', () => {
-    // 25 rules × 10 structures = 250 pairs; the 31 in the table above apply, so 219 do not.
+  it('counts 24 pass, 7 fail (5 blocking), 1 incomplete, 228 not applicable', () => {
+    // 26 rules × 10 structures = 260 pairs; the 32 in the table above apply, so 228 do not.
     const r = evaluateHandbook(handbook);
-    expect(r.counts).toEqual({ pass: 23, fail: 7, incomplete: 1, 'not-applicable': 219 });
+    expect(r.counts).toEqual({ pass: 24, fail: 7, incomplete: 1, 'not-applicable': 228 });
     expect(r.blockingFailures).toBe(5);
   });
 

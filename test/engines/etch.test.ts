@@ -5,10 +5,10 @@
 // - a closed-form integral: with K(h) = 1/(1 + a·h) the time to depth is (D + S·a·D²/2)/ER₀;
 // - calibration recovering the S that generated its points, and reporting a poor fit honestly.
 import { describe, expect, it } from 'vitest';
-import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { depthAfter, fitReactionProbability, rateRatio, timeToDepth } from '../../src/engines/etch/index.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
-import { deg, expectRel, makeStructure, nm, um } from '../helpers.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 
 describe('Coburn–Winters rate ratio', () => {
   it('is the transmission itself when every molecule reacts (S = 1)', () => {
@@ -72,11 +72,13 @@ describe('etch quantities of a structure', () => {
     expectRel(value(s, 'etch.bottom_rate_ratio')?.value, 0.109304 / (0.109304 + 0.2 - 0.2 * 0.109304), 6);
   });
 
-  it('never reaches a depth below where its taper closes: no time, a zero time margin', () => {
+  it('never reaches a depth below where its taper closes: no time, no margin, a failing verdict', () => {
     // 80 nm at 89°: closes at 40 nm·tan 89° = 2.29 µm < 3 µm.
     const s = etchedHole({ cd: 80 * nm, depth: 3 * um, sidewall_angle: deg(89) }, { open_rate: 5e-9, reaction_probability: 0.2, time_budget: 600 });
     expect(value(s, 'etch.time_to_depth')).toMatchObject({ value: null, unbounded: 'above' });
-    expect(value(s, 'etch.time_margin')?.value).toBe(0);
+    expect(value(s, 'etch.time_margin')?.value).toBeNull();
+    const v = evaluateRule(makeRule({ quantity: 'etch.time_margin', comparison: 'at_least', limit: 1 }), s, new PlanCache());
+    expect(v.status).toBe('fail');
     expect(value(s, 'etch.depth_in_budget')?.value).toBeLessThan(2.2915 * um);
   });
 

@@ -88,6 +88,15 @@ export function fitReactionProbability(elongated: boolean, er0: number, points: 
 const OPENINGS_ONLY = { notApplicable: 'etching concerns openings (hole, trench, via)' } as const;
 const NO_ETCH = { incomplete: ['etch.open_rate'] };
 
+function calibrationSymbols(shape: Shape): Record<string, string> {
+  const symbols: Record<string, string> = { ...SYMBOLS };
+  for (let i = 1; i <= (shape.etch?.calibrationPoints ?? 0); i++) {
+    symbols[`ar_${i}`] = `\\mathrm{AR}_{${i}}`;
+    symbols[`rate_${i}`] = `\\mathrm{ER}_{${i}}`;
+  }
+  return symbols;
+}
+
 function calibrationInputs(shape: Shape): Record<string, string> {
   const inputs: Record<string, string> = {};
   for (let i = 1; i <= (shape.etch?.calibrationPoints ?? 0); i++) {
@@ -163,7 +172,7 @@ const fittedReaction: QuantityDef = {
     const elongated = isElongated(shape.kind);
     return variant({
       inputs: { rate: 'etch.open_rate', ...calibrationInputs(shape) },
-      symbols: SYMBOLS,
+      symbols: calibrationSymbols(shape),
       formula: 'S = \\arg\\min_S \\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K(\\mathrm{AR}_i), S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2',
       compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).s,
     });
@@ -184,7 +193,7 @@ const fitResidual: QuantityDef = {
     const elongated = isElongated(shape.kind);
     return variant({
       inputs: v.inputs,
-      symbols: SYMBOLS,
+      symbols: calibrationSymbols(shape),
       formula: '\\epsilon_{rms} = \\sqrt{\\frac{1}{n}\\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K_i, S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2}',
       compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).residual,
     });
@@ -232,16 +241,14 @@ const timeMargin = etchQuantity(
     title: 'Time-budget margin',
     unit: '1',
     symbol: 'T/t_D',
-    description: 'Time budget over the time needed to reach the target depth: above 1 the etch gets there in time; 0 when it never gets there.',
+    description: 'Time budget over the time needed to reach the target depth: above 1 the etch gets there in time. An opening that closes before its depth has no margin (the verdict fails).',
     source: `${COBURN_WINTERS}, integrated over depth`,
     better: 'higher',
+    sweep: { input: () => 'geometry.depth', from: 0.25, to: 1.5 },
   },
-  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget' }),
+  () => ({ time: 'etch.time_to_depth', budget: 'etch.time_budget' }),
   '\\frac{T}{t_D}',
-  (a, elongated) => {
-    if (closureDepth(a.cd!, a.angle!) <= a.depth!) return noted(0, 'the tapered opening closes before its target depth');
-    return a.budget! / timeToDepth(a.depth!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!));
-  },
+  (a) => a.budget! / a.time!,
 );
 
 const depthInBudget = etchQuantity(
@@ -253,7 +260,12 @@ const depthInBudget = etchQuantity(
     description: 'Depth the etch reaches in the time budget (at most where a tapered opening closes).',
     source: `${COBURN_WINTERS}, integrated over depth and inverted`,
     better: 'higher',
-    sweep: { input: () => 'etch.time_budget', from: 0.1, to: 2 },
+    sweep: {
+      input: () => 'etch.time_budget',
+      from: 0.1,
+      to: 2,
+      companion: { label: 'reference feature', replace: { 'geometry.cd': 'etch.reference_cd', 'geometry.sidewall_angle': Math.PI / 2 } },
+    },
   },
   (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget' }),
   't(D_T) = T',
