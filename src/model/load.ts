@@ -10,7 +10,7 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, DRYING_PARAMS, ETCH_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
@@ -296,7 +296,9 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
           : ptr === '/drying'
             ? ['liquid', ...Object.keys(DRYING_PARAMS), 'supports', 'supports_hold']
             : ptr === '/etch'
-              ? [...Object.keys(ETCH_PARAMS), 'calibration']
+              ? [...Object.keys(ETCH_PARAMS), 'ion', 'calibration']
+              : ptr === '/etch/ion'
+                ? Object.keys(ION_PARAMS)
               : /^\/etch\/calibration\/\d+$/.test(ptr)
                 ? Object.keys(CALIBRATION_SPECS)
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
@@ -482,7 +484,17 @@ function readEtch(report: FileReport, e: Record<string, unknown>, kind: Kind | u
       if (r) params.set(`etch.calibration_${i + 1}_${name}`, { name: `etch.calibration_${i + 1}_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
     }
   });
-  return { calibrationPoints: points.length };
+  let ion: EtchShape['ion'];
+  if (isMapping(e.ion)) {
+    for (const [name, spec] of Object.entries(ION_PARAMS)) {
+      if (e.ion[name] === undefined) continue;
+      const pointer = `/etch/ion/${name}`;
+      const r = readValue(report, pointer, e.ion[name], spec);
+      if (r) params.set(`etch.ion_${name}`, { name: `etch.ion_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
+    }
+    ion = { spread: e.ion.angular_spread !== undefined };
+  }
+  return { calibrationPoints: points.length, ...(ion ? { ion } : {}) };
 }
 
 function rulesFromFile(loaded: Loaded): LocatedRule[] {

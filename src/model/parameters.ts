@@ -47,6 +47,12 @@ export const ETCH_PARAMS: Record<string, ParamSpec> = {
   stop_fraction: { unit: '1', description: 'Fraction of the open-field rate below which the etch counts as stopped.', min: 0, max: 1, exclusiveMin: true, exclusiveMax: true },
 };
 
+/** Inputs of the optional `etch.ion` block (ion–neutral synergy). */
+export const ION_PARAMS: Record<string, ParamSpec> = {
+  neutral_to_ion_ratio: { unit: '1', description: 'Open-field ratio of the reacting neutral supply to the ion-driven removal capacity, s₀Γₙ/(YΓᵢ).', min: 0, exclusiveMin: true },
+  angular_spread: { unit: 'rad', description: 'Width of the ions’ polar-angle distribution about the wafer normal.', min: 0, max: Math.PI / 2, exclusiveMin: true },
+};
+
 /** Spec of one calibration point of `etch.calibration`. */
 export const CALIBRATION_SPECS: Record<string, ParamSpec> = {
   aspect_ratio: { unit: '1', description: 'Aspect ratio at which the rate was measured.', min: 0, exclusiveMin: true },
@@ -71,7 +77,11 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   const [block, a, b] = path.split('.');
   if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
-  if (block === 'etch' && a) return a.startsWith('calibration_') ? CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')] : ETCH_PARAMS[a];
+  if (block === 'etch' && a) {
+    if (a.startsWith('calibration_')) return CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')];
+    if (a.startsWith('ion_')) return ION_PARAMS[a.slice(4)];
+    return ETCH_PARAMS[a];
+  }
   if (block === 'materials' && b) return MATERIAL_PROPERTIES[b];
   return undefined;
 }

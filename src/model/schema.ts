@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -47,6 +47,13 @@ export function structureSchema(): JsonSchema {
         additionalProperties: false,
         properties: {
           ...propertiesFrom(ETCH_PARAMS),
+          ion: {
+            type: 'object',
+            description: 'Ion–neutral synergy: without it the etch is neutral-limited (Coburn–Winters).',
+            additionalProperties: false,
+            required: ['neutral_to_ion_ratio'],
+            properties: propertiesFrom(ION_PARAMS),
+          },
           calibration: {
             type: 'array',
             minItems: 1,

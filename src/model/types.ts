@@ -59,6 +59,8 @@ export interface DryingShape {
 export interface EtchShape {
   /** Measured (aspect ratio, rate) points: `etch.calibration_1_aspect_ratio`, `..._rate`, ... */
   calibrationPoints: number;
+  /** Ion–neutral synergy parameters (`etch.ion_neutral_to_ion_ratio`, `etch.ion_angular_spread`). */
+  ion?: { spread: boolean };
 }
 
 export interface Structure {

@@ -6,7 +6,7 @@
 // - calibration recovering the S that generated its points, and reporting a poor fit honestly.
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { depthAfter, fitReactionProbability, rateRatio, timeToDepth } from '../../src/engines/etch/index.ts';
+import { depthAfter, fitReactionProbability, ionTransmission, rateRatio, synergyRatio, timeToDepth } from '../../src/engines/etch/index.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 
@@ -21,17 +21,40 @@ describe('Coburn–Winters rate ratio', () => {
   });
 });
 
+describe('ion–neutral synergy (Langmuir-type coverage, Gottscho et al. 1992 review)', () => {
+  it('reduces to Coburn–Winters when ions are plentiful (neutral-limited, ρ → 0)', () => {
+    for (const [k, s] of [[0.2, 0.1], [0.05, 0.5]]) expectRel(synergyRatio(k!, s!, 1e-9, 1), rateRatio(k!, s!), 6);
+  });
+  it('shows no neutral lag when neutrals are plentiful (ion-limited, ρ → ∞): only ion shadowing remains', () => {
+    expectRel(synergyRatio(0.05, 0.5, 1e9, 1), 1, 6);
+    expectRel(synergyRatio(0.05, 0.5, 1e9, 0.6), 0.6, 6);
+  });
+  it('solves the coupled coverage and flux balance (checked by plain fixed-point iteration)', () => {
+    // K = 0.5, s₀ = 0.5, ρ = 1, g = 1: iterate x ← K/(K + s₀(1 − θ)(1 − K)), θ = ρx/(ρx + g).
+    let x = 1;
+    for (let i = 0; i < 200; i++) x = 0.5 / (0.5 + 0.5 * (1 - x / (x + 1)) * 0.5);
+    const ratio = x / (x + 1) / 0.5;
+    expectRel(synergyRatio(0.5, 0.5, 1, 1), ratio, 9);
+    expect(ratio).toBeCloseTo(0.877, 3); // by hand: x ≈ 0.781, θ ≈ 0.4385
+  });
+  it('lets all ions through a wide opening and few through a deep narrow one', () => {
+    // σ = 5°: atan(1) = 45° passes essentially all; atan(1/20) = 2.86° passes 1 − exp(−(2.86/5)²/2) = 15 %.
+    expect(ionTransmission(1, 1, (5 * Math.PI) / 180)).toBeGreaterThan(0.999);
+    expectRel(ionTransmission(1, 20, (5 * Math.PI) / 180), 1 - Math.exp(-((Math.atan(1 / 20) / ((5 * Math.PI) / 180)) ** 2) / 2), 12);
+  });
+});
+
 describe('depth integration', () => {
   const a = 1 / (100 * nm); // K = 1/(1 + h/100 nm)
   const K = (h: number) => 1 / (1 + a * h);
   const er0 = 5e-9; // 300 nm/min
   const S = 0.2;
   it('matches the closed form t = (D + S·a·D²/2)/ER₀ for K = 1/(1 + a·h)', () => {
-    for (const D of [50 * nm, 1 * um, 3 * um]) expectRel(timeToDepth(D, er0, S, K), (D + (S * a * D * D) / 2) / er0, 10);
+    for (const D of [50 * nm, 1 * um, 3 * um]) expectRel(timeToDepth(D, er0, (h) => rateRatio(K(h), S)), (D + (S * a * D * D) / 2) / er0, 10);
   });
   it('inverts it: D(t) = (√(1 + 2·S·a·ER₀·t) − 1)/(S·a)', () => {
     const t = 600;
-    expectRel(depthAfter(t, er0, S, K, 1e-3), (Math.sqrt(1 + 2 * S * a * er0 * t) - 1) / (S * a), 9);
+    expectRel(depthAfter(t, er0, (h) => rateRatio(K(h), S), 1e-3), (Math.sqrt(1 + 2 * S * a * er0 * t) - 1) / (S * a), 9);
   });
 });
 

@@ -22,25 +22,67 @@ export function rateRatio(k: number, s: number): number {
   return k / (k + s - k * s);
 }
 
-/**
- * Time to etch to depth D at open-field rate er0, for a transmission K(h) of the part cut so far:
- * t = (1/ER₀)·∫₀ᴰ [1 + S(1/K(h) − 1)] dh (Gauss–Legendre on 16 panels).
- */
-export function timeToDepth(depth: number, er0: number, s: number, k: (h: number) => number): number {
-  return integrate((h) => 1 + s * (1 / k(h) - 1), 0, depth, 16) / er0;
+/** Time to etch to depth D at open-field rate er0 for a rate ratio r(h): t = ∫₀ᴰ dh / (ER₀·r(h)). */
+export function timeToDepth(depth: number, er0: number, ratio: (h: number) => number): number {
+  return integrate((h) => 1 / ratio(h), 0, depth, 16) / er0;
 }
 
 /** Depth reached after time t: the inverse of timeToDepth, by bisection (t grows with depth). */
-export function depthAfter(time: number, er0: number, s: number, k: (h: number) => number, maxDepth: number): number {
-  if (timeToDepth(maxDepth, er0, s, k) <= time) return maxDepth;
+export function depthAfter(time: number, er0: number, ratio: (h: number) => number, maxDepth: number): number {
+  if (timeToDepth(maxDepth, er0, ratio) <= time) return maxDepth;
   let lo = 0;
   let hi = maxDepth;
   for (let i = 0; i < 80 && hi - lo > 1e-12 * hi; i++) {
     const mid = (lo + hi) / 2;
-    if (timeToDepth(mid, er0, s, k) < time) lo = mid;
+    if (timeToDepth(mid, er0, ratio) < time) lo = mid;
     else hi = mid;
   }
   return (lo + hi) / 2;
+}
+
+/**
+ * Ion–neutral synergy (Langmuir-type coverage, as reviewed by Gottscho, Jurgensen & Vitkavage
+ * 1992): the front is covered to θ = s₀Γₙ/(s₀Γₙ + YΓᵢ) and etches at YΓᵢ·θ. With ρ = s₀Γₙ₀/(YΓᵢ₀) the
+ * open-field neutral-to-ion supply ratio, x = Γₙ,b/Γₙ₀ the neutral flux reaching the bottom and
+ * g = Γᵢ,b/Γᵢ₀ the ions reaching it: θ = ρx/(ρx + g), ER/ER₀ = g·θ/θ₀ with θ₀ = ρ/(ρ + 1). The
+ * neutrals see the bare fraction of the front: S_eff = s₀(1 − θ), so x = K/(K + S_eff(1 − K)) is
+ * solved together with θ (bisection on x). ρ → 0 gives Coburn–Winters; ρ → ∞ leaves ion shadowing.
+ */
+export function synergyRatio(k: number, s0: number, rho: number, g: number): number {
+  if (g <= 0) return 0;
+  const theta = (x: number) => (rho * x) / (rho * x + g);
+  const f = (x: number) => x - k / (k + s0 * (1 - theta(x)) * (1 - k));
+  let lo = 0;
+  let hi = 1;
+  for (let i = 0; i < 80; i++) {
+    const mid = (lo + hi) / 2;
+    if (f(mid) < 0) lo = mid;
+    else hi = mid;
+  }
+  const x = (lo + hi) / 2;
+  return (g * theta(x)) / (rho / (rho + 1));
+}
+
+/**
+ * Fraction of ions that reach the bottom of an opening of width w at depth h when their polar
+ * angles spread as a Rayleigh distribution of width σ (a 2-D Gaussian about the normal): those
+ * steeper than atan(w/h) pass, g = 1 − exp(−atan(w/h)²/(2σ²)) [line-of-sight estimate].
+ */
+export function ionTransmission(width: number, depth: number, spread: number): number {
+  if (depth <= 0) return 1;
+  const alpha = Math.atan(width / depth);
+  return 1 - Math.exp(-(alpha * alpha) / (2 * spread * spread));
+}
+
+/** The recipe's rate ratio at depth h of the opening (Coburn–Winters, or with ion synergy). */
+function ratioOf(elongated: boolean, a: Record<string, number>, cd = a.cd!, angle = a.angle!): (h: number) => number {
+  const k = transmissionOf(elongated, cd, angle, a.mask!);
+  if (a.rho === undefined) return (h) => rateRatio(k(h), a.s!);
+  return (h) => {
+    const bottom = Math.max(0, cd - (2 * h * Math.cos(angle)) / Math.sin(angle));
+    const g = a.spread === undefined ? 1 : ionTransmission(bottom, h + a.mask!, a.spread);
+    return synergyRatio(k(h), a.s!, a.rho!, g);
+  };
 }
 
 /** Transmission as a function of the depth cut so far; NaN-free: a closed opening transmits nothing. */
@@ -88,6 +130,13 @@ export function fitReactionProbability(elongated: boolean, er0: number, points: 
 const OPENINGS_ONLY = { notApplicable: 'etching concerns openings (hole, trench, via)' } as const;
 const NO_ETCH = { incomplete: ['etch.open_rate'] };
 
+/** Ion-synergy inputs, when the recipe declares an `ion` block. */
+function ionInputs(shape: Shape): Record<string, string> {
+  const ion = shape.etch?.ion;
+  if (!ion) return {};
+  return { rho: 'etch.ion_neutral_to_ion_ratio', ...(ion.spread ? { spread: 'etch.ion_angular_spread' } : {}) };
+}
+
 function calibrationSymbols(shape: Shape): Record<string, string> {
   const symbols: Record<string, string> = { ...SYMBOLS };
   for (let i = 1; i <= (shape.etch?.calibrationPoints ?? 0); i++) {
@@ -129,6 +178,8 @@ const SYMBOLS: Record<string, string> = {
   reference: '\\mathrm{CD}_{ref}',
   fraction: 'f',
   time: 't_D',
+  rho: '\\rho',
+  spread: '\\sigma_i',
 };
 
 /** An etch quantity over the opening's geometry and the recipe. */
@@ -212,9 +263,9 @@ const bottomRateRatio = etchQuantity(
     better: 'higher',
     sweep: { input: () => 'geometry.depth', from: 0.1, to: 2 },
   },
-  (shape) => ({ k: 'transport.transmission', s: reactionInput(shape) }),
-  '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S}',
-  (a) => rateRatio(a.k!, a.s!),
+  (shape) => ({ k: 'transport.transmission', s: reactionInput(shape), ...(shape.etch?.ion ? { ...geometryInputs, ...ionInputs(shape) } : {}) }),
+  '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S} \\;\\;\\text{(with ions: } \\frac{g\\,\\theta}{\\theta_0},\\; \\theta = \\frac{\\rho x}{\\rho x + g},\\; x = \\frac{K}{K + S(1-\\theta)(1-K)}\\text{)}',
+  (a, elongated) => (a.rho === undefined ? rateRatio(a.k!, a.s!) : ratioOf(elongated, a)(a.depth!)),
 );
 
 const timeToDepthQ = etchQuantity(
@@ -227,11 +278,11 @@ const timeToDepthQ = etchQuantity(
     source: `${COBURN_WINTERS}, integrated over depth`,
     better: 'lower',
   },
-  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape) }),
-  't_D = \\frac{1}{\\mathrm{ER}_0}\\int_0^{D} \\left[1 + S\\left(\\frac{1}{K(h)} - 1\\right)\\right] dh',
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), ...ionInputs(shape) }),
+  't_D = \\int_0^{D} \\frac{dh}{\\mathrm{ER}_0\\,R(h)} = \\frac{1}{\\mathrm{ER}_0}\\int_0^{D} \\left[1 + S\\left(\\frac{1}{K(h)} - 1\\right)\\right] dh \\text{ (neutral-limited)}',
   (a, elongated) => {
     if (closureDepth(a.cd!, a.angle!) <= a.depth!) return noValue('the tapered opening closes before it reaches its target depth: the etch never gets there', 'above');
-    return timeToDepth(a.depth!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!));
+    return timeToDepth(a.depth!, a.rate!, ratioOf(elongated, a));
   },
 );
 
@@ -267,14 +318,13 @@ const depthInBudget = etchQuantity(
       companion: { label: 'reference feature', replace: { 'geometry.cd': 'etch.reference_cd', 'geometry.sidewall_angle': Math.PI / 2 } },
     },
   },
-  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget' }),
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', ...ionInputs(shape) }),
   't(D_T) = T',
   (a, elongated) => {
     const closes = closureDepth(a.cd!, a.angle!);
-    const k = transmissionOf(elongated, a.cd!, a.angle!, a.mask!);
     // Open-field depth bounds the search; a closing taper caps it.
     const max = Math.min(a.rate! * a.budget!, 0.999999 * closes);
-    const d = depthAfter(a.budget!, a.rate!, a.s!, k, max);
+    const d = depthAfter(a.budget!, a.rate!, ratioOf(elongated, a), max);
     return closes < Infinity && d >= 0.99999 * closes ? noted(d, 'stopped where the tapered opening closes') : d;
   },
 );
@@ -290,13 +340,13 @@ const lag = etchQuantity(
     assumptions: ['The reference feature has vertical walls, the same mask and the same recipe.'],
     better: 'lower',
   },
-  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', reference: 'etch.reference_cd' }),
+  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', reference: 'etch.reference_cd', ...ionInputs(shape) }),
   '\\Lambda = 1 - \\frac{D_T(\\mathrm{CD})}{D_T(\\mathrm{CD}_{ref})}',
   (a, elongated) => {
     const closes = closureDepth(a.cd!, a.angle!);
     const max = Math.min(a.rate! * a.budget!, 0.999999 * closes);
-    const own = depthAfter(a.budget!, a.rate!, a.s!, transmissionOf(elongated, a.cd!, a.angle!, a.mask!), max);
-    const ref = depthAfter(a.budget!, a.rate!, a.s!, transmissionOf(elongated, a.reference!, Math.PI / 2, a.mask!), a.rate! * a.budget!);
+    const own = depthAfter(a.budget!, a.rate!, ratioOf(elongated, a), max);
+    const ref = depthAfter(a.budget!, a.rate!, ratioOf(elongated, a, a.reference!, Math.PI / 2), a.rate! * a.budget!);
     return 1 - own / ref;
   },
 );
@@ -311,22 +361,26 @@ const stopAspectRatio = etchQuantity(
     source: COBURN_WINTERS,
     better: 'higher',
   },
-  (shape) => ({ s: reactionInput(shape), fraction: 'etch.stop_fraction' }),
-  'R(K(\\mathrm{AR}_{stop}), S) = f \\;\\Rightarrow\\; K = \\frac{f S}{1 - f(1 - S)}',
+  (shape) => ({ s: reactionInput(shape), fraction: 'etch.stop_fraction', ...ionInputs(shape) }),
+  'R(\\mathrm{AR}_{stop}) = f \\;\\;(\\text{neutral-limited: } K = \\tfrac{f S}{1 - f(1 - S)})',
   (a, elongated): number | NoValue => {
     const f = a.fraction!;
-    const s = a.s!;
-    const target = (f * s) / (1 - f * (1 - s));
     const kOf = (ar: number) => (elongated ? slotTransmission(ar) : tubeTransmission(2 * ar));
+    const ratio = (ar: number) => {
+      if (a.rho === undefined) return rateRatio(kOf(ar), a.s!);
+      const g = a.spread === undefined ? 1 : ionTransmission(1, ar, a.spread);
+      return synergyRatio(kOf(ar), a.s!, a.rho, g);
+    };
     let lo = 0;
     let hi = 1;
-    while (kOf(hi) > target) {
+    while (ratio(hi) > f) {
+      lo = hi;
       hi *= 2;
       if (hi > 1e7) return noValue('the rate never falls that low', 'above');
     }
     for (let i = 0; i < 80; i++) {
       const mid = (lo + hi) / 2;
-      if (kOf(mid) > target) lo = mid;
+      if (ratio(mid) > f) lo = mid;
       else hi = mid;
     }
     return (lo + hi) / 2;
