@@ -89,6 +89,10 @@ export interface QuantityDef {
      * value or a constant (e.g. the reference feature's CD and vertical walls).
      */
     companion?: { label: string; replace: Record<string, string | number> };
+    /** Show the swept input as another variable (e.g. depth as aspect ratio = depth/CD). */
+    axis?: { label: string; unit: string; map: (x: number, inputs: Record<string, number>) => number };
+    /** Measured points to draw over the curve, in the axis' variable and the quantity's unit. */
+    overlay?: { label: string; points: (inputs: Record<string, number>) => Array<{ x: number; y: number }> };
   };
   /**
    * The way to compute it for a shape; or a reason it does not apply to that shape; or the shape

@@ -288,7 +288,11 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
   const base = v.trace.inputs.map((i) => i.value);
   const x0 = base[idx]!;
   const last = plan.steps.length - 1;
-  const xScale = displayScale(plan.params[idx]!.unit, x0);
+  const byName = Object.fromEntries(plan.params.map((p, i) => [p.name, base[i]!]));
+  const axis = def.sweep.axis;
+  // The displayed x: the swept input itself, or the variable the declaration maps it to.
+  const shown = (x: number) => (axis ? axis.map(x, byName) : x);
+  const xScale = axis ? displayScale(axis.unit, shown(x0)) : displayScale(plan.params[idx]!.unit, x0);
   const yScale = displayScale(def.unit, v.value);
   const sweepFrom = (start: number[]) => {
     const points: Array<{ x: number; y: number }> = [];
@@ -297,7 +301,7 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
       const inputs = start.slice();
       inputs[idx] = x;
       const y = runPlan(plan, inputs).values[last];
-      if (y !== null && y !== undefined && Number.isFinite(y)) points.push({ x: x * xScale.factor, y: y * yScale.factor });
+      if (y !== null && y !== undefined && Number.isFinite(y)) points.push({ x: shown(x) * xScale.factor, y: y * yScale.factor });
     }
     return points;
   };
@@ -317,12 +321,13 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
     }
     if (complete) companion = sweepFrom(start);
   }
-  const xTitle = `${inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
+  const overlay = (def.sweep.overlay?.points(byName) ?? []).map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
+  const xTitle = `${axis ? axis.label : inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
-  const svg = await sweepChart(curve, { x: x0 * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle, companion);
+  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle, companion, overlay);
   const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
-  const also = companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '';
-  return { svg, caption: `${def.title} against ${inputName}, with ${corner}; ◆ this structure, dashed: the limit${also}.` };
+  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && def.sweep.overlay ? `; ○ ${def.sweep.overlay.label}` : '');
+  return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure, dashed: the limit${also}.` };
 }
 
 function scopeText(rule: Rule): string {

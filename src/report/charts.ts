@@ -98,7 +98,7 @@ const KINDS: Record<string, ChartKind> = {
     } as TopLevelSpec,
   },
   sweep: {
-    datasets: ['curve', 'companion', 'own', 'limit'],
+    datasets: ['curve', 'companion', 'overlay', 'own', 'limit'],
     xTitleSignal: true,
     yTitleSignal: true,
     spec: {
@@ -128,6 +128,11 @@ const KINDS: Record<string, ChartKind> = {
           data: { name: 'limit' },
           mark: { type: 'text', color: PALETTE.fail, align: 'left', dx: 4, dy: -6, fontSize: 10 },
           encoding: { y: { field: 'limit', type: 'quantitative' }, x: { value: 0 }, text: { value: 'limit' } },
+        },
+        {
+          data: { name: 'overlay' },
+          mark: { type: 'point', shape: 'circle', size: 60, filled: false, color: PALETTE.ink, strokeWidth: 1.5 },
+          encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
         },
         {
           data: { name: 'own' },
@@ -256,8 +261,9 @@ export function sweepChart(
   xTitle: string,
   yTitle: string,
   companion: Array<{ x: number; y: number }> = [],
+  overlay: Array<{ x: number; y: number }> = [],
 ): Promise<string> {
-  return renderChart('sweep', { curve, companion, own: [own], limit: limit === null ? [] : [{ limit }] }, xTitle, yTitle);
+  return renderChart('sweep', { curve, companion, overlay, own: [own], limit: limit === null ? [] : [{ limit }] }, xTitle, yTitle);
 }
 
 /** Count of verdicts by status, one bar each. */

@@ -253,6 +253,8 @@ describe('the demo handbook, verdict by verdict', () => {
     ['MH-ETCH-1', 'storage-node-mold-hole', 'pass', [1, (30 * 250) / 1950]],
     // Channel hole: 35 min × 600 nm/min / 7.2 µm = 2.917 open-field; it fails the 1.1 limit.
     ['CH-ETCH-1', 'channel-hole', 'fail', [0, 1.1]],
+    // Channel-hole bottom rate ratio: a ratio, above the 0.1 limit.
+    ['CH-RATE-1', 'channel-hole', 'pass', [0.1, 1]],
     // Calibration residual of the invented test-wafer points: below the 10 % limit.
     ['CH-CAL-1', 'channel-hole', 'pass', [0, 0.1]],
     // Cell trench against the 120 nm periphery trench: lags more than 30 %.
@@ -283,10 +285,10 @@ describe('the demo handbook, verdict by verdict', () => {
     }
   });
 
-  it('counts 24 pass, 7 fail (5 blocking), 1 incomplete, 228 not applicable', () => {
-    // 26 rules × 10 structures = 260 pairs; the 32 in the table above apply, so 228 do not.
+  it('counts 25 pass, 7 fail (5 blocking), 1 incomplete, 237 not applicable', () => {
+    // 27 rules × 10 structures = 270 pairs; the 33 in the table above apply, so 237 do not.
     const r = evaluateHandbook(handbook);
-    expect(r.counts).toEqual({ pass: 24, fail: 7, incomplete: 1, 'not-applicable': 228 });
+    expect(r.counts).toEqual({ pass: 25, fail: 7, incomplete: 1, 'not-applicable': 237 });
     expect(r.blockingFailures).toBe(5);
   });
 

@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 32 applicable pairs of 260 (26 rules × 10 structures): 24 pass, 7 fail (5 blocking), 1
+    // 33 applicable pairs of 270 (27 rules × 10 structures): 25 pass, 7 fail (5 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 24, fail: 7, incomplete: 1, 'not-applicable': 228 });
+    expect(j.counts).toEqual({ pass: 25, fail: 7, incomplete: 1, 'not-applicable': 237 });
     expect(j.blocking_failures).toBe(5);
-    expect(j.verdicts).toHaveLength(260);
+    expect(j.verdicts).toHaveLength(270);
   });
 
   it('accepts --root before the command too', async () => {

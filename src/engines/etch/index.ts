@@ -104,8 +104,17 @@ function closureDepth(cd: number, angle: number): number {
  * minimise Σ (ER₀·R(K(AR), S) − rate)² over S in (0, 1], golden-section search in log S.
  * Returns S and the RMS of the relative residuals.
  */
-export function fitReactionProbability(elongated: boolean, er0: number, points: Array<{ ar: number; rate: number }>): { s: number; residual: number } {
-  const kOf = (ar: number) => (elongated ? slotTransmission(ar) : tubeTransmission(2 * ar));
+export function fitReactionProbability(
+  elongated: boolean,
+  er0: number,
+  points: Array<{ ar: number; rate: number }>,
+  mask: { cd: number; thickness: number } = { cd: 1, thickness: 0 },
+): { s: number; residual: number } {
+  // K of the measured feature at each aspect ratio: the structure's CD, vertical walls, its mask.
+  const kOf = (ar: number) => {
+    const m = mask.thickness / mask.cd;
+    return elongated ? slotTransmission(ar + m) : tubeTransmission(2 * (ar + m));
+  };
   const cost = (logS: number) => {
     const s = Math.exp(logS);
     return points.reduce((sum, p) => sum + ((er0 * rateRatio(kOf(p.ar), s) - p.rate) / p.rate) ** 2, 0);
@@ -215,17 +224,17 @@ const fittedReaction: QuantityDef = {
   symbol: 'S',
   description: 'Reaction probability at the etch front that best reproduces the measured (aspect ratio, rate) points with the Coburn–Winters model on vertical walls (least squares on the relative rate residuals).',
   source: COBURN_WINTERS,
-  assumptions: ['The measured features have vertical walls and no mask in their conductance path; the open-field rate is the recipe’s.'],
+  assumptions: ['The measured points are the same opening (its CD and mask) at increasing depth, with vertical walls; the open-field rate is the recipe’s; the fit is neutral-limited (Coburn–Winters) even when an ion block is given.'],
   variant: (shape) => {
     if (!isOpening(shape.kind)) return OPENINGS_ONLY;
     if (!shape.etch) return NO_ETCH;
     if (shape.etch.calibrationPoints === 0) return { notApplicable: 'the recipe gives its reaction probability; it has no calibration points to fit' };
     const elongated = isElongated(shape.kind);
     return variant({
-      inputs: { rate: 'etch.open_rate', ...calibrationInputs(shape) },
+      inputs: { rate: 'etch.open_rate', cd: 'geometry.cd', mask: 'etch.mask_thickness', ...calibrationInputs(shape) },
       symbols: calibrationSymbols(shape),
       formula: 'S = \\arg\\min_S \\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K(\\mathrm{AR}_i), S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2',
-      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).s,
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }).s,
     });
   },
 };
@@ -246,7 +255,7 @@ const fitResidual: QuantityDef = {
       inputs: v.inputs,
       symbols: calibrationSymbols(shape),
       formula: '\\epsilon_{rms} = \\sqrt{\\frac{1}{n}\\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K_i, S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2}',
-      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a)).residual,
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }).residual,
     });
   },
 };
@@ -261,7 +270,22 @@ const bottomRateRatio = etchQuantity(
     source: `${COBURN_WINTERS}; ${REVIEW}`,
     assumptions: ['Neutral-limited etching; ions reach the front undiminished; the front reacts with probability S, the walls not at all.'],
     better: 'higher',
-    sweep: { input: () => 'geometry.depth', from: 0.1, to: 2 },
+    sweep: {
+      input: () => 'geometry.depth',
+      from: 0.1,
+      to: 2,
+      axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! },
+      overlay: {
+        label: 'calibration points',
+        points: (p) => {
+          const points: Array<{ x: number; y: number }> = [];
+          for (let i = 1; p[`etch.calibration_${i}_aspect_ratio`] !== undefined; i++) {
+            points.push({ x: p[`etch.calibration_${i}_aspect_ratio`]!, y: p[`etch.calibration_${i}_rate`]! / p['etch.open_rate']! });
+          }
+          return points;
+        },
+      },
+    },
   },
   (shape) => ({ k: 'transport.transmission', s: reactionInput(shape), ...(shape.etch?.ion ? { ...geometryInputs, ...ionInputs(shape) } : {}) }),
   '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S} \\;\\;\\text{(with ions: } \\frac{g\\,\\theta}{\\theta_0},\\; \\theta = \\frac{\\rho x}{\\rho x + g},\\; x = \\frac{K}{K + S(1-\\theta)(1-K)}\\text{)}',
