@@ -81,6 +81,8 @@ export interface QuantityDef {
    * range of multiples of the structure's own value. The report runs the same plan at each point.
    */
   sweep?: {
+    /** Chart another quantity's sweep instead (a fit residual shows the fitted curve). */
+    of?: string;
     input: (shape: Shape) => string;
     from: number;
     to: number;

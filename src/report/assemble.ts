@@ -278,26 +278,35 @@ const SWEEP_POINTS = 48;
  * deciding inputs: the same plan run at each point. Empty when the quantity declares no sweep.
  */
 async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ svg: string; caption: string } | null> {
-  const def = QUANTITIES.get(v.quantity);
-  if (!def?.sweep || !v.trace || v.value === null) return null;
-  const plan = plans.get(s, v.quantity);
+  const own = QUANTITIES.get(v.quantity);
+  if (!own?.sweep || !v.trace || v.value === null) return null;
+  // A quantity may chart another one's sweep (a fit residual shows the fitted curve).
+  const name = own.sweep.of ?? v.quantity;
+  const def = QUANTITIES.get(name);
+  if (!def?.sweep) return null;
+  const sweep = { ...def.sweep, ...own.sweep };
+  const plan = plans.get(s, name);
   if (plan.status !== 'ready') return null;
-  const inputName = def.sweep.input(shapeOf(s));
+  const inputName = sweep.input(shapeOf(s));
   const idx = plan.params.findIndex((p) => p.name === inputName);
   if (idx < 0) return null;
-  const base = v.trace.inputs.map((i) => i.value);
+  // The deciding inputs of the verdict where the plans share them, nominal values otherwise.
+  const decided = new Map(v.trace.inputs.map((i) => [i.name, i.value]));
+  const base = plan.params.map((p) => decided.get(p.name) ?? p.value);
   const x0 = base[idx]!;
   const last = plan.steps.length - 1;
+  const y0 = name === v.quantity ? v.value : runPlan(plan, base).values[last];
+  if (y0 === null || y0 === undefined) return null;
   const byName = Object.fromEntries(plan.params.map((p, i) => [p.name, base[i]!]));
-  const axis = def.sweep.axis;
+  const axis = sweep.axis;
   // The displayed x: the swept input itself, or the variable the declaration maps it to.
   const shown = (x: number) => (axis ? axis.map(x, byName) : x);
   const xScale = axis ? displayScale(axis.unit, shown(x0)) : displayScale(plan.params[idx]!.unit, x0);
-  const yScale = displayScale(def.unit, v.value);
+  const yScale = displayScale(def.unit, y0);
   const sweepFrom = (start: number[]) => {
     const points: Array<{ x: number; y: number }> = [];
     for (let k = 0; k < SWEEP_POINTS; k++) {
-      const x = x0 * (def.sweep!.from + ((def.sweep!.to - def.sweep!.from) * k) / (SWEEP_POINTS - 1));
+      const x = x0 * (sweep.from + ((sweep.to - sweep.from) * k) / (SWEEP_POINTS - 1));
       const inputs = start.slice();
       inputs[idx] = x;
       const y = runPlan(plan, inputs).values[last];
@@ -309,7 +318,7 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
   if (curve.length < 2) return null;
   // The companion curve: the same plan with some inputs replaced (all must be known).
   let companion: Array<{ x: number; y: number }> = [];
-  const comp = def.sweep.companion;
+  const comp = sweep.companion;
   if (comp) {
     const start = base.slice();
     let complete = true;
@@ -321,13 +330,14 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
     }
     if (complete) companion = sweepFrom(start);
   }
-  const overlay = (def.sweep.overlay?.points(byName) ?? []).map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
+  const overlay = (sweep.overlay?.points(byName) ?? []).map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
   const xTitle = `${axis ? axis.label : inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
-  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: v.value * yScale.factor, status: v.status }, v.limit * yScale.factor, xTitle, yTitle, companion, overlay);
+  const limit = name === v.quantity ? v.limit * yScale.factor : null;
+  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: y0 * yScale.factor, status: v.status }, limit, xTitle, yTitle, companion, overlay);
   const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
-  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && def.sweep.overlay ? `; ○ ${def.sweep.overlay.label}` : '');
-  return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure, dashed: the limit${also}.` };
+  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && sweep.overlay ? `; ○ ${sweep.overlay.label}` : '') + (limit !== null ? '; dashed: the limit' : '');
+  return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure${also}.` };
 }
 
 function scopeText(rule: Rule): string {

@@ -215,6 +215,24 @@ function etchQuantity(
   };
 }
 
+/** Rate ratio against aspect ratio, with the calibration points over it. */
+const RATE_SWEEP: NonNullable<QuantityDef['sweep']> = {
+      input: () => 'geometry.depth',
+      from: 0.1,
+      to: 2,
+      axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! },
+      overlay: {
+        label: 'calibration points',
+        points: (p) => {
+          const points: Array<{ x: number; y: number }> = [];
+          for (let i = 1; p[`etch.calibration_${i}_aspect_ratio`] !== undefined; i++) {
+            points.push({ x: p[`etch.calibration_${i}_aspect_ratio`]!, y: p[`etch.calibration_${i}_rate`]! / p['etch.open_rate']! });
+          }
+          return points;
+        },
+      },
+    };
+
 const geometryInputs = { depth: 'geometry.depth', cd: 'geometry.cd', angle: 'geometry.sidewall_angle', mask: 'etch.mask_thickness' };
 
 const fittedReaction: QuantityDef = {
@@ -247,6 +265,7 @@ const fitResidual: QuantityDef = {
   description: 'Root-mean-square relative difference between the measured rates and the fitted model: a large value says the points do not follow the neutral-transport model.',
   source: COBURN_WINTERS,
   better: 'lower',
+  sweep: { ...RATE_SWEEP, of: 'etch.bottom_rate_ratio' },
   variant: (shape) => {
     const v = fittedReaction.variant(shape);
     if (!('compute' in v)) return v;
@@ -270,22 +289,8 @@ const bottomRateRatio = etchQuantity(
     source: `${COBURN_WINTERS}; ${REVIEW}`,
     assumptions: ['Neutral-limited etching; ions reach the front undiminished; the front reacts with probability S, the walls not at all.'],
     better: 'higher',
-    sweep: {
-      input: () => 'geometry.depth',
-      from: 0.1,
-      to: 2,
-      axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! },
-      overlay: {
-        label: 'calibration points',
-        points: (p) => {
-          const points: Array<{ x: number; y: number }> = [];
-          for (let i = 1; p[`etch.calibration_${i}_aspect_ratio`] !== undefined; i++) {
-            points.push({ x: p[`etch.calibration_${i}_aspect_ratio`]!, y: p[`etch.calibration_${i}_rate`]! / p['etch.open_rate']! });
-          }
-          return points;
-        },
-      },
-    },
+    sweep: RATE_SWEEP,
+
   },
   (shape) => ({ k: 'transport.transmission', s: reactionInput(shape), ...(shape.etch?.ion ? { ...geometryInputs, ...ionInputs(shape) } : {}) }),
   '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S} \\;\\;\\text{(with ions: } \\frac{g\\,\\theta}{\\theta_0},\\; \\theta = \\frac{\\rho x}{\\rho x + g},\\; x = \\frac{K}{K + S(1-\\theta)(1-K)}\\text{)}',
@@ -363,6 +368,7 @@ const lag = etchQuantity(
     source: `${COBURN_WINTERS}; ${REVIEW} (RIE lag)`,
     assumptions: ['The reference feature has vertical walls, the same mask and the same recipe.'],
     better: 'lower',
+    sweep: { input: () => 'etch.time_budget', from: 0.1, to: 2 },
   },
   (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', reference: 'etch.reference_cd', ...ionInputs(shape) }),
   '\\Lambda = 1 - \\frac{D_T(\\mathrm{CD})}{D_T(\\mathrm{CD}_{ref})}',
