@@ -69,7 +69,30 @@ function writeCollapseHandbook(structures: number): string {
   return root;
 }
 
+/** Holes with an etch recipe and tolerances; three worst-case etch rules each. */
+function writeEtchHandbook(structures: number): string {
+  const root = mkdtempSync(join(tmpdir(), 'plumbline-bench-etch-'));
+  mkdirSync(join(root, 'structures'));
+  mkdirSync(join(root, 'rules'));
+  writeFileSync(join(root, 'handbook.yaml'), 'title: Etch benchmark\n');
+  for (let i = 0; i < structures; i++) {
+    writeFileSync(
+      join(root, 'structures', `h-${i}.yaml`),
+      `id: h-${i}\ntitle: Hole ${i}\nkind: hole\ngeometry:\n  cd: ${60 + (i % 9) * 10} nm ± 3 nm\n  depth: ${1 + (i % 5) * 0.5} um ± 50 nm\n  pitch: 200 nm\n  array: hexagonal\n  sidewall_angle: 89.8 deg ± 0.05 deg\netch:\n  open_rate: 300 nm/min\n  reaction_probability: 0.05\n  time_budget: 20 min\n  mask_thickness: 500 nm\n  reference_cd: 400 nm\n`,
+    );
+  }
+  const rules = [
+    ['E-TIME', 'etch.time_margin', 'at_least: 1'],
+    ['E-DEPTH', 'etch.depth_in_budget', 'at_least: 1 um'],
+    ['E-LAG', 'etch.lag', 'at_most: 0.5'],
+  ];
+  writeFileSync(join(root, 'rules', 'r.yaml'), rules.map(([id, q, lim]) => `- id: ${id}\n  title: ${id}\n  applies_to: {}\n  quantity: ${q}\n  ${lim}\n  evaluate_at: worst-case\n`).join(''));
+  return root;
+}
+
 const big = writeHandbook(1000, 100);
+const etch = loadHandbook(writeEtchHandbook(200));
+if (!etch.ok) throw new Error(JSON.stringify(etch.diagnostics.slice(0, 3)));
 const collapse = loadHandbook(writeCollapseHandbook(200));
 if (!collapse.ok) throw new Error(JSON.stringify(collapse.diagnostics.slice(0, 3)));
 const loaded = loadHandbook(big);
@@ -85,6 +108,11 @@ const cases: Case[] = [
       const r = evaluateHandbook(loaded.handbook);
       if (r.verdicts.length !== 100_000) throw new Error('wrong verdict count');
     },
+  },
+  {
+    name: 'evaluate 600 etch verdicts (time, depth in budget, lag; 8 corners each)',
+    targetMs: 3000,
+    run: () => void evaluateHandbook(etch.handbook),
   },
   {
     name: 'evaluate 200 collapse verdicts (finite-element body, 16 corners each)',

@@ -27,17 +27,36 @@ export function timeToDepth(depth: number, er0: number, ratio: (h: number) => nu
   return integrate((h) => 1 / ratio(h), 0, depth, 16) / er0;
 }
 
-/** Depth reached after time t: the inverse of timeToDepth, by bisection (t grows with depth). */
+/**
+ * Depth reached after time t: the inverse of timeToDepth. The elapsed time is tabulated over 64
+ * depth intervals (Gauss–Legendre in each), then Newton's method finds the depth inside the
+ * interval where it crosses t (dt/dh = 1/(ER₀·r(h)) is known exactly).
+ */
 export function depthAfter(time: number, er0: number, ratio: (h: number) => number, maxDepth: number): number {
-  if (timeToDepth(maxDepth, er0, ratio) <= time) return maxDepth;
-  let lo = 0;
-  let hi = maxDepth;
-  for (let i = 0; i < 80 && hi - lo > 1e-12 * hi; i++) {
-    const mid = (lo + hi) / 2;
-    if (timeToDepth(mid, er0, ratio) < time) lo = mid;
-    else hi = mid;
+  const rate = (h: number) => 1 / (er0 * ratio(h));
+  const n = 64;
+  const dz = maxDepth / n;
+  let t = 0;
+  for (let i = 0; i < n; i++) {
+    const a = i * dz;
+    const step = integrate(rate, a, a + dz, 1);
+    if (t + step >= time) {
+      // Newton in [a, a + dz] on g(h) = t + ∫ₐʰ rate − time, starting from linear interpolation.
+      let h = a + ((time - t) / step) * dz;
+      for (let k = 0; k < 8; k++) {
+        const g = t + integrate(rate, a, h, 1) - time;
+        const next = Math.min(a + dz, Math.max(a, h - g / rate(h)));
+        if (Math.abs(next - h) <= 1e-14 * maxDepth) {
+          h = next;
+          break;
+        }
+        h = next;
+      }
+      return h;
+    }
+    t += step;
   }
-  return (lo + hi) / 2;
+  return maxDepth;
 }
 
 /**
