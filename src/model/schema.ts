@@ -57,7 +57,7 @@ export function structureSchema(): JsonSchema {
           calibration: {
             type: 'array',
             minItems: 1,
-            description: 'Measured (aspect ratio, rate) points; the engine fits the reaction probability (and the open-field rate when it is not given).',
+            description: 'Measured (aspect ratio, rate) points of this opening at increasing depth (aspect ratio without the mask); the engine fits the reaction probability to them, and a written reaction_probability is then not used.',
             items: {
               type: 'object',
               additionalProperties: false,

@@ -41,15 +41,18 @@ export function depthAfter(time: number, er0: number, ratio: (h: number) => numb
     const a = i * dz;
     const step = integrate(rate, a, a + dz, 1);
     if (t + step >= time) {
-      // Newton in [a, a + dz] on g(h) = t + ∫ₐʰ rate − time, starting from linear interpolation.
+      // Safeguarded Newton in the bracket [lo, hi] on g(h) = t + ∫ₐʰ rate − time (g rises with h).
+      let lo = a;
+      let hi = a + dz;
       let h = a + ((time - t) / step) * dz;
-      for (let k = 0; k < 8; k++) {
+      for (let k = 0; k < 60; k++) {
         const g = t + integrate(rate, a, h, 1) - time;
-        const next = Math.min(a + dz, Math.max(a, h - g / rate(h)));
-        if (Math.abs(next - h) <= 1e-14 * maxDepth) {
-          h = next;
-          break;
-        }
+        if (Math.abs(g) <= 1e-12 * time) break;
+        if (g > 0) hi = h;
+        else lo = h;
+        let next = h - g / rate(h);
+        if (!(next > lo && next < hi)) next = (lo + hi) / 2;
+        if (Math.abs(next - h) <= 1e-15 * maxDepth) break;
         h = next;
       }
       return h;
@@ -68,39 +71,56 @@ export function depthAfter(time: number, er0: number, ratio: (h: number) => numb
  * solved together with θ (bisection on x). ρ → 0 gives Coburn–Winters; ρ → ∞ leaves ion shadowing.
  */
 export function synergyRatio(k: number, s0: number, rho: number, g: number): number {
-  if (g <= 0) return 0;
-  const theta = (x: number) => (rho * x) / (rho * x + g);
-  const f = (x: number) => x - k / (k + s0 * (1 - theta(x)) * (1 - k));
-  let lo = 0;
-  let hi = 1;
-  for (let i = 0; i < 80; i++) {
-    const mid = (lo + hi) / 2;
-    if (f(mid) < 0) lo = mid;
-    else hi = mid;
-  }
-  const x = (lo + hi) / 2;
-  return (g * theta(x)) / (rho / (rho + 1));
+  if (g <= 0 || k <= 0) return 0;
+  // x solves Kρx² + (Kg + s₀(1 − K)g − Kρ)x − Kg = 0 (the flux balance with θ = ρx/(ρx + g)).
+  const a = k * rho;
+  const b = k * g + s0 * (1 - k) * g - k * rho;
+  const disc = Math.sqrt(b * b + 4 * a * k * g);
+  const x = b > 0 ? (2 * k * g) / (b + disc) : (-b + disc) / (2 * a);
+  const theta = (rho * x) / (rho * x + g);
+  return (g * theta) / (rho / (rho + 1));
 }
 
 /**
- * Fraction of ions that reach the bottom of an opening of width w at depth h when their polar
- * angles spread as a Rayleigh distribution of width σ (a 2-D Gaussian about the normal): those
- * steeper than atan(w/h) pass, g = 1 − exp(−atan(w/h)²/(2σ²)) [line-of-sight estimate].
+ * Fraction of ions that reach the bottom of an opening of aperture w (the narrower of its top and
+ * bottom) at depth h, when their polar angles spread as a Rayleigh distribution of width σ about
+ * the normal: for each angle α the aperture seen through the depth is shifted by h·tanα, and the
+ * overlap of the top and bottom apertures (a lens of two circles for a hole, 1 − shift/w for a
+ * slot) is the fraction that passes [line-of-sight estimate, derived].
  */
-export function ionTransmission(width: number, depth: number, spread: number): number {
+export function ionTransmission(width: number, depth: number, spread: number, elongated = false): number {
   if (depth <= 0) return 1;
-  const alpha = Math.atan(width / depth);
-  return 1 - Math.exp(-(alpha * alpha) / (2 * spread * spread));
+  if (width <= 0) return 0;
+  const overlap = (alpha: number) => {
+    const d = (depth * Math.tan(alpha)) / width;
+    if (d >= 1) return 0;
+    return elongated ? 1 - d : (2 / Math.PI) * (Math.acos(d) - d * Math.sqrt(1 - d * d));
+  };
+  const cutoff = Math.min(Math.atan(width / depth), 12 * spread);
+  const rayleigh = (alpha: number) => (alpha / (spread * spread)) * Math.exp(-(alpha * alpha) / (2 * spread * spread));
+  return integrate((alpha) => rayleigh(alpha) * overlap(alpha), 0, cutoff, 8);
+}
+
+/**
+ * K seen from the etch front: the top-referred transmission rescaled to the bottom's area by
+ * reciprocity, K_b = K·A_top/A_bottom (capped at 1) — the balance at the front is written per unit
+ * of its own area.
+ */
+export function frontTransmission(kTop: number, cd: number, bottom: number, elongated: boolean): number {
+  if (bottom <= 0) return 0;
+  return Math.min(1, kTop * (cd / bottom) ** (elongated ? 1 : 2));
 }
 
 /** The recipe's rate ratio at depth h of the opening (Coburn–Winters, or with ion synergy). */
 function ratioOf(elongated: boolean, a: Record<string, number>, cd = a.cd!, angle = a.angle!): (h: number) => number {
   const k = transmissionOf(elongated, cd, angle, a.mask!);
-  if (a.rho === undefined) return (h) => rateRatio(k(h), a.s!);
+  const bottomAt = (h: number) => Math.max(0, cd - (2 * h * Math.cos(angle)) / Math.sin(angle));
   return (h) => {
-    const bottom = Math.max(0, cd - (2 * h * Math.cos(angle)) / Math.sin(angle));
-    const g = a.spread === undefined ? 1 : ionTransmission(bottom, h + a.mask!, a.spread);
-    return synergyRatio(k(h), a.s!, a.rho!, g);
+    const bottom = bottomAt(h);
+    const kb = frontTransmission(k(h), cd, bottom, elongated);
+    if (a.rho === undefined) return rateRatio(kb, a.s!);
+    const g = a.spread === undefined ? 1 : ionTransmission(Math.min(cd, bottom), h + a.mask!, a.spread, elongated);
+    return synergyRatio(kb, a.s!, a.rho!, g);
   };
 }
 
@@ -128,18 +148,29 @@ export function fitReactionProbability(
   er0: number,
   points: Array<{ ar: number; rate: number }>,
   mask: { cd: number; thickness: number } = { cd: 1, thickness: 0 },
+  ion?: { rho: number; spread?: number },
 ): { s: number; residual: number } {
   // K of the measured feature at each aspect ratio: the structure's CD, vertical walls, its mask.
-  const kOf = (ar: number) => {
-    const m = mask.thickness / mask.cd;
-    return elongated ? slotTransmission(ar + m) : tubeTransmission(2 * (ar + m));
+  const m = mask.thickness / mask.cd;
+  const kOf = (ar: number) => (elongated ? slotTransmission(ar + m) : tubeTransmission(2 * (ar + m)));
+  // The same rate model the verdicts use: neutral-limited, or with the recipe's ion synergy.
+  const ratio = (ar: number, s: number) => {
+    if (!ion) return rateRatio(kOf(ar), s);
+    const g = ion.spread === undefined ? 1 : ionTransmission(1, ar + m, ion.spread, elongated);
+    return synergyRatio(kOf(ar), s, ion.rho, g);
   };
   const cost = (logS: number) => {
     const s = Math.exp(logS);
-    return points.reduce((sum, p) => sum + ((er0 * rateRatio(kOf(p.ar), s) - p.rate) / p.rate) ** 2, 0);
+    return points.reduce((sum, p) => sum + ((er0 * ratio(p.ar, s) - p.rate) / p.rate) ** 2, 0);
   };
-  let a = Math.log(1e-6);
-  let b = 0;
+  // A coarse scan over six decades first, so the golden section starts in the global minimum's valley.
+  let bestLog = Math.log(1e-6);
+  for (let i = 0; i <= 60; i++) {
+    const l = Math.log(1e-6) + (i / 60) * -Math.log(1e-6);
+    if (cost(l) < cost(bestLog)) bestLog = l;
+  }
+  let a = Math.max(Math.log(1e-6), bestLog + Math.log(1e-6) / 60);
+  let b = Math.min(0, bestLog - Math.log(1e-6) / 60);
   const g = (Math.sqrt(5) - 1) / 2;
   let c = b - g * (b - a);
   let d = a + g * (b - a);
@@ -163,6 +194,10 @@ function ionInputs(shape: Shape): Record<string, string> {
   const ion = shape.etch?.ion;
   if (!ion) return {};
   return { rho: 'etch.ion_neutral_to_ion_ratio', ...(ion.spread ? { spread: 'etch.ion_angular_spread' } : {}) };
+}
+
+function ionOf(a: Record<string, number>): { rho: number; spread?: number } | undefined {
+  return a.rho === undefined ? undefined : { rho: a.rho, ...(a.spread !== undefined ? { spread: a.spread } : {}) };
 }
 
 function calibrationSymbols(shape: Shape): Record<string, string> {
@@ -252,7 +287,7 @@ const RATE_SWEEP: NonNullable<QuantityDef['sweep']> = {
       },
     };
 
-const geometryInputs = { depth: 'geometry.depth', cd: 'geometry.cd', angle: 'geometry.sidewall_angle', mask: 'etch.mask_thickness' };
+const geometryInputs = { cd: 'geometry.cd', angle: 'geometry.sidewall_angle', mask: 'etch.mask_thickness' };
 
 const fittedReaction: QuantityDef = {
   name: 'etch.fitted_reaction_probability',
@@ -261,17 +296,17 @@ const fittedReaction: QuantityDef = {
   symbol: 'S',
   description: 'Reaction probability at the etch front that best reproduces the measured (aspect ratio, rate) points with the Coburn–Winters model on vertical walls (least squares on the relative rate residuals).',
   source: COBURN_WINTERS,
-  assumptions: ['The measured points are the same opening (its CD and mask) at increasing depth, with vertical walls; the open-field rate is the recipe’s; the fit is neutral-limited (Coburn–Winters) even when an ion block is given.'],
+  assumptions: ['The measured points are the same opening (its CD and mask) at increasing depth, with vertical walls; the open-field rate is the recipe’s; the fit uses the recipe’s rate model (with its ion block, when given). The aspect ratio of a point excludes the mask.'],
   variant: (shape) => {
     if (!isOpening(shape.kind)) return OPENINGS_ONLY;
     if (!shape.etch) return NO_ETCH;
     if (shape.etch.calibrationPoints === 0) return { notApplicable: 'the recipe gives its reaction probability; it has no calibration points to fit' };
     const elongated = isElongated(shape.kind);
     return variant({
-      inputs: { rate: 'etch.open_rate', cd: 'geometry.cd', mask: 'etch.mask_thickness', ...calibrationInputs(shape) },
+      inputs: { rate: 'etch.open_rate', cd: 'geometry.cd', mask: 'etch.mask_thickness', ...calibrationInputs(shape), ...ionInputs(shape) },
       symbols: calibrationSymbols(shape),
       formula: 'S = \\arg\\min_S \\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K(\\mathrm{AR}_i), S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2',
-      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }).s,
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }, ionOf(a)).s,
     });
   },
 };
@@ -293,7 +328,7 @@ const fitResidual: QuantityDef = {
       inputs: v.inputs,
       symbols: calibrationSymbols(shape),
       formula: '\\epsilon_{rms} = \\sqrt{\\frac{1}{n}\\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K_i, S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2}',
-      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }).residual,
+      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }, ionOf(a)).residual,
     });
   },
 };
@@ -311,9 +346,13 @@ const bottomRateRatio = etchQuantity(
     sweep: RATE_SWEEP,
 
   },
-  (shape) => ({ k: 'transport.transmission', s: reactionInput(shape), ...(shape.etch?.ion ? { ...geometryInputs, ...ionInputs(shape) } : {}) }),
-  '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K}{K + S - K S} \\;\\;\\text{(with ions: } \\frac{g\\,\\theta}{\\theta_0},\\; \\theta = \\frac{\\rho x}{\\rho x + g},\\; x = \\frac{K}{K + S(1-\\theta)(1-K)}\\text{)}',
-  (a, elongated) => (a.rho === undefined ? rateRatio(a.k!, a.s!) : ratioOf(elongated, a)(a.depth!)),
+  (shape) => ({ k: 'transport.transmission', s: reactionInput(shape), ...geometryInputs, depth: 'geometry.depth', ...ionInputs(shape) }),
+  '\\frac{\\mathrm{ER}}{\\mathrm{ER}_0} = \\frac{K_b}{K_b + S - K_b S},\\; K_b = K\\frac{A_{top}}{A_{bottom}} \\;\\;\\text{(with ions: } \\frac{g\\,\\theta}{\\theta_0},\\; \\theta = \\frac{\\rho x}{\\rho x + g},\\; x = \\frac{K}{K + S(1-\\theta)(1-K)}\\text{)}',
+  (a, elongated) => {
+    const bottom = Math.max(0, a.cd! - (2 * a.depth! * Math.cos(a.angle!)) / Math.sin(a.angle!));
+    if (a.rho === undefined) return rateRatio(frontTransmission(a.k!, a.cd!, bottom, elongated), a.s!);
+    return ratioOf(elongated, a)(a.depth!);
+  },
 );
 
 const timeToDepthQ = etchQuantity(
@@ -326,7 +365,7 @@ const timeToDepthQ = etchQuantity(
     source: `${COBURN_WINTERS}, integrated over depth`,
     better: 'lower',
   },
-  (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), ...ionInputs(shape) }),
+  (shape) => ({ ...geometryInputs, depth: 'geometry.depth', rate: 'etch.open_rate', s: reactionInput(shape), ...ionInputs(shape) }),
   't_D = \\int_0^{D} \\frac{dh}{\\mathrm{ER}_0\\,R(h)} = \\frac{1}{\\mathrm{ER}_0}\\int_0^{D} \\left[1 + S\\left(\\frac{1}{K(h)} - 1\\right)\\right] dh \\text{ (neutral-limited)}',
   (a, elongated) => {
     if (closureDepth(a.cd!, a.angle!) <= a.depth!) return noValue('the tapered opening closes before it reaches its target depth: the etch never gets there', 'above');
@@ -392,6 +431,7 @@ const lag = etchQuantity(
   (shape) => ({ ...geometryInputs, rate: 'etch.open_rate', s: reactionInput(shape), budget: 'etch.time_budget', reference: 'etch.reference_cd', ...ionInputs(shape) }),
   '\\Lambda = 1 - \\frac{D_T(\\mathrm{CD})}{D_T(\\mathrm{CD}_{ref})}',
   (a, elongated) => {
+    if (a.reference! <= a.cd!) return noValue('the reference feature must be wider than the opening it is compared with');
     const closes = closureDepth(a.cd!, a.angle!);
     const max = Math.min(a.rate! * a.budget!, 0.999999 * closes);
     const own = depthAfter(a.budget!, a.rate!, ratioOf(elongated, a), max);
@@ -417,7 +457,7 @@ const stopAspectRatio = etchQuantity(
     const kOf = (ar: number) => (elongated ? slotTransmission(ar) : tubeTransmission(2 * ar));
     const ratio = (ar: number) => {
       if (a.rho === undefined) return rateRatio(kOf(ar), a.s!);
-      const g = a.spread === undefined ? 1 : ionTransmission(1, ar, a.spread);
+      const g = a.spread === undefined ? 1 : ionTransmission(1, ar, a.spread, elongated);
       return synergyRatio(kOf(ar), a.s!, a.rho, g);
     };
     let lo = 0;

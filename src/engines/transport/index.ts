@@ -34,7 +34,8 @@ export function openingTransmission(elongated: boolean, cd: number, angle: numbe
   const eq = (length / resistance) ** (1 / p);
   const ratio = transportRatio(elongated, length, eq);
   const w = elongated ? slotTransmission(ratio) : tubeTransmission(ratio);
-  return w * (eq / cd) ** (elongated ? 1 : 2);
+  // An opening that widens downward could come out above 1: nothing transmits more than all.
+  return Math.min(1, w * (eq / cd) ** (elongated ? 1 : 2));
 }
 
 const transmission: QuantityDef = {
@@ -49,7 +50,12 @@ const transmission: QuantityDef = {
     'A tapered opening is replaced by the vertical one of equal long-tube conductance (d_eq³ = L/∫dz/d³ for holes, w_eq² = L/∫dz/w² for trenches), its transmission referred to the top entrance; the test-particle Monte Carlo bounds the error in the tests.',
     'Holes and vias use the round-tube solution with L/R = depth/(CD/2); trenches the long-slot solution with L/w = depth/CD.',
   ],
-  validity: [{ arg: 'angle', min: (88 * Math.PI) / 180, why: 'a taper of more than 2° makes the equal-conductance approximation of a tapered opening coarse; check with the Monte Carlo.' }],
+  validity: [
+    {
+      holds: ({ cd, angle, depth }) => angle! <= Math.PI / 2 + 1e-9 && bottomCd(cd!, depth!, angle!, true) >= 0.5 * cd!,
+      why: 'the equal-conductance approximation holds for openings that narrow to no less than half their top CD (within a few percent of the Monte Carlo); beyond that, or for openings that widen downward, it overestimates the transmission.',
+    },
+  ],
   better: 'higher',
   sweep: { input: () => 'geometry.depth', from: 0.1, to: 2 },
   variant: (shape: Shape) => {

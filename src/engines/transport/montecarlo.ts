@@ -23,6 +23,16 @@ export interface TransmissionEstimate {
   particles: number;
 }
 
+/**
+ * With a reacting bottom (probability S per arrival, diffuse re-emission otherwise): the fraction
+ * of entering molecules that react at the bottom, and its standard deviation.
+ */
+export interface ReactionEstimate {
+  reacted: number;
+  sigma: number;
+  particles: number;
+}
+
 /** mulberry32: a small, well-mixed 32-bit generator (public domain). */
 export function seededRandom(seed: number): () => number {
   let a = seed >>> 0;
@@ -103,6 +113,17 @@ function hitWall(p: Vec, d: Vec, prof: OpeningProfile, r1: number, k: number): {
 
 /** Estimate the transmission probability with `particles` test particles. */
 export function transmissionMonteCarlo(prof: OpeningProfile, particles: number, seed = 1): TransmissionEstimate {
+  const r = trace(prof, particles, seed, null);
+  return { value: r, sigma: Math.sqrt((r * (1 - r)) / particles), particles };
+}
+
+/** Fraction of entering molecules that react at a bottom of reaction probability S. */
+export function bottomReactionMonteCarlo(prof: OpeningProfile, reaction: number, particles: number, seed = 1): ReactionEstimate {
+  const r = trace(prof, particles, seed, reaction);
+  return { reacted: r, sigma: Math.sqrt((r * (1 - r)) / particles), particles };
+}
+
+function trace(prof: OpeningProfile, particles: number, seed: number, reaction: number | null): number {
   const rnd = seededRandom(seed);
   const r1 = prof.topWidth / 2;
   const k = (prof.bottomWidth - prof.topWidth) / (2 * prof.depth);
@@ -122,14 +143,19 @@ export function transmissionMonteCarlo(prof: OpeningProfile, particles: number, 
       const tTop = d[2] < 0 ? -p[2] / d[2] : Infinity;
       const tWall = wall ? wall.t : Infinity;
       if (tBottom <= tWall && tBottom <= tTop) {
-        through++;
-        break;
+        if (reaction === null || rnd() < reaction) {
+          through++;
+          break;
+        }
+        // Not reacted: leave the bottom in a cosine direction, back up into the opening.
+        p = [p[0] + tBottom * d[0], p[1] + tBottom * d[1], prof.depth];
+        d = cosineAbout([0, 0, -1], rnd);
+        continue;
       }
       if (tTop <= tWall) break;
       p = [p[0] + tWall * d[0], p[1] + tWall * d[1], p[2] + tWall * d[2]];
       d = cosineAbout(wall!.n, rnd);
     }
   }
-  const value = through / particles;
-  return { value, sigma: Math.sqrt((value * (1 - value)) / particles), particles };
+  return through / particles;
 }
