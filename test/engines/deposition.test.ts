@@ -1,0 +1,110 @@
+// Deposition models. Sources beside each check:
+// - ALD: Gordon, Hausmann, Kim & Shepard, Chem. Vap. Deposition 9, 73 (2003); its flat-surface limit
+//   is the Hertz–Knudsen impingement flux Γ = P/√(2π·m·k_B·T) (kinetic theory). No worked numeric
+//   example of the paper was reachable; the hand values below evaluate the published formula.
+// - CVD: the closed-form diffusion–reaction solution against a finite-difference solution of the
+//   same equation (an independent numerical method).
+// - PVD: coaxial-disc and parallel-strip view factors against a first-flight ray count.
+import { describe, expect, it } from 'vitest';
+import {
+  aldAspectRatio,
+  aldRequiredExposure,
+  AVOGADRO,
+  BOLTZMANN,
+  cvdProfile,
+  cvdStepCoverage,
+  pvdHoleBottomAverage,
+  pvdHoleBottomCentre,
+  pvdTrenchBottomAverage,
+  pvdTrenchBottomCentre,
+} from '../../src/engines/deposition/models.ts';
+import { seededRandom } from '../../src/engines/transport/montecarlo.ts';
+import { expectRel } from '../helpers.ts';
+
+describe('ALD minimum exposure (Gordon et al. 2003)', () => {
+  // A precursor of 200 g/mol at 573.15 K, 3e18 sites/m².
+  const [S, M, T] = [3e18, 0.2, 573.15];
+  const m = M / AVOGADRO;
+
+  it('reduces on a flat surface to the Hertz–Knudsen dose S·√(2πmk_BT)', () => {
+    // Γ = P/√(2πmkT); delivering S molecules per m² takes P·t = S·√(2πmkT).
+    // By hand: m = 3.3211e-25 kg; 2π·m·k·T = 1.6512e-44; √ = 1.2850e-22 kg·m/s; × 3e18 = 3.855e-4 Pa·s.
+    expectRel(aldRequiredExposure(S, M, T, 0), S * Math.sqrt(2 * Math.PI * m * BOLTZMANN * T), 12);
+    expect(aldRequiredExposure(S, M, T, 0)).toBeCloseTo(3.855e-4, 6);
+  });
+
+  it('grows as (1 + 19a/4 + 3a²/2): 3,988.5 times the flat dose at a = 50', () => {
+    // 1 + 237.5 + 3750 = 3988.5 (hand).
+    expectRel(aldRequiredExposure(S, M, T, 50) / aldRequiredExposure(S, M, T, 0), 3988.5, 12);
+  });
+
+  it('takes L/(2w) for trenches: a trench needs far less than a hole of the same depth and width', () => {
+    expect(aldAspectRatio(true, 2e-6, 40e-9)).toBe(25);
+    expect(aldAspectRatio(false, 2e-6, 40e-9)).toBe(50);
+  });
+});
+
+describe('CVD step coverage (Knudsen diffusion with wall reaction)', () => {
+  it.each([
+    [0.001, 20, false],
+    [0.01, 20, true],
+    [0.05, 10, true],
+    [0.1, 5, false],
+  ])('closed form equals the finite-difference profile: s = %s, L/d = %s, reacting bottom %s', (s, ar, reacting) => {
+    const profile = cvdProfile(s, ar, 1, reacting);
+    expectRel(cvdStepCoverage(s, ar, 1, reacting), profile[profile.length - 1]!, 5);
+  });
+
+  it('is conformal when nothing sticks and poor when much does', () => {
+    expect(cvdStepCoverage(1e-9, 50, 1)).toBeGreaterThan(0.999);
+    // φ = √0.3·10 = 5.477: 1/cosh φ ≈ 2/e^φ = 0.0084 (hand, non-reacting bottom).
+    expect(cvdStepCoverage(0.1, 10, 1, false)).toBeCloseTo(1 / Math.cosh(Math.sqrt(0.3) * 10), 12);
+    expect(cvdStepCoverage(0.1, 10, 1, false)).toBeLessThan(0.01);
+  });
+});
+
+describe('PVD line-of-sight coverage', () => {
+  /** First-flight rays from a cosine source spread over the top opening: fraction landing on the bottom. */
+  function rayCount(shape: 'disc' | 'strip', aspect: number, n = 200_000): number {
+    const rnd = seededRandom(7);
+    let hit = 0;
+    for (let i = 0; i < n; i++) {
+      const u = rnd();
+      const sinT = Math.sqrt(u);
+      const tanT = sinT / Math.sqrt(1 - u);
+      const psi = 2 * Math.PI * rnd();
+      if (shape === 'disc') {
+        const r = 0.5 * Math.sqrt(rnd());
+        const phi = 2 * Math.PI * rnd();
+        const x = r * Math.cos(phi) + aspect * tanT * Math.cos(psi);
+        const y = r * Math.sin(phi) + aspect * tanT * Math.sin(psi);
+        if (x * x + y * y <= 0.25) hit++;
+      } else {
+        const x = rnd() - 0.5 + aspect * tanT * Math.cos(psi);
+        if (Math.abs(x) <= 0.5) hit++;
+      }
+    }
+    return hit / n;
+  }
+
+  it('a round hole bottom receives the coaxial-disc view factor on average', () => {
+    for (const a of [0.5, 2]) {
+      const p = rayCount('disc', a);
+      expect(Math.abs(pvdHoleBottomAverage(a) - p)).toBeLessThan(3 * Math.sqrt((p * (1 - p)) / 200_000));
+    }
+  });
+
+  it('a trench bottom receives the parallel-strip view factor on average', () => {
+    for (const a of [0.5, 2]) {
+      const p = rayCount('strip', a);
+      expect(Math.abs(pvdTrenchBottomAverage(a) - p)).toBeLessThan(3 * Math.sqrt((p * (1 - p)) / 200_000));
+    }
+  });
+
+  it('the bottom centre sees the whole opening: R²/(R² + L²) and its strip analogue', () => {
+    // A = 1: disc 1/(1 + 4) = 0.2; strip 1/√5 = 0.4472 (hand); centres see more than the average.
+    expectRel(pvdHoleBottomCentre(1), 0.2, 12);
+    expectRel(pvdTrenchBottomCentre(1), 1 / Math.sqrt(5), 12);
+    expect(pvdHoleBottomCentre(1)).toBeGreaterThan(pvdHoleBottomAverage(1));
+  });
+});
