@@ -3,7 +3,7 @@
 // Pure: the same handbook gives the same results, in the same order.
 import type { Param, Rule, Structure, Handbook, Comparison } from '../model/types.ts';
 import { QUANTITIES } from '../engines/index.ts';
-import { buildPlan, runPlan, type Plan } from './plan.ts';
+import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
 
 export type Status = 'pass' | 'fail' | 'incomplete' | 'not-applicable';
 
@@ -222,17 +222,18 @@ interface Evaluated {
 export class PlanCache {
   private readonly plans = new Map<Structure, Map<string, Plan>>();
   private readonly evaluations = new Map<Structure, Map<string, Evaluated>>();
-  get(s: Structure, quantity: string): Plan {
+  get(s: Structure, quantity: string, film?: string): Plan {
     let byQ = this.plans.get(s);
     if (!byQ) this.plans.set(s, (byQ = new Map()));
-    let plan = byQ.get(quantity);
-    if (!plan) byQ.set(quantity, (plan = buildPlan(s, quantity)));
+    const key = film === undefined ? quantity : `${quantity}[${film}]`;
+    let plan = byQ.get(key);
+    if (!plan) byQ.set(key, (plan = buildPlan(s, quantity, film)));
     return plan;
   }
   evaluate(s: Structure, plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Comparison): Evaluated {
     let byKey = this.evaluations.get(s);
     if (!byKey) this.evaluations.set(s, (byKey = new Map()));
-    const key = `${plan.quantity}|${mode}|${mode === 'nominal' ? '' : comparison}`;
+    const key = `${plan.quantity}[${plan.film ?? ''}]|${mode}|${mode === 'nominal' ? '' : comparison}`;
     let e = byKey.get(key);
     if (!e) {
       const r = evaluatePlan(plan, mode, comparison);
@@ -265,7 +266,7 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     ...(missing ? { missing } : {}),
   });
   if (!appliesTo(rule, s)) return verdict('not-applicable', 'outside the scope the rule applies to');
-  const plan = plans.get(s, rule.quantity);
+  const plan = plans.get(s, rule.quantity, rule.film);
   if (plan.status === 'not-applicable') return verdict('not-applicable', plan.reason);
   if (plan.status === 'incomplete') return verdict('incomplete', `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}`, plan.missing);
   const toleranced = plan.params.filter((p) => p.low !== undefined).length;
@@ -331,15 +332,21 @@ export function evaluateStructure(s: Structure, plans: PlanCache = new PlanCache
 } {
   const quantities: Record<string, StructureQuantity> = {};
   const incomplete: Record<string, string[]> = {};
+  const listed: Array<[string, string, string | undefined]> = [];
   for (const name of [...QUANTITIES.keys()].sort()) {
-    const plan = plans.get(s, name);
-    if (plan.status === 'incomplete') incomplete[name] = plan.missing;
+    const steps = QUANTITIES.get(name)!.steps?.(shapeOf(s)) ?? [];
+    if (steps.length > 1) for (const film of steps) listed.push([`${name}[${film}]`, name, film]);
+    else listed.push([name, name, steps[0]]);
+  }
+  for (const [key, name, film] of listed) {
+    const plan = plans.get(s, name, film);
+    if (plan.status === 'incomplete') incomplete[key] = plan.missing;
     if (plan.status !== 'ready') continue;
     const run = runPlan(plan, plan.params.map((p) => p.value));
     const last = plan.steps.length - 1;
     const value = run.values[last] ?? null;
     const unit = QUANTITIES.get(name)!.unit;
-    quantities[name] =
+    quantities[key] =
       value === null
         ? { value: null, unit, reason: run.reasons[last] ?? 'no value', ...(run.unbounded[last] ? { unbounded: run.unbounded[last] } : {}) }
         : { value, unit, ...(run.notes[last] ? { note: run.notes[last] } : {}) };

@@ -15,7 +15,7 @@ export interface Step {
 }
 
 export type Plan =
-  | { status: 'ready'; quantity: string; params: Param[]; steps: Step[] }
+  | { status: 'ready'; quantity: string; film?: string; params: Param[]; steps: Step[] }
   | { status: 'incomplete'; quantity: string; missing: string[] }
   | { status: 'not-applicable'; quantity: string; reason: string };
 
@@ -30,16 +30,18 @@ export interface Run {
 }
 
 /** The shape facts of a structure that quantities branch on. */
-export function shapeOf(structure: Structure): Shape {
+export function shapeOf(structure: Structure, film?: string): Shape {
   return {
     kind: structure.kind,
     ...(structure.array ? { array: structure.array } : {}),
     ...(structure.drying ? { drying: structure.drying } : {}),
     ...(structure.etch ? { etch: structure.etch } : {}),
+    ...(structure.deposition ? { deposition: structure.deposition } : {}),
+    ...(film !== undefined ? { film } : {}),
   };
 }
 
-export function buildPlan(structure: Structure, quantity: string): Plan {
+export function buildPlan(structure: Structure, quantity: string, film?: string): Plan {
   const params: Param[] = [];
   const paramIndex = new Map<string, number>();
   const steps: Step[] = [];
@@ -66,7 +68,7 @@ export function buildPlan(structure: Structure, quantity: string): Plan {
     const done = stepIndex.get(name);
     if (done !== undefined) return { step: done };
     if (stack.includes(name)) throw new Error(`quantity cycle: ${[...stack, name].join(' → ')}`);
-    const v = def.variant(shapeOf(structure));
+    const v = def.variant(shapeOf(structure, film));
     if ('notApplicable' in v) {
       notApplicable ??= name === quantity ? v.notApplicable : `${name}: ${v.notApplicable}`;
       return null;
@@ -92,7 +94,7 @@ export function buildPlan(structure: Structure, quantity: string): Plan {
   visit(quantity, []);
   if (notApplicable !== null) return { status: 'not-applicable', quantity, reason: notApplicable };
   if (missing.size > 0) return { status: 'incomplete', quantity, missing: [...missing].sort() };
-  return { status: 'ready', quantity, params, steps };
+  return { status: 'ready', quantity, ...(film !== undefined ? { film } : {}), params, steps };
 }
 
 /** Run a ready plan with one value per leaf input. The last step is the target. */

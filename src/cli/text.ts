@@ -51,7 +51,7 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
 export function renderStructureQuantities(s: Structure, quantities: Record<string, StructureQuantity>, incomplete: Record<string, string[]>): string {
   const rows = [['quantity', 'value', 'what it is']];
   for (const [name, q] of Object.entries(quantities)) {
-    rows.push([name, q.value === null ? `none: ${q.reason}` : formatValue(q.value, q.unit), QUANTITIES.get(name)?.title ?? '']);
+    rows.push([name, q.value === null ? `none: ${q.reason}` : formatValue(q.value, q.unit), QUANTITIES.get(name.replace(/\[.*\]$/, ''))?.title ?? '']);
   }
   const lines = [`${s.id} (${s.kind}): ${s.title}`, '', table(rows)];
   const blocked = Object.entries(incomplete);

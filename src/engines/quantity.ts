@@ -1,6 +1,6 @@
 // What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
 // the report read only these declarations, never a specific engine.
-import type { ArrayLayout, DryingShape, EtchShape, Kind } from '../model/types.ts';
+import type { ArrayLayout, DepositionShape, DryingShape, EtchShape, Kind } from '../model/types.ts';
 
 /** A result that has no finite value for this structure, with the reason shown to the reader. */
 export interface NoValue {
@@ -36,6 +36,9 @@ export interface Shape {
   array?: ArrayLayout;
   drying?: DryingShape;
   etch?: EtchShape;
+  deposition?: DepositionShape;
+  /** The film step a rule (or a per-step listing) selects, for quantities of one film step. */
+  film?: string;
 }
 
 /**
@@ -74,6 +77,12 @@ export interface QuantityDef {
   source: string;
   assumptions?: string[];
   validity?: ValidityCheck[];
+  /**
+   * For quantities of one film step: the steps a structure has. With one step the quantity keeps
+   * its plain name; with several, each step's value is listed as `name[film]` and a rule picks a
+   * step with its `film` field.
+   */
+  steps?: (shape: Shape) => string[];
   /** Which way is better; the report uses it for chart direction, never for verdicts. */
   better?: 'higher' | 'lower';
   /**

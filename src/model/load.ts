@@ -10,12 +10,13 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, DRYING_PARAMS, ETCH_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
   isElongated,
   isOpening,
+  type DepositionShape,
   type DryingShape,
   type EtchShape,
   type ArrayLayout,
@@ -290,7 +291,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'drying', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'drying', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
@@ -301,6 +302,8 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                 ? Object.keys(ION_PARAMS)
               : /^\/etch\/calibration\/\d+$/.test(ptr)
                 ? Object.keys(CALIBRATION_SPECS)
+                : /^\/deposition\/\d+$/.test(ptr)
+                  ? ['film', 'method', ...Object.keys(DEPOSITION_PARAMS)]
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -377,6 +380,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
 
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
   const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
+  const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
 
   if (!schemaOk) return null;
   return {
@@ -385,6 +389,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     kind,
     ...(drying ? { drying } : {}),
     ...(etch ? { etch } : {}),
+    ...(deposition ? { deposition } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -497,12 +502,38 @@ function readEtch(report: FileReport, e: Record<string, unknown>, kind: Kind | u
   return { calibrationPoints: points.length, ...(ion ? { ion } : {}) };
 }
 
+/** The `deposition:` list: film steps with their method and recipe numbers. */
+function readDeposition(report: FileReport, steps: unknown[], kind: Kind | undefined, params: Map<string, Param>): DepositionShape | undefined {
+  if (kind && !isOpening(kind) && kind !== 'cylinder') {
+    report.add('unknown-field', '/deposition', { expected: `a deposition list only on openings and hollow cylinders, not on a ${kind}` }, 'key');
+    return undefined;
+  }
+  const films: DepositionShape['films'] = [];
+  const seen = new Set<string>();
+  steps.forEach((step, i) => {
+    if (!isMapping(step) || typeof step.film !== 'string' || typeof step.method !== 'string') return; // reported by the schema
+    if (seen.has(step.film)) {
+      report.add('duplicate-id', `/deposition/${i}/film`, { found: step.film });
+      return;
+    }
+    seen.add(step.film);
+    for (const [name, spec] of Object.entries(DEPOSITION_PARAMS)) {
+      if (step[name] === undefined) continue;
+      const pointer = `/deposition/${i}/${name}`;
+      const r = readValue(report, pointer, step[name], spec);
+      if (r) params.set(`deposition.${step.film}.${name}`, { name: `deposition.${step.film}.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
+    }
+    films.push({ film: step.film, method: step.method as DepositionShape['films'][number]['method'] });
+  });
+  return { films };
+}
+
 function rulesFromFile(loaded: Loaded): LocatedRule[] {
   const { src, report } = loaded;
   const v = getValidators().rule;
   if (!v(src.value)) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
-      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : ['id', 'title', 'applies_to', 'quantity', 'at_least', 'at_most', 'evaluate_at', 'severity', 'rationale', 'references'],
+      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : ['id', 'title', 'applies_to', 'quantity', 'film', 'at_least', 'at_most', 'evaluate_at', 'severity', 'rationale', 'references'],
     );
   }
   // Each rule of a list is checked further on its own, so one bad rule does not hide the others.
@@ -550,6 +581,7 @@ function rulesFromFile(loaded: Loaded): LocatedRule[] {
         ...(at.structures ? { structures: at.structures as string[] } : {}),
       },
       quantity: quantityName,
+      ...(typeof raw.film === 'string' ? { film: raw.film } : {}),
       comparison,
       limit,
       limitWritten: String(limitRaw),

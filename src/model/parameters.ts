@@ -59,6 +59,16 @@ export const CALIBRATION_SPECS: Record<string, ParamSpec> = {
   rate: { unit: 'm/s', description: 'Measured etch rate at that aspect ratio.', min: 0, exclusiveMin: true },
 };
 
+/** Inputs of one film step in a `deposition:` list (`deposition.<film>.<name>`). */
+export const DEPOSITION_PARAMS: Record<string, ParamSpec> = {
+  thickness: { unit: 'm', description: 'Target film thickness on the top surface.', min: 0, exclusiveMin: true },
+  exposure: { unit: 'Pa*s', description: 'ALD precursor exposure: partial pressure times pulse time.', min: 0, exclusiveMin: true },
+  molar_mass: { unit: 'kg/mol', description: 'Molar mass of the precursor.', min: 0, exclusiveMin: true },
+  temperature: { unit: 'K', description: 'Gas temperature.', min: 0, exclusiveMin: true },
+  site_density: { unit: '1/m^2', description: 'ALD saturation density of reacted precursor molecules.', min: 0, exclusiveMin: true },
+  sticking_probability: { unit: '1', description: 'CVD reaction (sticking) probability of the growth species on the wall.', min: 0, max: 1, exclusiveMin: true },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -77,6 +87,7 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   const [block, a, b] = path.split('.');
   if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
+  if (block === 'deposition' && b) return DEPOSITION_PARAMS[b];
   if (block === 'etch' && a) {
     if (a.startsWith('calibration_')) return CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')];
     if (a.startsWith('ion_')) return ION_PARAMS[a.slice(4)];

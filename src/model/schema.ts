@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -67,6 +67,21 @@ export function structureSchema(): JsonSchema {
           },
         },
       },
+      deposition: {
+        type: 'array',
+        minItems: 1,
+        description: 'Film steps that line the opening, in order (hole, trench, via; the inside of a hollow cylinder).',
+        items: {
+          type: 'object',
+          additionalProperties: false,
+          required: ['film', 'method'],
+          properties: {
+            film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'Name of the film step (rules select it with `film`).' },
+            method: { type: 'string', enum: ['ald', 'cvd', 'pvd'] },
+            ...propertiesFrom(DEPOSITION_PARAMS),
+          },
+        },
+      },
       drying: {
         type: 'object',
         description: 'The rinse and dry the standing structures go through (capillary collapse).',
@@ -107,6 +122,7 @@ const ruleProperties = (): JsonSchema => ({
     },
   },
   quantity: { type: 'string', pattern: '^[a-z_]+\\.[a-z0-9_]+$', description: 'Quantity name, engine.name.' },
+  film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'For quantities of one film step: the film name of the step.' },
   at_least: { type: ['string', 'number'], description: 'Lower limit, in the unit of the quantity.' },
   at_most: { type: ['string', 'number'], description: 'Upper limit, in the unit of the quantity.' },
   evaluate_at: { type: 'string', enum: ['nominal', 'worst-case'] },

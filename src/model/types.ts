@@ -63,6 +63,13 @@ export interface EtchShape {
   ion?: { spread: boolean };
 }
 
+export type DepositionMethod = 'ald' | 'cvd' | 'pvd';
+
+/** Shape facts of the film steps (their numbers are params: `deposition.<film>.thickness`, ...). */
+export interface DepositionShape {
+  films: Array<{ film: string; method: DepositionMethod }>;
+}
+
 export interface Structure {
   id: string;
   title: string;
@@ -70,6 +77,7 @@ export interface Structure {
   array?: ArrayLayout;
   drying?: DryingShape;
   etch?: EtchShape;
+  deposition?: DepositionShape;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */
@@ -89,6 +97,8 @@ export interface Rule {
   title: string;
   appliesTo: { kinds?: Kind[]; tags?: string[]; structures?: string[] };
   quantity: string;
+  /** For quantities of one film step: which step (its film name). */
+  film?: string;
   comparison: Comparison;
   /** Limit in the quantity's SI unit. */
   limit: number;

@@ -77,11 +77,13 @@ function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem
   const t = text.trim();
   if (t === '') return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
   if (siUnit === '1' && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return Number(t);
-  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-zµμΩ%]/.test(t)) {
+  if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-zµμΩ%/]/.test(t)) {
     return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
   }
   ensureExtraUnits();
-  const normalized = t.replace(/[µμ]/g, 'u').replace(/Ω/g, 'ohm').replace(/%/g, 'percent').replace(/·/g, '*');
+  // "3e18 /m^2" → "3e18 m^-2": mathjs has no leading-slash units.
+  const inverted = t.replace(/^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*\/\s*([A-Za-zµμ]+)(?:\^(\d+))?$/, (_m, n, u, p) => `${n} ${u}^-${p ?? 1}`);
+  const normalized = inverted.replace(/[µμ]/g, 'u').replace(/Ω/g, 'ohm').replace(/%/g, 'percent').replace(/·/g, '*');
   let u: Unit;
   try {
     u = mathUnit(normalized);

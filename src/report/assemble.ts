@@ -189,11 +189,11 @@ export async function assembleReport(h: Handbook, results: Results) {
       }),
       quantities: Object.entries(quantities).map(([name, q]) => ({
         name,
-        title: QUANTITIES.get(name)!.title,
-        url: urls.quantity(name),
+        title: QUANTITIES.get(baseName(name))!.title,
+        url: urls.quantity(baseName(name)),
         valueText: q.value === null ? valuePhrase({ value: null, unit: q.unit, ...(q.reason ? { reason: q.reason } : {}), ...(q.unbounded ? { unbounded: q.unbounded } : {}) }) : formatValue(q.value, q.unit),
       })),
-      incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(name)!.title, missing: missing.join(', ') })),
+      incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(baseName(name))!.title, missing: missing.join(', ') })),
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
       worst: worstWord(vs),
       sectionSvg: renderCrossSection({
@@ -338,6 +338,11 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
   const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
   const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && sweep.overlay ? `; ○ ${sweep.overlay.label}` : '') + (limit !== null ? '; dashed: the limit' : '');
   return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure${also}.` };
+}
+
+/** `deposition.step_coverage[liner]` → `deposition.step_coverage`. */
+function baseName(listed: string): string {
+  return listed.replace(/\[.*\]$/, '');
 }
 
 function scopeText(rule: Rule): string {

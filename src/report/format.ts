@@ -59,6 +59,10 @@ const DISPLAY: Record<string, (v: number, d: number) => string> = {
   '1/K': (v, d) => `${sig(v * 1e6, d)} ppm/K`,
   'ohm*m': (v, d) => `${sig(v * 1e8, d)} µΩ·cm`,
   K: (v, d) => `${sig(v, d)} K`,
+  'Pa*s': (v, d) => withPrefix(v, 'Pa·s', 1, d),
+  'kg/mol': (v, d) => `${sig(v * 1e3, d)} g/mol`,
+  '1/m^2': (v, d) => `${sig(v, d)} m⁻²`,
+  N: (v, d) => withPrefix(v, 'N', 1, d),
 };
 
 /** `3.2e-8, 'm'` → `32 nm`; dimensionless values are plain numbers. */

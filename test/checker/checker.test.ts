@@ -200,6 +200,12 @@ describe('the demo handbook, verdict by verdict', () => {
     const hc = (W: number) => ((E * W ** 3 * s ** 2) / (24 * gamma * Math.cos(deg(contactDeg)))) ** 0.25;
     return [hc(cd) / H, hc(cd + 4 * H * cot) / H];
   };
+  // CVD step coverage (Knudsen diffusion–reaction, reacting bottom) and PVD coaxial-disc factor.
+  const cvd = (s: number, L: number, d: number) => {
+    const phi = Math.sqrt(3 * s) * (L / d);
+    return 1 / (Math.cosh(phi) + (Math.sqrt(3 * s) / 4) * Math.sinh(phi));
+  };
+  const discs = (X: number) => (2 + X * X - X * Math.sqrt(X * X + 4)) / 2;
   const WATER = 0.07197; // IAPWS R1-76 at 25 °C
   const IPA = 0.0209; // CRC Handbook, 25 °C (from memory)
   const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number]]> = [
@@ -261,6 +267,17 @@ describe('the demo handbook, verdict by verdict', () => {
     ['ISO-LAG-1', 'cell-isolation-trench', 'fail', [0.2, 1]],
     // Cell trench depth in 4 min: above the 250 nm limit, below the open-field 4 × 150 = 600 nm.
     ['ISO-DEPTH-1', 'cell-isolation-trench', 'pass', [250 * nm, 600 * nm]],
+    // Storage-node dielectric (ALD, Gordon et al. 2003) inside the cup, worst corner: height 1.94 µm,
+    // wall 7.5 nm, CD 32.5 nm → depth 1932.5 nm over width 17.5 nm, a = 110.43;
+    // flat dose S·√(2πmkT) with S = 2.5e18, M = 330 g/mol, T = 553.15 K; margin = 5 Pa·s / required.
+    ['SN-DIEL-1', 'storage-node', 'fail', 5 / (2.5e18 * Math.sqrt(2 * Math.PI * (0.33 / 6.02214076e23) * 1.380649e-23 * 553.15) * (1 + (19 / 4) * (1932.5 / 17.5) + 1.5 * (1932.5 / 17.5) ** 2))],
+    // Trench liner (CVD, s = 0.0008), worst corner: bottom 22 − 2·240·tan 1.8° = 6.915 nm, d = 2w:
+    // φ = √(3s)·L/(2w); coverage 1/(cosh φ + (√(3s)/4)·sinh φ).
+    ['ISO-LINER-1', 'cell-isolation-trench', 'pass', cvd(0.0008, 240, 2 * (22 - 2 * 240 * tanDeg(1.8)))],
+    // Via liner (CVD, s = 0.001), worst corner: bottom 7.7 − 2·112·tan 0.4° = 6.136 µm.
+    ['TSV-LINER-1', 'package-tsv', 'pass', cvd(0.001, 112, 7.7 - 2 * 112 * tanDeg(0.4))],
+    // Via seed (PVD): coaxial discs, X = 2L/d at the same corner: [(2 + X²) − X√(X² + 4)]/2.
+    ['TSV-SEED-1', 'package-tsv', 'fail', discs((2 * 112) / (7.7 - 2 * 112 * tanDeg(0.4)))],
     // Via: worst corner 112 µm deep, 72 min × 8 µm/min / 112 µm = 5.14 open-field; passes 1.15.
     ['TSV-ETCH-1', 'package-tsv', 'pass', [1.15, (72 * 8) / 112]],
     // (110 + 2)/(8 − 0.3) = 14.545 ≤ 15.
@@ -285,11 +302,11 @@ describe('the demo handbook, verdict by verdict', () => {
     }
   });
 
-  it('counts 25 pass, 7 fail (5 blocking), 1 incomplete, 237 not applicable', () => {
-    // 27 rules × 10 structures = 270 pairs; the 33 in the table above apply, so 237 do not.
+  it('counts 27 pass, 9 fail (6 blocking), 1 incomplete, 273 not applicable', () => {
+    // 31 rules × 10 structures = 310 pairs; the 37 in the table above apply, so 273 do not.
     const r = evaluateHandbook(handbook);
-    expect(r.counts).toEqual({ pass: 25, fail: 7, incomplete: 1, 'not-applicable': 237 });
-    expect(r.blockingFailures).toBe(5);
+    expect(r.counts).toEqual({ pass: 27, fail: 9, incomplete: 1, 'not-applicable': 273 });
+    expect(r.blockingFailures).toBe(6);
   });
 
   it('names the worst corner of SN-AR-1: height high, cd low', () => {

@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 33 applicable pairs of 270 (27 rules × 10 structures): 25 pass, 7 fail (5 blocking), 1
+    // 37 applicable pairs of 310 (31 rules × 10 structures): 27 pass, 9 fail (6 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 25, fail: 7, incomplete: 1, 'not-applicable': 237 });
-    expect(j.blocking_failures).toBe(5);
-    expect(j.verdicts).toHaveLength(270);
+    expect(j.counts).toEqual({ pass: 27, fail: 9, incomplete: 1, 'not-applicable': 273 });
+    expect(j.blocking_failures).toBe(6);
+    expect(j.verdicts).toHaveLength(310);
   });
 
   it('accepts --root before the command too', async () => {

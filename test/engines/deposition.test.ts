@@ -5,7 +5,12 @@
 // - CVD: the closed-form diffusion–reaction solution against a finite-difference solution of the
 //   same equation (an independent numerical method).
 // - PVD: coaxial-disc and parallel-strip view factors against a first-flight ray count.
+import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
+import { loadHandbook } from '../../src/model/load.ts';
 import {
   aldAspectRatio,
   aldRequiredExposure,
@@ -19,7 +24,7 @@ import {
   pvdTrenchBottomCentre,
 } from '../../src/engines/deposition/models.ts';
 import { seededRandom } from '../../src/engines/transport/montecarlo.ts';
-import { expectRel } from '../helpers.ts';
+import { expectRel, makeRule } from '../helpers.ts';
 
 describe('ALD minimum exposure (Gordon et al. 2003)', () => {
   // A precursor of 200 g/mol at 573.15 K, 3e18 sites/m².
@@ -106,5 +111,85 @@ describe('PVD line-of-sight coverage', () => {
     expectRel(pvdHoleBottomCentre(1), 0.2, 12);
     expectRel(pvdTrenchBottomCentre(1), 1 / Math.sqrt(5), 12);
     expect(pvdHoleBottomCentre(1)).toBeGreaterThan(pvdHoleBottomAverage(1));
+  });
+});
+
+// ── Film steps on structures ──────────────────────────────────────────────────────────────────
+
+
+const ROOT = resolve(import.meta.dirname, '../..');
+
+function loadStructure(yaml: string) {
+  const dir = mkdtempSync(join(tmpdir(), 'plumbline-dep-'));
+  cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+  writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
+  return loadHandbook(dir);
+}
+
+const HOLE = `id: test-pillar
+title: Hole with two films
+kind: hole
+geometry: { cd: 60 nm, depth: 2.4 um, sidewall_angle: 90 deg }
+deposition:
+  - film: dielectric
+    method: ald
+    thickness: 5 nm
+    exposure: 1 Pa*s
+    molar_mass: 200 g/mol
+    temperature: 300 degC
+    site_density: 3e18 /m^2
+  - film: electrode
+    method: cvd
+    thickness: 8 nm
+    sticking_probability: 0.005
+`;
+
+describe('film steps of a structure', () => {
+  const r = loadStructure(HOLE);
+  if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+  const s = r.handbook.structures[0]!;
+  const q = evaluateStructure(s).quantities;
+
+  it('gives the ALD margin of the format example: 1 Pa·s against Gordon’s 0.9989 Pa·s at a = 40', () => {
+    // Flat dose 3.855e-4 Pa·s (above) × (1 + 190 + 2400) = 0.99886 Pa·s (hand).
+    const flat = 3e18 * Math.sqrt(2 * Math.PI * (0.2 / AVOGADRO) * BOLTZMANN * 573.15);
+    expectRel(q['deposition.ald_required_exposure']?.value, flat * 2591, 9);
+    expectRel(q['deposition.ald_exposure_margin']?.value, 1 / (flat * 2591), 9);
+  });
+
+  it('lists a quantity every step has once per step, by film name', () => {
+    expect(Object.keys(q).filter((k) => k.startsWith('deposition.step_coverage')).sort()).toEqual(['deposition.step_coverage[dielectric]', 'deposition.step_coverage[electrode]']);
+    // CVD electrode: φ = √0.015 · 40 = 4.899; 1/(cosh φ + (√0.015/4)·sinh φ) (hand formula).
+    const phi = Math.sqrt(0.015) * 40;
+    expectRel(q['deposition.step_coverage[electrode]']?.value, 1 / (Math.cosh(phi) + (Math.sqrt(0.015) / 4) * Math.sinh(phi)), 9);
+  });
+
+  it('lets a rule pick a step with film, and refuses to guess among several', () => {
+    const pick = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5, film: 'dielectric' }), s, new PlanCache());
+    expect(pick.status).toBe('pass');
+    const guess = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5 }), s, new PlanCache());
+    expect(guess.status).toBe('not-applicable');
+    expect(guess.reason).toMatch(/several film steps/);
+    const missing = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5, film: 'barrier' }), s, new PlanCache());
+    expect(missing.status).toBe('not-applicable');
+  });
+
+  it('coats the inside of a hollow cylinder: depth H − t_w, width CD − 2t_w', () => {
+    const cyl = loadStructure(
+      'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 90 deg }\ndeposition:\n  - { film: dielectric, method: pvd, thickness: 2 nm }\n',
+    );
+    if (!cyl.ok) throw new Error(JSON.stringify(cyl.diagnostics));
+    // A = 995/30; X = 2A; coaxial discs [(2 + X²) − X√(X² + 4)]/2 (hand formula).
+    const X = (2 * 995) / 30;
+    expectRel(evaluateStructure(cyl.handbook.structures[0]!).quantities['deposition.step_coverage']?.value, (2 + X * X - X * Math.sqrt(X * X + 4)) / 2, 9);
+  });
+
+  it('reports a repeated film name and a film list on a pillar at the field', () => {
+    const dup = loadStructure(HOLE.replace('film: electrode', 'film: dielectric'));
+    expect(dup.ok).toBe(false);
+    if (!dup.ok) expect(dup.diagnostics).toEqual([expect.objectContaining({ code: 'duplicate-id', field: 'deposition[1].film', line: 13 })]);
+    const pillar = loadStructure('id: test-pillar\ntitle: P\nkind: pillar\ngeometry: { cd: 40 nm, height: 1 um }\ndeposition:\n  - { film: x, method: pvd }\n');
+    expect(pillar.ok).toBe(false);
+    if (!pillar.ok) expect(pillar.diagnostics).toEqual([expect.objectContaining({ code: 'unknown-field', field: 'deposition', line: 5, column: 1 })]);
   });
 });

@@ -1,0 +1,201 @@
+// Films that line deep openings: does each film step reach the bottom, and with what exposure?
+// The models are in ./models.ts (Gordon's ALD exposure, Knudsen diffusion–reaction for CVD,
+// line-of-sight view factors for PVD). A structure lists its film steps under `deposition:`; a
+// quantity of one step takes the step a rule names with `film`, or the only step there is.
+import { isElongated, isOpening, type DepositionMethod } from '../../model/types.ts';
+import { noted, noValue, variant, type Engine, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
+import {
+  aldAspectRatio,
+  aldRequiredExposure,
+  cvdStepCoverage,
+  pvdHoleBottomAverage,
+  pvdTrenchBottomAverage,
+} from './models.ts';
+
+const GORDON = 'Gordon, Hausmann, Kim & Shepard, Chem. Vap. Deposition 9, 73 (2003): P·t = S·√(2πmk_BT)·(1 + 19a/4 + 3a²/2); trenches with a = L/(2w) (Cremers, Puurunen & Dendooven, Appl. Phys. Rev. 6, 021302 (2019))';
+const KNUDSEN = 'Knudsen diffusion with first-order wall reaction in a hole (as in Yanguas-Gil & Elam, Chem. Vap. Deposition 18, 46 (2012)): step coverage 1/[cosh φ + (√(3s)/4)·sinh φ], φ = √(3s)·L/d';
+const VIEW = 'Line-of-sight arrival from a cosine source over the opening: coaxial-disc and parallel-strip view factors (Howell, Mengüç & Siegel, Thermal Radiation Heat Transfer, view-factor catalogue)';
+
+/** The film step a quantity speaks of, or why it cannot tell. */
+function stepOf(shape: Shape, methods?: DepositionMethod[]): { film: string; method: DepositionMethod } | { notApplicable: string } | { incomplete: string[] } {
+  const films = (shape.deposition?.films ?? []).filter((f) => !methods || methods.includes(f.method));
+  if (!shape.deposition) return { incomplete: ['deposition'] };
+  if (shape.film !== undefined) {
+    const f = shape.deposition.films.find((x) => x.film === shape.film);
+    if (!f) return { notApplicable: `the structure has no film step "${shape.film}"` };
+    if (methods && !methods.includes(f.method)) return { notApplicable: `film step "${shape.film}" is ${f.method}, not ${methods.join(' or ')}` };
+    return f;
+  }
+  if (films.length === 1) return films[0]!;
+  if (films.length === 0) return { notApplicable: `no ${methods?.join(' or ') ?? ''} film step`.replace('  ', ' ') };
+  return { notApplicable: `several film steps (${films.map((f) => f.film).join(', ')}): name one with the rule's film field` };
+}
+
+/** The opening a film lines: the hole, via or trench itself, or the inside of a hollow cylinder. */
+function openingInputs(shape: Shape): Record<string, string> | null {
+  if (isOpening(shape.kind)) return { depth: 'geometry.depth', width: 'geometry.bottom_cd' };
+  if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', wall: 'geometry.wall' };
+  return null;
+}
+
+/** Depth and narrowest width of the opening to coat, from the inputs of openingInputs. */
+function opening(a: Record<string, number>): { depth: number; width: number } {
+  if (a.depth !== undefined) return { depth: a.depth, width: a.width! };
+  return { depth: a.height! - a.wall!, width: a.cd! - 2 * a.wall! };
+}
+
+const SYMBOLS: Record<string, string> = {
+  depth: 'L',
+  width: 'd',
+  height: 'H',
+  cd: '\\mathrm{CD}',
+  wall: 't_w',
+  exposure: 'P t',
+  molar: 'M',
+  temperature: 'T',
+  sites: 'S',
+  sticking: 's',
+  required: '(P t)_{min}',
+};
+
+/** A quantity of one film step. */
+function stepQuantity(
+  def: Omit<QuantityDef, 'variant' | 'steps'>,
+  methods: DepositionMethod[] | undefined,
+  inputs: (film: string, method: DepositionMethod) => Record<string, string>,
+  formula: (method: DepositionMethod, elongated: boolean) => string,
+  compute: (a: Record<string, number>, method: DepositionMethod, elongated: boolean) => Outcome,
+): QuantityDef {
+  return {
+    ...def,
+    steps: (shape) => (shape.deposition?.films ?? []).filter((f) => !methods || methods.includes(f.method)).map((f) => f.film),
+    variant: (shape): Variant | { notApplicable: string } | { incomplete: string[] } => {
+      const geo = openingInputs(shape);
+      if (!geo) return { notApplicable: 'films line openings (hole, trench, via) and the inside of hollow cylinders' };
+      const step = stepOf(shape, methods);
+      if (!('film' in step)) return step;
+      const elongated = isElongated(shape.kind);
+      return variant({
+        label: `${step.film} (${step.method})`,
+        inputs: { ...geo, ...inputs(step.film, step.method) },
+        symbols: SYMBOLS,
+        formula: formula(step.method, elongated),
+        compute: (a: Record<string, number>) => compute(a, step.method, elongated),
+      });
+    },
+  };
+}
+
+const aldInputs = (film: string) => ({
+  exposure: `deposition.${film}.exposure`,
+  molar: `deposition.${film}.molar_mass`,
+  temperature: `deposition.${film}.temperature`,
+  sites: `deposition.${film}.site_density`,
+});
+
+function required(a: Record<string, number>, elongated: boolean): number {
+  const o = opening(a);
+  return aldRequiredExposure(a.sites!, a.molar!, a.temperature!, aldAspectRatio(elongated, o.depth, o.width));
+}
+
+/** Fraction of the depth an ALD dose saturates: the a that Gordon's formula gives for the exposure. */
+function saturatedFraction(a: Record<string, number>, elongated: boolean): number {
+  const o = opening(a);
+  const flat = aldRequiredExposure(a.sites!, a.molar!, a.temperature!, 0);
+  // 1 + 19a/4 + 3a²/2 = E/flat → a = [−19/4 + √((19/4)² − 6(1 − E/flat))]/3
+  const ratio = a.exposure! / flat;
+  const reach = ratio <= 1 ? 0 : (-19 / 4 + Math.sqrt((19 / 4) ** 2 + 6 * (ratio - 1))) / 3;
+  const needed = aldAspectRatio(elongated, o.depth, o.width);
+  return needed === 0 ? 1 : Math.min(1, reach / needed);
+}
+
+const stepCoverage = stepQuantity(
+  {
+    name: 'deposition.step_coverage',
+    title: 'Step coverage',
+    unit: '1',
+    symbol: 't_{bottom}/t_{top}',
+    description: 'Film thickness at the bottom over thickness on the top surface, for one film step: 1 for an ALD step whose dose saturates the whole opening (0 when it does not reach the bottom), the diffusion–reaction solution for CVD, the bottom view factor for PVD.',
+    source: `ALD: ${GORDON}; CVD: ${KNUDSEN}; PVD: ${VIEW}`,
+    assumptions: ['Vertical-walled opening of the narrowest (bottom) width; for a hollow cylinder, its inside.', 'CVD: quasi-steady, first-order wall reaction, free-molecular (Knudsen) transport, reacting bottom. PVD: sticking 1, no re-emission.'],
+    validity: [{ arg: 'sticking', max: 0.1, why: 'the diffusion–reaction model assumes a small sticking probability (s ≪ 1); above about 0.1 it overstates the coverage.' }],
+    better: 'higher',
+  },
+  undefined,
+  (film, method): Record<string, string> => (method === 'ald' ? aldInputs(film) : method === 'cvd' ? { sticking: `deposition.${film}.sticking_probability` } : {}),
+  (method, elongated) =>
+    method === 'ald'
+      ? '\\frac{t_b}{t_t} = \\begin{cases} 1 & P t \\ge (P t)_{min} \\\\ 0 & \\text{otherwise} \\end{cases}'
+      : method === 'cvd'
+        ? `\\frac{t_b}{t_t} = \\frac{1}{\\cosh\\varphi + \\frac{\\sqrt{3s}}{4}\\sinh\\varphi},\\;\\; \\varphi = \\sqrt{3s}\\,\\frac{L}{${elongated ? '2d' : 'd'}}`
+        : elongated
+          ? '\\frac{t_b}{t_t} = \\sqrt{1 + A^2} - A,\\;\\; A = L/d'
+          : '\\frac{t_b}{t_t} = \\frac{(2 + X^2) - X\\sqrt{X^2 + 4}}{2},\\;\\; X = 2L/d',
+  (a, method, elongated) => {
+    const o = opening(a);
+    if (o.width <= 0 || o.depth <= 0) return noValue('the opening has no width or depth left to coat');
+    if (method === 'ald') {
+      const f = saturatedFraction(a, elongated);
+      return f >= 1 ? 1 : noted(0, `the dose saturates only the top ${(f * 100).toFixed(0)} % of the depth`);
+    }
+    if (method === 'cvd') return cvdStepCoverage(a.sticking!, o.depth, elongated ? 2 * o.width : o.width);
+    return elongated ? pvdTrenchBottomAverage(o.depth / o.width) : pvdHoleBottomAverage(o.depth / o.width);
+  },
+);
+
+const aldRequired = stepQuantity(
+  {
+    name: 'deposition.ald_required_exposure',
+    title: 'ALD exposure needed to saturate the opening',
+    unit: 'Pa*s',
+    symbol: '(P t)_{min}',
+    description: 'Smallest precursor exposure (partial pressure × pulse time) that saturates the whole depth of the opening.',
+    source: GORDON,
+    assumptions: ['Initial sticking probability 1 until the surface saturates (a lower one raises the exposure roughly as its inverse); free-molecular transport; narrowest (bottom) width.'],
+    better: 'lower',
+  },
+  ['ald'],
+  (film) => aldInputs(film),
+  (_m, elongated) => `(P t)_{min} = S\\sqrt{2\\pi m k_B T}\\left(1 + \\tfrac{19}{4}a + \\tfrac{3}{2}a^2\\right),\\;\\; a = ${elongated ? '\\frac{L}{2d}' : '\\frac{L}{d}'},\\;\\; m = M/N_A`,
+  (a, _m, elongated) => required(a, elongated),
+);
+
+const aldMargin = stepQuantity(
+  {
+    name: 'deposition.ald_exposure_margin',
+    title: 'ALD exposure margin',
+    unit: '1',
+    symbol: '\\frac{P t}{(P t)_{min}}',
+    description: 'Exposure the recipe gives over the exposure needed to saturate the opening: at least 1 for a film that reaches the bottom.',
+    source: GORDON,
+    better: 'higher',
+    sweep: { input: () => 'geometry.depth', from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / (p['geometry.cd'] ?? depth) } },
+  },
+  ['ald'],
+  (film) => aldInputs(film),
+  () => '\\frac{P t}{(P t)_{min}}',
+  (a, _m, elongated) => a.exposure! / required(a, elongated),
+);
+
+const coatedDepth = stepQuantity(
+  {
+    name: 'deposition.ald_coated_depth_fraction',
+    title: 'Depth fraction an ALD dose saturates',
+    unit: '1',
+    symbol: 'z_{sat}/L',
+    description: 'Fraction of the opening’s depth that the given ALD exposure saturates (1: down to the bottom).',
+    source: GORDON,
+    better: 'higher',
+  },
+  ['ald'],
+  (film) => aldInputs(film),
+  (_m, elongated) => `1 + \\tfrac{19}{4}a_{sat} + \\tfrac{3}{2}a_{sat}^2 = \\frac{P t}{S\\sqrt{2\\pi m k_B T}},\\;\\; \\frac{z_{sat}}{L} = \\min\\left(1, \\frac{a_{sat}}{a}\\right),\\;\\; a = ${elongated ? '\\frac{L}{2d}' : '\\frac{L}{d}'}`,
+  (a, _m, elongated) => saturatedFraction(a, elongated),
+);
+
+export const depositionEngine: Engine = {
+  id: 'deposition',
+  title: 'Deposition: films in deep openings',
+  summary: 'Step coverage of ALD, CVD and PVD film steps and the ALD exposure that saturates the opening (Gordon et al.), per film step.',
+  quantities: [stepCoverage, aldRequired, aldMargin, coatedDepth],
+};
