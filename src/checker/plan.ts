@@ -37,6 +37,7 @@ export function shapeOf(structure: Structure, film?: string): Shape {
     ...(structure.drying ? { drying: structure.drying } : {}),
     ...(structure.etch ? { etch: structure.etch } : {}),
     ...(structure.deposition ? { deposition: structure.deposition } : {}),
+    ...(structure.fill ? { fill: structure.fill } : {}),
     ...(film !== undefined ? { film } : {}),
   };
 }

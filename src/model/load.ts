@@ -10,7 +10,7 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
@@ -18,6 +18,7 @@ import {
   isOpening,
   type DepositionShape,
   type DryingShape,
+  type FillShape,
   type EtchShape,
   type ArrayLayout,
   type Handbook,
@@ -291,7 +292,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'drying', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
@@ -304,6 +305,8 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                 ? Object.keys(CALIBRATION_SPECS)
                 : /^\/deposition\/\d+$/.test(ptr)
                   ? ['film', 'method', ...Object.keys(DEPOSITION_PARAMS)]
+                  : ptr === '/fill'
+                    ? ['method', ...Object.keys(FILL_PARAMS)]
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -381,6 +384,18 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
   const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
   const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
+  let fill: FillShape | undefined;
+  if (isMapping(raw.fill) && typeof raw.fill.method === 'string') {
+    if (kindKnown && !isOpening(kind)) report.add('unknown-field', '/fill', { expected: `a fill block only on openings (hole, trench, via), not on a ${kind}` }, 'key');
+    else {
+      for (const [name, spec] of Object.entries(FILL_PARAMS)) {
+        if (raw.fill[name] === undefined) continue;
+        const r = readValue(report, `/fill/${name}`, raw.fill[name], spec);
+        if (r) params.set(`fill.${name}`, { name: `fill.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/fill/${name}`) } });
+      }
+      fill = { method: raw.fill.method as FillShape['method'] };
+    }
+  }
 
   if (!schemaOk) return null;
   return {
@@ -390,6 +405,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     ...(drying ? { drying } : {}),
     ...(etch ? { etch } : {}),
     ...(deposition ? { deposition } : {}),
+    ...(fill ? { fill } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),

@@ -69,6 +69,12 @@ export const DEPOSITION_PARAMS: Record<string, ParamSpec> = {
   sticking_probability: { unit: '1', description: 'CVD reaction (sticking) probability of the growth species on the wall.', min: 0, max: 1, exclusiveMin: true },
 };
 
+/** Inputs of a `fill:` block (how the opening is filled). */
+export const FILL_PARAMS: Record<string, ParamSpec> = {
+  sticking_probability: { unit: '1', description: 'Sticking probability of the filling species (sticking-limited fill).', min: 0, max: 1, exclusiveMin: true },
+  bottom_up_ratio: { unit: '1', description: 'Growth rate of the bottom over that of the sidewalls (bottom-up fill).', min: 0, exclusiveMin: true },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -88,6 +94,7 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
   if (block === 'deposition' && b) return DEPOSITION_PARAMS[b];
+  if (block === 'fill' && a) return FILL_PARAMS[a];
   if (block === 'etch' && a) {
     if (a.startsWith('calibration_')) return CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')];
     if (a.startsWith('ion_')) return ION_PARAMS[a.slice(4)];

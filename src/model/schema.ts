@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -80,6 +80,16 @@ export function structureSchema(): JsonSchema {
             method: { type: 'string', enum: ['ald', 'cvd', 'pvd'] },
             ...propertiesFrom(DEPOSITION_PARAMS),
           },
+        },
+      },
+      fill: {
+        type: 'object',
+        description: 'How the opening is filled: the profile is marched in time to find voids and seams.',
+        additionalProperties: false,
+        required: ['method'],
+        properties: {
+          method: { type: 'string', enum: ['conformal', 'sticking-limited', 'bottom-up'] },
+          ...propertiesFrom(FILL_PARAMS),
         },
       },
       drying: {

@@ -70,6 +70,10 @@ export interface DepositionShape {
   films: Array<{ film: string; method: DepositionMethod }>;
 }
 
+export interface FillShape {
+  method: 'conformal' | 'sticking-limited' | 'bottom-up';
+}
+
 export interface Structure {
   id: string;
   title: string;
@@ -78,6 +82,7 @@ export interface Structure {
   drying?: DryingShape;
   etch?: EtchShape;
   deposition?: DepositionShape;
+  fill?: FillShape;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

@@ -11,6 +11,7 @@ import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { loadHandbook } from '../../src/model/load.ts';
+import { concentration, marchFill } from '../../src/engines/deposition/fill.ts';
 import {
   aldAspectRatio,
   aldRequiredExposure,
@@ -191,5 +192,51 @@ describe('film steps of a structure', () => {
     const pillar = loadStructure('id: test-pillar\ntitle: P\nkind: pillar\ngeometry: { cd: 40 nm, height: 1 um }\ndeposition:\n  - { film: x, method: pvd }\n');
     expect(pillar.ok).toBe(false);
     if (!pillar.ok) expect(pillar.diagnostics).toEqual([expect.objectContaining({ code: 'unknown-field', field: 'deposition', line: 5, column: 1 })]);
+  });
+});
+
+// ── Gap fill: geometric truths and the transport inside the march ─────────────────────────────
+
+describe('gap fill marched in time', () => {
+  it('a conformal film in a vertical trench closes with a seam the full depth and no void, at half the width over the rate', () => {
+    // Walls 1 apart grow at rate 1 each: they meet at t = w/(2·rate) everywhere at once (closure
+    // time 1 in these units); the bottom has risen w/2 = 0.5 by then, so the seam is 10 − 0.5.
+    const r = marchFill({ elongated: true, cd: 1, depth: 10, bottom: 1, method: 'conformal' });
+    expect(r.voidHeight).toBe(0);
+    expect(r.seamLength).toBeCloseTo(9.5, 1);
+    expect(r.closureTime).toBeCloseTo(1, 2);
+  });
+
+  it('a conformal film in a re-entrant opening leaves a void', () => {
+    const r = marchFill({ elongated: true, cd: 1, depth: 10, bottom: 1.4, method: 'conformal' });
+    expect(r.voidHeight).toBeGreaterThan(5);
+  });
+
+  it('bottom-up growth fast enough to reach the top first leaves neither void nor seam', () => {
+    // The bottom must rise 10 before the walls meet at t = 0.5: a ratio above 20.
+    const r = marchFill({ elongated: true, cd: 1, depth: 10, bottom: 1, method: 'bottom-up', ratio: 30 });
+    expect(r.voidHeight).toBe(0);
+    expect(r.seamLength).toBe(0);
+  });
+
+  it('a conformal film in a narrowing opening closes from the bottom up without a void', () => {
+    const r = marchFill({ elongated: false, cd: 1, depth: 10, bottom: 0.6, method: 'conformal' });
+    expect(r.voidHeight).toBe(0);
+  });
+
+  it('its sticking-limited transport matches the closed-form step coverage in a uniform trench', () => {
+    // Trench of width 1, depth 10, s = 0.01 (equivalent diameter 2w): bottom concentration equals
+    // 1/(cosh φ + (√(3s)/4)·sinh φ), φ = √(3s)·L/(2w) (Knudsen diffusion–reaction, reacting bottom).
+    const N = 2000;
+    const widths = new Array<number>(N).fill(1);
+    const n = concentration({ elongated: true, cd: 1, depth: 10, bottom: 1, method: 'sticking-limited', sticking: 0.01 }, widths, 10 / N, N - 1, true);
+    expectRel(n[N - 1]!, cvdStepCoverage(0.01, 10, 2), 3);
+  });
+
+  it('and in a uniform hole', () => {
+    const N = 2000;
+    const widths = new Array<number>(N).fill(1);
+    const n = concentration({ elongated: false, cd: 1, depth: 10, bottom: 1, method: 'sticking-limited', sticking: 0.01 }, widths, 10 / N, N - 1, true);
+    expectRel(n[N - 1]!, cvdStepCoverage(0.01, 10, 1), 3);
   });
 });

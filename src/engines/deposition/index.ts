@@ -3,7 +3,9 @@
 // line-of-sight view factors for PVD). A structure lists its film steps under `deposition:`; a
 // quantity of one step takes the step a rule names with `film`, or the only step there is.
 import { isElongated, isOpening, type DepositionMethod } from '../../model/types.ts';
-import { noted, noValue, variant, type Engine, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
+import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
+import { bottomCd } from '../geometry/index.ts';
+import { marchFill, VOID_WIDTH, type FillResult } from './fill.ts';
 import {
   aldAspectRatio,
   aldRequiredExposure,
@@ -193,9 +195,157 @@ const coatedDepth = stepQuantity(
   (a, _m, elongated) => saturatedFraction(a, elongated),
 );
 
+// ── Gap fill ──────────────────────────────────────────────────────────────────────────────────
+
+const MARCH = 'Profile marched in time with the local growth rate (conformal; sticking-limited from the Knudsen diffusion–reaction equation in the narrowing opening; bottom-up); a slice closes when its walls meet, and open slices cut off below a closed one form a void';
+
+function fillInputs(shape: Shape): Record<string, string> {
+  const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle' };
+  if (shape.fill?.method === 'sticking-limited') inputs.sticking = 'fill.sticking_probability';
+  if (shape.fill?.method === 'bottom-up') inputs.ratio = 'fill.bottom_up_ratio';
+  return inputs;
+}
+
+const fillMemo = new Map<string, FillResult | NoValue>();
+
+/** March the fill of the opening described by the inputs (memoised: several quantities share it). */
+export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!): FillResult | NoValue {
+  const key = JSON.stringify([shape.kind, shape.fill?.method, a, depth]);
+  const hit = fillMemo.get(key);
+  if (hit) return hit;
+  const bottom = bottomCd(a.cd!, depth, a.angle!, true);
+  const result: FillResult | NoValue =
+    bottom <= 0
+      ? noValue('the tapered opening closes before its bottom: there is nothing to fill below that')
+      : marchFill({
+          elongated: isElongated(shape.kind),
+          cd: a.cd!,
+          depth,
+          bottom,
+          method: shape.fill!.method,
+          ...(a.sticking !== undefined ? { sticking: a.sticking } : {}),
+          ...(a.ratio !== undefined ? { ratio: a.ratio } : {}),
+        });
+  if (fillMemo.size > 256) fillMemo.clear();
+  fillMemo.set(key, result);
+  return result;
+}
+
+function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: (r: FillResult, a: Record<string, number>, shape: Shape) => Outcome): QuantityDef {
+  return {
+    ...def,
+    variant: (shape) => {
+      if (!isOpening(shape.kind)) return { notApplicable: 'gap fill concerns openings (hole, trench, via)' };
+      if (!shape.fill) return { incomplete: ['fill.method'] };
+      return variant({
+        label: `${shape.kind}, ${shape.fill.method} fill`,
+        inputs: fillInputs(shape),
+        symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', sticking: 's', ratio: 'R_b' },
+        formula,
+        compute: (a: Record<string, number>) => {
+          const r = fillOf(shape, a);
+          return 'reason' in r ? r : pick(r, a, shape);
+        },
+      });
+    },
+  };
+}
+
+const FILL_ASSUMPTIONS = [
+  `Straight sidewalls; growth normal to the wall taken as horizontal; ${200} slices over the depth. A trapped opening narrower than ${VOID_WIDTH * 100} % of the top CD counts as a seam, not a void.`,
+  'Sticking-limited growth: quasi-steady Knudsen diffusion with first-order wall reaction, recomputed as the opening narrows.',
+];
+
+const voidHeight = fillQuantity(
+  {
+    name: 'fill.void_height',
+    title: 'Void height',
+    unit: 'm',
+    symbol: 'h_{void}',
+    description: 'Height of the void the fill traps below the point where the opening first pinches off: 0 when the fill closes from the bottom up.',
+    source: MARCH,
+    assumptions: FILL_ASSUMPTIONS,
+    better: 'lower',
+    sweep: { input: () => 'geometry.depth', from: 0.25, to: 1.5, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
+  },
+  'h_{void} = z_{bottom,\\,open} - z_{pinch}',
+  (r) => (r.voidHeight > 0 ? noted(r.voidHeight, `pinched off ${(r.closureDepth * 1e9).toFixed(0)} nm below the top, trapping an opening up to ${((r.voidWidth / 1) * 1e9).toFixed(1)} nm wide`) : 0),
+);
+
+const closureDepth = fillQuantity(
+  {
+    name: 'fill.closure_depth',
+    title: 'Depth where the fill closes',
+    unit: 'm',
+    symbol: 'z_c',
+    description: 'Depth below the top where the opening pinches off (above a void), or where it closed last when the fill is void-free.',
+    source: MARCH,
+    assumptions: FILL_ASSUMPTIONS,
+  },
+  'z_c',
+  (r) => r.closureDepth,
+);
+
+const seamLength = fillQuantity(
+  {
+    name: 'fill.seam_length',
+    title: 'Seam length',
+    unit: 'm',
+    symbol: 'L_{seam}',
+    description: 'Length along which the growing walls met (a seam in the fill): the full depth for a conformal fill of a vertical trench, none for a fill that rises from the bottom.',
+    source: MARCH,
+    assumptions: FILL_ASSUMPTIONS,
+    better: 'lower',
+  },
+  'L_{seam} = \\sum \\Delta z \\text{ over slices closed by their walls}',
+  (r) => r.seamLength,
+);
+
+const maxFillable = fillQuantity(
+  {
+    name: 'fill.max_fillable_aspect_ratio',
+    title: 'Largest aspect ratio filled without a void',
+    unit: '1',
+    symbol: '\\mathrm{AR}_{max}',
+    description: 'Largest depth over top CD that this fill closes void-free, at the structure’s CD and sidewall angle (bisection on the depth, marching the fill at each).',
+    source: MARCH,
+    assumptions: FILL_ASSUMPTIONS,
+    better: 'higher',
+  },
+  '\\mathrm{AR}_{max} = \\max\\{D/\\mathrm{CD} : h_{void}(D) = 0\\}',
+  (_r, a, shape) => {
+    const cd = a.cd!;
+    const voids = (depth: number) => {
+      const r = fillOf(shape, a, depth);
+      return 'reason' in r || r.voidHeight > 0;
+    };
+    // The taper closes the opening at (CD/2)·tan θ: no deeper opening exists to fill.
+    const cot = Math.cos(a.angle!) / Math.sin(a.angle!);
+    const limit = cot > 1e-12 ? 0.999 * (cd / 2 / cot) : 1000 * cd;
+    let lo = 0.25 * cd;
+    if (voids(lo)) return noValue('this fill leaves a void even at an aspect ratio of 0.25');
+    let hi = Math.min(limit, 4 * a.depth!);
+    if (!voids(hi)) return noted(hi / cd, hi >= limit ? 'fills void-free down to where the taper closes' : 'fills void-free beyond four times the depth');
+    for (let i = 0; i < 24 && hi - lo > 1e-3 * cd; i++) {
+      const mid = (lo + hi) / 2;
+      if (voids(mid)) hi = mid;
+      else lo = mid;
+    }
+    return lo / cd;
+  },
+);
+
 export const depositionEngine: Engine = {
   id: 'deposition',
   title: 'Deposition: films in deep openings',
   summary: 'Step coverage of ALD, CVD and PVD film steps and the ALD exposure that saturates the opening (Gordon et al.), per film step.',
   quantities: [stepCoverage, aldRequired, aldMargin, coatedDepth],
+};
+
+/** Gap fill shares this folder's models; its quantities carry the `fill.` prefix of their own engine. */
+export const fillEngine: Engine = {
+  id: 'fill',
+  title: 'Fill: closing openings without voids',
+  summary: 'Gap fill marched in time (conformal, sticking-limited, bottom-up): void height, closure depth, seam length and the largest aspect ratio filled void-free.',
+  quantities: [voidHeight, closureDepth, seamLength, maxFillable],
 };
