@@ -3,6 +3,7 @@
 // Pure: the same handbook gives the same results, in the same order.
 import type { Param, Rule, Structure, Handbook, Comparison } from '../model/types.ts';
 import { QUANTITIES } from '../engines/index.ts';
+import type { Figure } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
 
 export type Status = 'pass' | 'fail' | 'incomplete' | 'not-applicable';
@@ -33,6 +34,8 @@ export interface TraceStep {
   reason?: string;
   /** How the value was reached (which case of the model applied). */
   note?: string;
+  /** Figure data for the report. */
+  figure?: Figure;
   /** Argument name → (symbol, value) actually used. */
   /** `null` where the input is a step that has no value. */
   args: Array<{ arg: string; symbol: string; from: string; value: number | null }>;
@@ -199,6 +202,7 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
       value,
       ...(value === null && run.reasons[i] ? { reason: run.reasons[i] } : {}),
       ...(run.notes[i] ? { note: run.notes[i] } : {}),
+      ...(run.figures[i] ? { figure: run.figures[i] } : {}),
       args,
       warnings,
     };

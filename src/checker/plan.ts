@@ -2,7 +2,7 @@
 // the steps that compute it from them, in dependency order. Plans are built once per structure and
 // quantity; running one is a loop over plain numbers, so corners and sampling stay cheap.
 import { QUANTITIES } from '../engines/index.ts';
-import type { Outcome, QuantityDef, Shape, Variant } from '../engines/quantity.ts';
+import type { Figure, Outcome, QuantityDef, Shape, Variant } from '../engines/quantity.ts';
 import type { Param, Structure } from '../model/types.ts';
 
 export type ArgSource = { param: number } | { step: number };
@@ -27,6 +27,8 @@ export interface Run {
   unbounded: Array<'above' | 'below' | undefined>;
   /** How a step's value was reached, when its engine says. */
   notes: Array<string | undefined>;
+  /** Figure data a step hands to the report. */
+  figures: Array<Figure | undefined>;
 }
 
 /** The shape facts of a structure that quantities branch on. */
@@ -105,6 +107,7 @@ export function runPlan(plan: Extract<Plan, { status: 'ready' }>, inputs: ArrayL
   const reasons: Array<string | undefined> = new Array(n);
   const unbounded: Array<'above' | 'below' | undefined> = new Array(n);
   const notes: Array<string | undefined> = new Array(n);
+  const figures: Array<Figure | undefined> = new Array(n);
   for (let i = 0; i < n; i++) {
     const step = plan.steps[i]!;
     const args: Record<string, number> = {};
@@ -137,11 +140,12 @@ export function runPlan(plan: Extract<Plan, { status: 'ready' }>, inputs: ArrayL
       values[i] = Number.isFinite(out.value) ? out.value : null;
       if (values[i] === null) reasons[i] = `the formula gave a non-finite result (${out.value}) for these inputs`;
       notes[i] = out.note;
+      figures[i] = out.figure;
     } else {
       values[i] = null;
       reasons[i] = out.reason;
       unbounded[i] = out.unbounded;
     }
   }
-  return { values, reasons, unbounded, notes };
+  return { values, reasons, unbounded, notes, figures };
 }

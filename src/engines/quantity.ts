@@ -18,7 +18,20 @@ export interface NoValue {
 export interface Noted {
   value: number;
   note: string;
+  /** Data for a figure the report draws beside the step (engines never draw). */
+  figure?: Figure;
 }
+
+/** Figures an engine can hand to the report, as plain data in SI. */
+export type Figure = {
+  type: 'profile-history';
+  elongated: boolean;
+  depth: number;
+  /** Opening widths at slice centres (top to bottom) at successive times, and the bottom's depth. */
+  frames: Array<{ time: number; widths: number[]; bottom: number }>;
+  /** Depth range of a trapped void, if any. */
+  void?: { from: number; to: number };
+};
 
 export type Outcome = number | NoValue | Noted;
 

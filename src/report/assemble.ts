@@ -9,6 +9,7 @@ import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Ru
 import { countsChart, marginChart, sweepChart, valueChart } from './charts.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
+import { renderFigure } from './figures.ts';
 import { displayScale, formatMargin, formatValue } from './format.ts';
 import { texToMathml } from './math.ts';
 import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from './words.ts';
@@ -116,6 +117,7 @@ export async function assembleReport(h: Handbook, results: Results) {
         valueText: st.value === null ? `no value: ${st.reason ?? ''}` : formatValue(st.value, st.unit),
         source: st.source,
         note: st.note ?? '',
+        figureSvg: st.figure ? renderFigure(st.figure) : '',
         warnings: st.warnings,
       })),
       sweepSvg: sweep?.svg ?? '',

@@ -80,6 +80,10 @@ describe('demo site', () => {
     expect(rule).toMatch(/<svg[^>]*role="img"/);
     const structure = readFileSync(join(out, 'structures', 'storage-node', 'index.html'), 'utf8');
     expect(structure).toContain('class="section"');
+    // The fill march hands its profile history to the report, drawn beside the step.
+    const fill = readFileSync(join(out, 'rules', 'ISO-FILL-1', 'periphery-isolation-trench', 'index.html'), 'utf8');
+    expect(fill).toMatch(/<svg class="figure"[^>]*aria-label="Fill profile/);
+    expect(fill).toContain('void ');
   });
 
   it('renders rationale markdown with raw HTML switched off', async () => {

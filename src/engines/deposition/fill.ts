@@ -31,6 +31,7 @@ export interface FillProblem {
 }
 
 export interface FillResult {
+  elongated: boolean;
   /** Height of the trapped void (0 when void-free). */
   voidHeight: number;
   /** Widest point of the void when it was trapped. */
@@ -158,6 +159,7 @@ export function marchFill(p: FillProblem): FillResult {
   let seam = 0;
   for (let i = 0; i < N; i++) if (!Number.isNaN(closedAt[i]!) && (voidFrom < 0 || i < voidFrom)) seam += dz;
   return {
+    elongated: p.elongated,
     voidHeight,
     voidWidth,
     closureDepth: voidFrom >= 0 ? (voidFrom - 0.5) * dz : lastClosure,

@@ -269,7 +269,17 @@ const voidHeight = fillQuantity(
     sweep: { input: () => 'geometry.depth', from: 0.25, to: 1.5, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
   },
   'h_{void} = z_{bottom,\\,open} - z_{pinch}',
-  (r) => (r.voidHeight > 0 ? noted(r.voidHeight, `pinched off ${(r.closureDepth * 1e9).toFixed(0)} nm below the top, trapping an opening up to ${((r.voidWidth / 1) * 1e9).toFixed(1)} nm wide`) : 0),
+  (r, a) => ({
+    value: r.voidHeight,
+    note: r.voidHeight > 0 ? `pinched off ${(r.closureDepth * 1e9).toFixed(0)} nm below the top, trapping an opening up to ${(r.voidWidth * 1e9).toFixed(1)} nm wide` : 'closes from the bottom up: no void',
+    figure: {
+      type: 'profile-history',
+      elongated: r.elongated,
+      depth: a.depth!,
+      frames: r.history,
+      ...(r.voidHeight > 0 ? { void: { from: r.closureDepth, to: r.closureDepth + r.voidHeight } } : {}),
+    },
+  }),
 );
 
 const closureDepth = fillQuantity(
