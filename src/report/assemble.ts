@@ -84,7 +84,7 @@ export async function assembleReport(h: Handbook, results: Results) {
     const rule = ruleById.get(v.rule)!;
     const s = structureById.get(v.structure)!;
     const t = v.trace;
-    const sweep = await sweepOf(v, s, plans);
+    const sweep = await sweepOf(v, s, plans, rule.film);
     verdictPages.push({
       ...row(v, rule, s),
       quantity: v.quantity,
@@ -279,7 +279,7 @@ const SWEEP_POINTS = 48;
  * The verdict's quantity against the input its declaration sweeps (the height, say), from the
  * deciding inputs: the same plan run at each point. Empty when the quantity declares no sweep.
  */
-async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ svg: string; caption: string } | null> {
+async function sweepOf(v: Verdict, s: Structure, plans: PlanCache, film?: string): Promise<{ svg: string; caption: string } | null> {
   const own = QUANTITIES.get(v.quantity);
   if (!own?.sweep || !v.trace || v.value === null) return null;
   // A quantity may chart another one's sweep (a fit residual shows the fitted curve).
@@ -287,9 +287,9 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache): Promise<{ sv
   const def = QUANTITIES.get(name);
   if (!def?.sweep) return null;
   const sweep = { ...def.sweep, ...own.sweep };
-  const plan = plans.get(s, name);
+  const plan = plans.get(s, name, film);
   if (plan.status !== 'ready') return null;
-  const inputName = sweep.input(shapeOf(s));
+  const inputName = sweep.input(shapeOf(s, film));
   const idx = plan.params.findIndex((p) => p.name === inputName);
   if (idx < 0) return null;
   // The deciding inputs of the verdict where the plans share them, nominal values otherwise.

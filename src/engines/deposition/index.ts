@@ -122,6 +122,7 @@ const stepCoverage = stepQuantity(
     assumptions: ['Vertical-walled opening of the narrowest (bottom) width; for a hollow cylinder, its inside.', 'CVD: quasi-steady, first-order wall reaction, free-molecular (Knudsen) transport, reacting bottom. PVD: sticking 1, no re-emission.'],
     validity: [{ arg: 'sticking', max: 0.1, why: 'the diffusion–reaction model assumes a small sticking probability (s ≪ 1); above about 0.1 it overstates the coverage.' }],
     better: 'higher',
+    sweep: { input: () => 'geometry.depth', from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
   },
   undefined,
   (film, method): Record<string, string> => (method === 'ald' ? aldInputs(film) : method === 'cvd' ? { sticking: `deposition.${film}.sticking_probability` } : {}),
@@ -171,7 +172,17 @@ const aldMargin = stepQuantity(
     description: 'Exposure the recipe gives over the exposure needed to saturate the opening: at least 1 for a film that reaches the bottom.',
     source: GORDON,
     better: 'higher',
-    sweep: { input: () => 'geometry.depth', from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / (p['geometry.cd'] ?? depth) } },
+    sweep: {
+      input: (shape) => (shape.kind === 'cylinder' ? 'geometry.height' : 'geometry.depth'),
+      from: 0.25,
+      to: 2,
+      axis: {
+        label: 'aspect ratio',
+        unit: '1',
+        // Depth over top CD; inside a cup, (H − t_w)/(CD − 2t_w).
+        map: (x, p) => (p['geometry.wall'] !== undefined ? (x - p['geometry.wall']) / (p['geometry.cd']! - 2 * p['geometry.wall']) : x / p['geometry.cd']!),
+      },
+    },
   },
   ['ald'],
   (film) => aldInputs(film),
