@@ -679,7 +679,13 @@ export function loadHandbook(root: string): LoadResult {
   checkDuplicates(ruleIds, out);
   // Rules that name structures must name real ones.
   const ids = structures.map((s) => s.id);
+  const filmNames = [...new Set(structures.flatMap((x) => x.deposition?.films.map((f) => f.film) ?? []))].sort();
   for (const { rule, report, pointer } of ruleSources) {
+    if (rule.film !== undefined) {
+      const def = QUANTITIES.get(rule.quantity);
+      if (!def?.steps) report.add('bad-value', `${pointer}/film`, { expected: `no film: ${rule.quantity} is not a quantity of one film step`, found: `"${rule.film}"` }, 'key');
+      else if (!filmNames.includes(rule.film)) report.add('bad-value', `${pointer}/film`, { expected: `the film name of a deposition step in this handbook${filmNames.length ? ` (${filmNames.join(', ')})` : ''}`, found: `"${rule.film}"`, suggestions: suggest(rule.film, filmNames) });
+    }
     (rule.appliesTo.structures ?? []).forEach((sid, i) => {
       if (!ids.includes(sid)) {
         report.add('bad-value', `${pointer}/applies_to/structures/${i}`, { expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids) });

@@ -206,6 +206,13 @@ describe('the demo handbook, verdict by verdict', () => {
     return 1 / (Math.cosh(phi) + (Math.sqrt(3 * s) / 4) * Math.sinh(phi));
   };
   const discs = (X: number) => (2 + X * X - X * Math.sqrt(X * X + 4)) / 2;
+  const snDielectric = () => {
+    const base = 34 - 2 * 1900 * tanDeg(0.2);
+    const floor = base + ((34 - base) * 7) / 1900 - 14;
+    const a = 1893 / floor;
+    const flat = 2.5e18 * Math.sqrt(2 * Math.PI * (0.33 / 6.02214076e23) * 1.380649e-23 * 553.15);
+    return 40 / (flat * (1 + (19 / 4) * a + 1.5 * a * a));
+  };
   const WATER = 0.07197; // IAPWS R1-76 at 25 °C
   const IPA = 0.0209; // CRC Handbook, 25 °C (from memory)
   const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number]]> = [
@@ -267,17 +274,19 @@ describe('the demo handbook, verdict by verdict', () => {
     ['ISO-LAG-1', 'cell-isolation-trench', 'fail', [0.2, 1]],
     // Cell trench depth in 4 min: above the 250 nm limit, below the open-field 4 × 150 = 600 nm.
     ['ISO-DEPTH-1', 'cell-isolation-trench', 'pass', [250 * nm, 600 * nm]],
-    // Storage-node dielectric (ALD, Gordon et al. 2003) inside the cup, worst corner: height 1.94 µm,
-    // wall 7.5 nm, CD 32.5 nm → depth 1932.5 nm over width 17.5 nm, a = 110.43;
-    // flat dose S·√(2πmkT) with S = 2.5e18, M = 330 g/mol, T = 553.15 K; margin = 5 Pa·s / required.
-    ['SN-DIEL-1', 'storage-node', 'fail', 5 / (2.5e18 * Math.sqrt(2 * Math.PI * (0.33 / 6.02214076e23) * 1.380649e-23 * 553.15) * (1 + (19 / 4) * (1932.5 / 17.5) + 1.5 * (1932.5 / 17.5) ** 2))],
+    // Storage-node dielectric (ALD, Gordon et al. 2003) inside the cup at nominal: the re-entrant
+    // node's base is 34 − 2·1900·tan 0.2° = 20.7354 nm; the cup floor, one wall (7 nm) up, is
+    // 20.7354 + (34 − 20.7354)·7/1900 − 14 = 6.7843 nm wide, 1893 nm down: a = 279.03.
+    // Flat dose S·√(2πmkT) with S = 2.5e18, M = 330 g/mol, T = 553.15 K; margin = 40 Pa·s / required.
+    ['SN-DIEL-1', 'storage-node', 'fail', snDielectric()],
     // Trench liner (CVD, s = 0.0008), worst corner: bottom 22 − 2·240·tan 1.8° = 6.915 nm, d = 2w:
     // φ = √(3s)·L/(2w); coverage 1/(cosh φ + (√(3s)/4)·sinh φ).
     ['ISO-LINER-1', 'cell-isolation-trench', 'pass', cvd(0.0008, 240, 2 * (22 - 2 * 240 * tanDeg(1.8)))],
     // Via liner (CVD, s = 0.001), worst corner: bottom 7.7 − 2·112·tan 0.4° = 6.136 µm.
     ['TSV-LINER-1', 'package-tsv', 'pass', cvd(0.001, 112, 7.7 - 2 * 112 * tanDeg(0.4))],
-    // Via seed (PVD): coaxial discs, X = 2L/d at the same corner: [(2 + X²) − X√(X² + 4)]/2.
-    ['TSV-SEED-1', 'package-tsv', 'fail', discs((2 * 112) / (7.7 - 2 * 112 * tanDeg(0.4)))],
+    // Via seed (PVD) after the 200 nm liner narrows the bottom by 0.4 µm: coaxial discs,
+    // X = 2L/d at the same corner: [(2 + X²) − X√(X² + 4)]/2.
+    ['TSV-SEED-1', 'package-tsv', 'fail', discs((2 * 112) / (7.7 - 2 * 112 * tanDeg(0.4) - 0.4))],
     // Fill (profile march, test/engines/deposition.test.ts): the tapered cell trench with its
     // low-sticking oxide closes from the bottom; the wide periphery trench with the high-rate oxide
     // traps a void (the march's own result; a void at all is what fails the 0 nm limit).

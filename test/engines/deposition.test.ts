@@ -160,19 +160,37 @@ describe('film steps of a structure', () => {
 
   it('lists a quantity every step has once per step, by film name', () => {
     expect(Object.keys(q).filter((k) => k.startsWith('deposition.step_coverage')).sort()).toEqual(['deposition.step_coverage[dielectric]', 'deposition.step_coverage[electrode]']);
-    // CVD electrode: φ = √0.015 · 40 = 4.899; 1/(cosh φ + (√0.015/4)·sinh φ) (hand formula).
-    const phi = Math.sqrt(0.015) * 40;
+    // CVD electrode after the 5 nm dielectric narrows the hole to 60 − 10 = 50 nm:
+    // φ = √0.015 · 2400/50 = 5.879; 1/(cosh φ + (√0.015/4)·sinh φ) (hand formula).
+    const phi = Math.sqrt(0.015) * (2400 / 50);
     expectRel(q['deposition.step_coverage[electrode]']?.value, 1 / (Math.cosh(phi) + (Math.sqrt(0.015) / 4) * Math.sinh(phi)), 9);
   });
 
-  it('lets a rule pick a step with film, and refuses to guess among several', () => {
+  it('lets a rule pick a step with film, and never guesses among several (incomplete, not a pass)', () => {
     const pick = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5, film: 'dielectric' }), s, new PlanCache());
     expect(pick.status).toBe('pass');
     const guess = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5 }), s, new PlanCache());
-    expect(guess.status).toBe('not-applicable');
-    expect(guess.reason).toMatch(/several film steps/);
+    expect(guess.status).toBe('incomplete');
+    expect(guess.missing?.join(' ')).toMatch(/film \(one of dielectric, electrode\)/);
     const missing = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5, film: 'barrier' }), s, new PlanCache());
-    expect(missing.status).toBe('not-applicable');
+    expect(missing.status).toBe('incomplete');
+  });
+
+  it('refuses at load a film name no structure has, and a film on a quantity without film steps', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'plumbline-film-'));
+    cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+    writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), HOLE);
+    writeFileSync(
+      join(dir, 'rules', 'rules.yaml'),
+      '- id: F-1\n  title: t\n  applies_to: {}\n  quantity: deposition.step_coverage\n  film: dielectrc\n  at_least: 0.5\n- id: F-2\n  title: t\n  applies_to: {}\n  quantity: geometry.aspect_ratio\n  film: dielectric\n  at_most: 50\n',
+    );
+    const r = loadHandbook(dir);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.diagnostics).toEqual([
+      expect.objectContaining({ code: 'bad-value', field: '[0].film', line: 5, suggestions: ['dielectric'] }),
+      expect.objectContaining({ code: 'bad-value', field: '[1].film', line: 11 }),
+    ]);
   });
 
   it('coats the inside of a hollow cylinder: depth H − t_w, width CD − 2t_w', () => {

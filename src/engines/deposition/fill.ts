@@ -31,6 +31,8 @@ export interface FillProblem {
 }
 
 export interface FillResult {
+  /** False when the march hit its step limit before closing (the result is then not used). */
+  converged: boolean;
   elongated: boolean;
   /** Height of the trapped void (0 when void-free). */
   voidHeight: number;
@@ -40,7 +42,7 @@ export interface FillResult {
   closureDepth: number;
   /** Length along which the walls met (a seam, not a void). */
   seamLength: number;
-  /** Time to close, in units of (top width / growth rate). */
+  /** Time to close, in units of (half the top width / growth rate). */
   closureTime: number;
   /** Widths along the depth at a few moments, for the cross-section. */
   history: Array<{ time: number; widths: number[]; bottom: number }>;
@@ -85,8 +87,8 @@ export function concentration(p: FillProblem, widths: number[], dz: number, open
   return x.map((v) => Math.max(0, Math.min(1, v)));
 }
 
-/** Trapped openings narrower than this fraction of the top CD are counted as seams, not voids. */
-export const VOID_WIDTH = 0.05;
+/** Trapped openings narrower than this (1 nm: a few atomic layers) are counted as seams, not voids. */
+export const VOID_MIN_WIDTH = 1e-9;
 
 export function marchFill(p: FillProblem): FillResult {
   const N = p.slices ?? 200;
@@ -99,6 +101,7 @@ export function marchFill(p: FillProblem): FillResult {
   let voidFrom = -1;
   let voidTo = -1;
   let voidWidth = 0;
+  let converged = true;
   let lastClosure = 0;
   let t = 0;
   const history: FillResult['history'] = [{ time: 0, widths: widths.slice(), bottom: bottomDepth }];
@@ -116,8 +119,8 @@ export function marchFill(p: FillProblem): FillResult {
         while (from <= deepest && !(widths[from]! > 0)) from++;
         let widest = 0;
         for (let i = from; i <= deepest; i++) widest = Math.max(widest, widths[i]!);
-        // A sliver narrower than VOID_WIDTH of the top CD closes as a seam, not a void.
-        if (widest >= VOID_WIDTH * p.cd) {
+        // A sliver narrower than VOID_MIN_WIDTH closes as a seam, not a void.
+        if (widest >= VOID_MIN_WIDTH) {
           voidFrom = from;
           voidTo = deepest;
           voidWidth = widest;
@@ -142,7 +145,9 @@ export function marchFill(p: FillProblem): FillResult {
     }
     if (!(maxRate > 0)) break;
     // Small steps while the narrowest slice is wide, never less than a thousandth of the top CD.
-    const dt = Math.max(1e-3 * p.cd, Math.min(0.25 * minW, 0.02 * p.cd)) / (2 * maxRate);
+    let dt = Math.max(1e-3 * p.cd, Math.min(0.25 * minW, 0.02 * p.cd)) / (2 * maxRate);
+    // The rising bottom may cross at most half a slice per step.
+    if (bottomRate > 0) dt = Math.min(dt, (0.5 * dz) / bottomRate);
     for (let i = 0; i <= column; i++) {
       widths[i] = widths[i]! - 2 * rate[i]! * dt;
       if (!(widths[i]! > 0) && Number.isNaN(closedAt[i]!)) {
@@ -152,17 +157,23 @@ export function marchFill(p: FillProblem): FillResult {
     }
     bottomDepth = Math.max(0, bottomDepth - bottomRate * dt);
     t += dt;
-    if (iter % 25 === 0) history.push({ time: t, widths: widths.map((w) => Math.max(0, w)), bottom: bottomDepth });
+    if (iter % 25 === 0) {
+      history.push({ time: t, widths: widths.map((w) => Math.max(0, w)), bottom: bottomDepth });
+      // Keep at most 40 frames: drop every other one when it grows past that.
+      if (history.length > 40) for (let k = history.length - 2; k > 0; k -= 2) history.splice(k, 1);
+    }
+    if (iter === 200_000 - 1) converged = false;
   }
   history.push({ time: t, widths: widths.map((w) => Math.max(0, w)), bottom: bottomDepth });
   const voidHeight = voidFrom >= 0 ? (voidTo - voidFrom + 1) * dz : 0;
   let seam = 0;
   for (let i = 0; i < N; i++) if (!Number.isNaN(closedAt[i]!) && (voidFrom < 0 || i < voidFrom)) seam += dz;
   return {
+    converged,
     elongated: p.elongated,
     voidHeight,
     voidWidth,
-    closureDepth: voidFrom >= 0 ? (voidFrom - 0.5) * dz : lastClosure,
+    closureDepth: voidFrom >= 0 ? voidFrom * dz : lastClosure,
     seamLength: seam,
     closureTime: (2 * t) / p.cd,
     history,

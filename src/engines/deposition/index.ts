@@ -4,8 +4,8 @@
 // quantity of one step takes the step a rule names with `film`, or the only step there is.
 import { isElongated, isOpening, type DepositionMethod } from '../../model/types.ts';
 import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
-import { bottomCd } from '../geometry/index.ts';
-import { marchFill, VOID_WIDTH, type FillResult } from './fill.ts';
+import { bottomCd, cavity } from '../geometry/index.ts';
+import { marchFill, VOID_MIN_WIDTH, type FillResult } from './fill.ts';
 import {
   aldAspectRatio,
   aldRequiredExposure,
@@ -24,26 +24,39 @@ function stepOf(shape: Shape, methods?: DepositionMethod[]): { film: string; met
   if (!shape.deposition) return { incomplete: ['deposition'] };
   if (shape.film !== undefined) {
     const f = shape.deposition.films.find((x) => x.film === shape.film);
-    if (!f) return { notApplicable: `the structure has no film step "${shape.film}"` };
+    if (!f) return { incomplete: [`deposition.${shape.film}`] };
     if (methods && !methods.includes(f.method)) return { notApplicable: `film step "${shape.film}" is ${f.method}, not ${methods.join(' or ')}` };
     return f;
   }
   if (films.length === 1) return films[0]!;
   if (films.length === 0) return { notApplicable: `no ${methods?.join(' or ') ?? ''} film step`.replace('  ', ' ') };
-  return { notApplicable: `several film steps (${films.map((f) => f.film).join(', ')}): name one with the rule's film field` };
+  // Several steps and no choice: the rule must name one (incomplete, never a guess).
+  return { incomplete: [`film (one of ${films.map((f) => f.film).join(', ')})`] };
 }
 
-/** The opening a film lines: the hole, via or trench itself, or the inside of a hollow cylinder. */
-function openingInputs(shape: Shape): Record<string, string> | null {
-  if (isOpening(shape.kind)) return { depth: 'geometry.depth', width: 'geometry.bottom_cd' };
-  if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', wall: 'geometry.wall' };
+/**
+ * The opening a film lines: the hole, via or trench itself, or the inside of a hollow cylinder;
+ * and the thicknesses of the film steps before `film`, which narrow it first.
+ */
+function openingInputs(shape: Shape, film?: string): Record<string, string> | null {
+  const earlier: Record<string, string> = {};
+  const films = shape.deposition?.films ?? [];
+  const upTo = film === undefined ? films.length : films.findIndex((f) => f.film === film);
+  films.slice(0, Math.max(0, upTo)).forEach((f, i) => (earlier[`prior_${i + 1}`] = `deposition.${f.film}.thickness`));
+  if (isOpening(shape.kind)) return { depth: 'geometry.depth', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', ...earlier };
+  if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', wall: 'geometry.wall', ...earlier };
   return null;
 }
 
-/** Depth and narrowest width of the opening to coat, from the inputs of openingInputs. */
+/** Depth and narrowest width of the opening left to coat, from the inputs of openingInputs. */
 function opening(a: Record<string, number>): { depth: number; width: number } {
-  if (a.depth !== undefined) return { depth: a.depth, width: a.width! };
-  return { depth: a.height! - a.wall!, width: a.cd! - 2 * a.wall! };
+  let narrowed = 0;
+  for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
+  if (a.depth !== undefined) return { depth: a.depth, width: Math.min(a.cd!, a.bottom!) - narrowed };
+  // Inside a cup: the cavity of the geometry engine (its floor one wall above the base).
+  const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
+  if ('reason' in c) return { depth: 0, width: 0 };
+  return { depth: c.depth, width: Math.min(c.top, c.bottom) - narrowed };
 }
 
 const SYMBOLS: Record<string, string> = {
@@ -72,10 +85,10 @@ function stepQuantity(
     ...def,
     steps: (shape) => (shape.deposition?.films ?? []).filter((f) => !methods || methods.includes(f.method)).map((f) => f.film),
     variant: (shape): Variant | { notApplicable: string } | { incomplete: string[] } => {
-      const geo = openingInputs(shape);
-      if (!geo) return { notApplicable: 'films line openings (hole, trench, via) and the inside of hollow cylinders' };
+      if (!openingInputs(shape)) return { notApplicable: 'films line openings (hole, trench, via) and the inside of hollow cylinders' };
       const step = stepOf(shape, methods);
       if (!('film' in step)) return step;
+      const geo = openingInputs(shape, step.film)!;
       const elongated = isElongated(shape.kind);
       return variant({
         label: `${step.film} (${step.method})`,
@@ -138,8 +151,8 @@ const stepCoverage = stepQuantity(
     const o = opening(a);
     if (o.width <= 0 || o.depth <= 0) return noValue('the opening has no width or depth left to coat');
     if (method === 'ald') {
-      const f = saturatedFraction(a, elongated);
-      return f >= 1 ? 1 : noted(0, `the dose saturates only the top ${(f * 100).toFixed(0)} % of the depth`);
+      if (a.exposure! >= required(a, elongated)) return 1;
+      return noted(0, `the dose saturates only the top ${(saturatedFraction(a, elongated) * 100).toFixed(0)} % of the depth`);
     }
     if (method === 'cvd') return cvdStepCoverage(a.sticking!, o.depth, elongated ? 2 * o.width : o.width);
     return elongated ? pvdTrenchBottomAverage(o.depth / o.width) : pvdHoleBottomAverage(o.depth / o.width);
@@ -212,6 +225,7 @@ const MARCH = 'Profile marched in time with the local growth rate (conformal; st
 
 function fillInputs(shape: Shape): Record<string, string> {
   const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle' };
+  (shape.deposition?.films ?? []).forEach((f, i) => (inputs[`prior_${i + 1}`] = `deposition.${f.film}.thickness`));
   if (shape.fill?.method === 'sticking-limited') inputs.sticking = 'fill.sticking_probability';
   if (shape.fill?.method === 'bottom-up') inputs.ratio = 'fill.bottom_up_ratio';
   return inputs;
@@ -224,20 +238,25 @@ export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!
   const key = JSON.stringify([shape.kind, shape.fill?.method, a, depth]);
   const hit = fillMemo.get(key);
   if (hit) return hit;
-  const bottom = bottomCd(a.cd!, depth, a.angle!, true);
-  const result: FillResult | NoValue =
-    bottom <= 0
-      ? noValue('the tapered opening closes before its bottom: there is nothing to fill below that')
+  // Film steps before the fill narrow the opening by their thickness on each wall.
+  let narrowed = 0;
+  for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
+  const top = a.cd! - narrowed;
+  const bottom = bottomCd(a.cd!, depth, a.angle!, true) - narrowed;
+  const march =
+    bottom <= 0 || top <= 0
+      ? noValue('the opening closes before its bottom (taper or earlier films): there is nothing to fill below that')
       : marchFill({
           elongated: isElongated(shape.kind),
-          cd: a.cd!,
+          cd: top,
           depth,
           bottom,
           method: shape.fill!.method,
           ...(a.sticking !== undefined ? { sticking: a.sticking } : {}),
           ...(a.ratio !== undefined ? { ratio: a.ratio } : {}),
         });
-  if (fillMemo.size > 256) fillMemo.clear();
+  const result: FillResult | NoValue = 'reason' in march || march.converged ? march : noValue('the fill march did not close within its step limit');
+  if (fillMemo.size > 64) fillMemo.clear();
   fillMemo.set(key, result);
   return result;
 }
@@ -263,7 +282,7 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
 }
 
 const FILL_ASSUMPTIONS = [
-  `Straight sidewalls; growth normal to the wall taken as horizontal; ${200} slices over the depth. A trapped opening narrower than ${VOID_WIDTH * 100} % of the top CD counts as a seam, not a void.`,
+  `Straight sidewalls; growth normal to the wall taken as horizontal; ${200} slices over the depth. A trapped opening narrower than ${VOID_MIN_WIDTH * 1e9} nm counts as a seam, not a void. Earlier film steps narrow the opening by their full thickness.`,
   'Sticking-limited growth: quasi-steady Knudsen diffusion with first-order wall reaction, recomputed as the opening narrows.',
 ];
 
@@ -344,9 +363,9 @@ const maxFillable = fillQuantity(
     const cot = Math.cos(a.angle!) / Math.sin(a.angle!);
     const limit = cot > 1e-12 ? 0.999 * (cd / 2 / cot) : 1000 * cd;
     let lo = 0.25 * cd;
-    if (voids(lo)) return noValue('this fill leaves a void even at an aspect ratio of 0.25');
+    if (voids(lo)) return noValue('this fill leaves a void (or the opening closes) even at an aspect ratio of 0.25');
     let hi = Math.min(limit, 4 * a.depth!);
-    if (!voids(hi)) return noted(hi / cd, hi >= limit ? 'fills void-free down to where the taper closes' : 'fills void-free beyond four times the depth');
+    if (!voids(hi)) return noted(hi / cd, hi >= limit ? (cot > 1e-12 ? 'fills void-free down to where the taper closes (the recipe is not the limit)' : 'fills void-free far beyond the structure’s depth') : 'fills void-free beyond four times the depth');
     for (let i = 0; i < 24 && hi - lo > 1e-3 * cd; i++) {
       const mid = (lo + hi) / 2;
       if (voids(mid)) hi = mid;
