@@ -224,7 +224,14 @@ export async function assembleReport(h: Handbook, results: Results) {
         return {
           status: scopedCell ? v.status : 'out-of-scope',
           advisory: scopedCell && v.status === 'fail' && v.severity === 'advisory',
-          short: !scopedCell ? '' : v.status === 'fail' ? `✗ ${formatMargin(v.margin)}` : v.status === 'pass' ? formatMargin(v.margin) : v.status === 'incomplete' ? '?' : 'n/a',
+          // The margin when there is one (a zero limit or an unbounded value has none).
+          short: !scopedCell
+            ? ''
+            : v.status === 'fail'
+              ? v.margin === null ? '✗' : `✗ ${formatMargin(v.margin)}`
+              : v.status === 'pass'
+                ? v.margin === null ? '✓' : formatMargin(v.margin)
+                : v.status === 'incomplete' ? '?' : 'n/a',
           url: scopedCell ? urls.verdict(r.id, s.id) : '',
           label: `${r.id} on ${s.id}: ${scopedCell ? STATUS_WORDS[v.status] : 'outside the rule’s scope'}${v.margin !== null ? `, margin ${formatMargin(v.margin)}` : ''}`,
         };
