@@ -43,3 +43,20 @@ export function integrate(f: (x: number) => number, a: number, b: number, panels
   }
   return (sum * h) / 2;
 }
+
+/**
+ * Solve a tridiagonal system in place (Thomas algorithm): a is the sub-diagonal (a[0] unused),
+ * b the diagonal, c the super-diagonal, r the right-hand side.
+ */
+export function solveTridiagonal(a: Float64Array, b: Float64Array, c: Float64Array, r: Float64Array): number[] {
+  const n = b.length;
+  for (let i = 1; i < n; i++) {
+    const w = a[i]! / b[i - 1]!;
+    b[i] = b[i]! - w * c[i - 1]!;
+    r[i] = r[i]! - w * r[i - 1]!;
+  }
+  const x = new Array<number>(n);
+  x[n - 1] = r[n - 1]! / b[n - 1]!;
+  for (let i = n - 2; i >= 0; i--) x[i] = (r[i]! - c[i]! * x[i + 1]!) / b[i]!;
+  return x;
+}

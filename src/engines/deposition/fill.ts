@@ -14,6 +14,8 @@
 // still open below the first slice that closes is cut off from the precursor: a void. Slices
 // closed by their walls meeting (rather than by the rising bottom) form the seam.
 
+import { solveTridiagonal } from '../numeric.ts';
+
 export type FillMethod = 'conformal' | 'sticking-limited' | 'bottom-up';
 
 export interface FillProblem {
@@ -76,14 +78,7 @@ export function concentration(p: FillProblem, widths: number[], dz: number, open
       b[i] = b[i]! - face / dz;
     }
   }
-  for (let i = 1; i < n; i++) {
-    const m = a[i]! / b[i - 1]!;
-    b[i] = b[i]! - m * c[i - 1]!;
-    r[i] = r[i]! - m * r[i - 1]!;
-  }
-  const x = new Array<number>(n);
-  x[n - 1] = r[n - 1]! / b[n - 1]!;
-  for (let i = n - 2; i >= 0; i--) x[i] = (r[i]! - c[i]! * x[i + 1]!) / b[i]!;
+  const x = solveTridiagonal(a, b, c, r);
   return x.map((v) => Math.max(0, Math.min(1, v)));
 }
 

@@ -15,6 +15,8 @@
 //   configuration (view) factors of coaxial discs and parallel strips (Howell, Mengüç & Siegel,
 //   Thermal Radiation Heat Transfer, view-factor catalogue).
 
+import { solveTridiagonal } from '../numeric.ts';
+
 export const BOLTZMANN = 1.380649e-23; // J/K, exact (SI 2019)
 export const AVOGADRO = 6.02214076e23; // 1/mol, exact (SI 2019)
 
@@ -67,16 +69,7 @@ export function cvdProfile(sticking: number, depth: number, diameter: number, re
   // Bottom: ghost node from n′ = −robin·n: n_{N} = n_{N−2} − 2h·robin·n_{N−1}.
   a[n - 1] = 2;
   b[n - 1] = -2 - k2 * h * h - 2 * h * robin;
-  // Thomas algorithm.
-  for (let i = 1; i < n; i++) {
-    const w = a[i]! / b[i - 1]!;
-    b[i] = b[i]! - w * c[i - 1]!;
-    r[i] = r[i]! - w * r[i - 1]!;
-  }
-  const x = new Array<number>(n);
-  x[n - 1] = r[n - 1]! / b[n - 1]!;
-  for (let i = n - 2; i >= 0; i--) x[i] = (r[i]! - c[i]! * x[i + 1]!) / b[i]!;
-  return x;
+  return solveTridiagonal(a, b, c, r);
 }
 
 /** PVD: fraction of the flux entering a round hole of aspect ratio A that lands at the bottom centre (per area, relative to the top). */
