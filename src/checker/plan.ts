@@ -40,6 +40,7 @@ export function shapeOf(structure: Structure, film?: string): Shape {
     ...(structure.etch ? { etch: structure.etch } : {}),
     ...(structure.deposition ? { deposition: structure.deposition } : {}),
     ...(structure.fill ? { fill: structure.fill } : {}),
+    ...(structure.cell ? { cell: structure.cell } : {}),
     ...(film !== undefined ? { film } : {}),
   };
 }

@@ -1,6 +1,6 @@
 // What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
 // the report read only these declarations, never a specific engine.
-import type { ArrayLayout, DepositionShape, DryingShape, EtchShape, FillShape, Kind } from '../model/types.ts';
+import type { ArrayLayout, CellShape, DepositionShape, DryingShape, EtchShape, FillShape, Kind } from '../model/types.ts';
 
 /** A result that has no finite value for this structure, with the reason shown to the reader. */
 export interface NoValue {
@@ -51,6 +51,7 @@ export interface Shape {
   etch?: EtchShape;
   deposition?: DepositionShape;
   fill?: FillShape;
+  cell?: CellShape;
   /** The film step a rule (or a per-step listing) selects, for quantities of one film step. */
   film?: string;
 }

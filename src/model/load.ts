@@ -10,14 +10,16 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
   isElongated,
   isOpening,
+  type CellShape,
   type DepositionShape,
   type DryingShape,
+  type ElectrodeSurface,
   type FillShape,
   type EtchShape,
   type ArrayLayout,
@@ -292,7 +294,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
@@ -307,6 +309,10 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                   ? ['film', 'method', ...Object.keys(DEPOSITION_PARAMS)]
                   : ptr === '/fill'
                     ? ['method', ...Object.keys(FILL_PARAMS)]
+                    : ptr === '/cell'
+                      ? ['dielectric', 'electrode_surfaces', ...Object.keys(CELL_PARAMS)]
+                      : ptr === '/cell/dielectric'
+                        ? ['material', ...Object.keys(CELL_DIELECTRIC_PARAMS)]
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -381,6 +387,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
   }
 
+  const cell = isMapping(raw.cell) ? readCell(report, raw.cell, kindKnown ? kind : undefined, params, materials) : undefined;
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
   const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
   const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
@@ -406,6 +413,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     ...(etch ? { etch } : {}),
     ...(deposition ? { deposition } : {}),
     ...(fill ? { fill } : {}),
+    ...(cell ? { cell } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -542,6 +550,39 @@ function readDeposition(report: FileReport, steps: unknown[], kind: Kind | undef
     films.push({ film: step.film, method: step.method as DepositionShape['films'][number]['method'] });
   });
   return { films };
+}
+
+/** The `cell:` block: dielectric (a material, with inline overrides), electrode surfaces, circuit numbers. */
+function readCell(report: FileReport, c: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>, materials: Map<string, Material>): CellShape | undefined {
+  if (kind && kind !== 'cylinder') {
+    report.add('unknown-field', '/cell', { expected: `a cell block only on a hollow cylinder (the storage electrode), not on a ${kind}` }, 'key');
+    return undefined;
+  }
+  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
+  for (const [name, spec] of Object.entries(CELL_PARAMS)) {
+    if (c[name] === undefined) continue;
+    const r = readValue(report, `/cell/${name}`, c[name], spec);
+    if (r) params.set(`cell.${name}`, { name: `cell.${name}`, ...r, unit: spec.unit, origin: handbook(`/cell/${name}`) });
+  }
+  if (isMapping(c.dielectric)) {
+    const d = c.dielectric;
+    if (typeof d.material === 'string') {
+      const m = materials.get(d.material);
+      if (!m) report.add('unknown-material', '/cell/dielectric/material', { found: d.material, suggestions: suggest(d.material, [...materials.keys()]) });
+      else if (m.properties.dielectric_constant) {
+        const k = m.properties.dielectric_constant;
+        params.set('cell.dielectric_dielectric_constant', { name: 'cell.dielectric_dielectric_constant', value: k.value, unit: '1', written: k.written, origin: { type: 'material-table', material: d.material, source: k.source, pos: report.pos('/cell/dielectric/material') } });
+      }
+    }
+    for (const [name, spec] of Object.entries(CELL_DIELECTRIC_PARAMS)) {
+      if (d[name] === undefined) continue;
+      const pointer = `/cell/dielectric/${name}`;
+      const r = readValue(report, pointer, d[name], spec);
+      if (r) params.set(`cell.dielectric_${name}`, { name: `cell.dielectric_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
+    }
+  }
+  const surfaces = Array.isArray(c.electrode_surfaces) ? (c.electrode_surfaces.filter((x) => typeof x === 'string') as ElectrodeSurface[]) : [];
+  return { surfaces };
 }
 
 function rulesFromFile(loaded: Loaded): LocatedRule[] {

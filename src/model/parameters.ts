@@ -75,6 +75,22 @@ export const FILL_PARAMS: Record<string, ParamSpec> = {
   bottom_up_ratio: { unit: '1', description: 'Growth rate of the bottom over that of the sidewalls (bottom-up fill).', min: 0, exclusiveMin: true },
 };
 
+/** Inputs of a `cell:` block (the storage cell a standing cylinder is the electrode of). */
+export const CELL_PARAMS: Record<string, ParamSpec> = {
+  bitline_capacitance: { unit: 'F', description: 'Capacitance of the bit line the cell shares its charge with.', min: 0, exclusiveMin: true },
+  array_voltage: { unit: 'V', description: 'Voltage of a stored 1 (the array supply).', min: 0, exclusiveMin: true },
+  precharge: { unit: '1', description: 'Bit-line precharge level as a fraction of the array voltage (50% for half-supply precharge).', min: 0, max: 1 },
+  required_signal: { unit: 'V', description: 'Smallest bit-line signal the sense amplifier reads reliably.', min: 0, exclusiveMin: true },
+  leakage_current: { unit: 'A', description: 'Leakage current draining the stored charge.', min: 0 },
+  refresh_interval: { unit: 's', description: 'Time between refreshes.', min: 0 },
+};
+
+/** Inputs of the cell's `dielectric:` (`cell.dielectric_<name>`). */
+export const CELL_DIELECTRIC_PARAMS: Record<string, ParamSpec> = {
+  thickness: { unit: 'm', description: 'Physical thickness of the capacitor dielectric.', min: 0, exclusiveMin: true },
+  dielectric_constant: { unit: '1', description: 'Relative permittivity of the capacitor dielectric.', min: 1 },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -95,6 +111,7 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
   if (block === 'deposition' && b) return DEPOSITION_PARAMS[b];
   if (block === 'fill' && a) return FILL_PARAMS[a];
+  if (block === 'cell' && a) return a.startsWith('dielectric_') ? CELL_DIELECTRIC_PARAMS[a.slice('dielectric_'.length)] : CELL_PARAMS[a];
   if (block === 'etch' && a) {
     if (a.startsWith('calibration_')) return CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')];
     if (a.startsWith('ion_')) return ION_PARAMS[a.slice(4)];

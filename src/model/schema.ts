@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -80,6 +80,21 @@ export function structureSchema(): JsonSchema {
             method: { type: 'string', enum: ['ald', 'cvd', 'pvd'] },
             ...propertiesFrom(DEPOSITION_PARAMS),
           },
+        },
+      },
+      cell: {
+        type: 'object',
+        description: 'The storage cell a hollow cylinder is the bottom electrode of.',
+        additionalProperties: false,
+        required: ['dielectric', 'electrode_surfaces'],
+        properties: {
+          dielectric: {
+            type: 'object',
+            additionalProperties: false,
+            properties: { material: { type: 'string' }, ...propertiesFrom(CELL_DIELECTRIC_PARAMS) },
+          },
+          electrode_surfaces: { type: 'array', minItems: 1, uniqueItems: true, items: { type: 'string', enum: ['inner', 'outer', 'bottom'] } },
+          ...propertiesFrom(CELL_PARAMS),
         },
       },
       fill: {

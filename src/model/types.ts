@@ -70,6 +70,13 @@ export interface DepositionShape {
   films: Array<{ film: string; method: DepositionMethod }>;
 }
 
+export type ElectrodeSurface = 'inner' | 'outer' | 'bottom';
+
+/** Shape facts of a storage cell (its numbers are params: `cell.bitline_capacitance`, ...). */
+export interface CellShape {
+  surfaces: ElectrodeSurface[];
+}
+
 export interface FillShape {
   method: 'conformal' | 'sticking-limited' | 'bottom-up';
 }
@@ -83,6 +90,7 @@ export interface Structure {
   etch?: EtchShape;
   deposition?: DepositionShape;
   fill?: FillShape;
+  cell?: CellShape;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 41 applicable pairs of 374 (34 rules × 11 structures): 30 pass, 10 fail (7 blocking), 1
+    // 42 applicable pairs of 385 (35 rules × 11 structures): 30 pass, 11 fail (8 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 30, fail: 10, incomplete: 1, 'not-applicable': 333 });
-    expect(j.blocking_failures).toBe(7);
-    expect(j.verdicts).toHaveLength(374);
+    expect(j.counts).toEqual({ pass: 30, fail: 11, incomplete: 1, 'not-applicable': 343 });
+    expect(j.blocking_failures).toBe(8);
+    expect(j.verdicts).toHaveLength(385);
   });
 
   it('accepts --root before the command too', async () => {

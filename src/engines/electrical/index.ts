@@ -1,0 +1,215 @@
+// Electrical job of a storage cell: the capacitance of a cylinder electrode and the bit-line signal
+// it gives, at read and after the refresh interval; the capacitance and height the requirement
+// takes. (Isolation, fins and vias come next; see the project notes.)
+//
+// Capacitance of each electrode surface as a cylindrical (coaxial) capacitor,
+// C = 2π·ε₀·k·h / ln(r_outer/r_inner) (Gauss's law; e.g. Griffiths, Introduction to
+// Electrodynamics, ch. 2), the floor as a parallel plate ε₀·k·A/t; charge sharing with the bit line
+// ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital Integrated
+// Circuits, ch. 12 [memory for chapter]).
+import { noted, noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
+
+/** Permittivity of free space, CODATA 2018 (F/m). */
+export const EPSILON_0 = 8.8541878128e-12;
+
+export interface CellGeometry {
+  /** Outer diameter of the electrode, its wall, its height. */
+  cd: number;
+  wall: number;
+  height: number;
+  thickness: number;
+  k: number;
+}
+
+/** Capacitance of each electrode surface: coaxial for the walls, parallel plate for the floor. */
+export function surfaceCapacitances(g: CellGeometry): { outer: number; inner: number; bottom: number } {
+  const ro = g.cd / 2;
+  const ri = g.cd / 2 - g.wall;
+  const outer = (2 * Math.PI * EPSILON_0 * g.k * g.height) / Math.log((ro + g.thickness) / ro);
+  const inner = ri > g.thickness ? (2 * Math.PI * EPSILON_0 * g.k * (g.height - g.wall)) / Math.log(ri / (ri - g.thickness)) : 0;
+  const bottom = ri > g.thickness ? (EPSILON_0 * g.k * Math.PI * (ri - g.thickness) ** 2) / g.thickness : 0;
+  return { outer, inner, bottom };
+}
+
+/** The same surfaces as parallel plates of the electrode's own area (the approximation compared). */
+export function parallelPlateCapacitances(g: CellGeometry): { outer: number; inner: number; bottom: number } {
+  const ro = g.cd / 2;
+  const ri = g.cd / 2 - g.wall;
+  const plate = (area: number) => (EPSILON_0 * g.k * area) / g.thickness;
+  return { outer: plate(2 * Math.PI * ro * g.height), inner: plate(2 * Math.PI * ri * (g.height - g.wall)), bottom: plate(Math.PI * ri * ri) };
+}
+
+/** Signal of the weaker stored state: min(p, 1 − p)·V·C_s/(C_s + C_BL), less the charge leaked. */
+export function bitlineSignal(cs: number, cbl: number, v: number, precharge: number, leakedCharge = 0): number {
+  const swing = Math.min(precharge, 1 - precharge) * v;
+  return (swing * cs - leakedCharge) / (cs + cbl);
+}
+
+const CELL_SOURCE = 'Charge sharing with the bit line, ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital Integrated Circuits, 2nd ed., memory chapter; chapter recalled)';
+const COAX_SOURCE = 'Coaxial capacitor 2π·ε₀·k·h/ln(r₂/r₁) (Gauss’s law; e.g. Griffiths, Introduction to Electrodynamics, ch. 2); floor as a parallel plate; ε₀ from CODATA 2018';
+
+const cellInputs = {
+  cd: 'geometry.cd',
+  wall: 'geometry.wall',
+  height: 'geometry.height',
+  thickness: 'cell.dielectric_thickness',
+  k: 'cell.dielectric_dielectric_constant',
+};
+const circuitInputs = { cbl: 'cell.bitline_capacitance', v: 'cell.array_voltage', p: 'cell.precharge' };
+const SYMBOLS: Record<string, string> = {
+  cd: '\\mathrm{CD}',
+  wall: 't_w',
+  height: 'H',
+  thickness: 't_d',
+  k: 'k',
+  cs: 'C_s',
+  cbl: 'C_{BL}',
+  v: 'V_{DD}',
+  p: 'p',
+  leak: 'I_{leak}',
+  refresh: 't_{ref}',
+  required: '\\Delta V_{req}',
+  creq: 'C_{req}',
+};
+
+function cellOnly(shape: Shape): { notApplicable: string } | { incomplete: string[] } | null {
+  if (shape.kind !== 'cylinder') return { notApplicable: 'a storage cell is a hollow cylinder electrode' };
+  if (!shape.cell) return { incomplete: ['cell'] };
+  return null;
+}
+
+function capacitanceOf(shape: Shape, a: Record<string, number>): number {
+  const c = surfaceCapacitances({ cd: a.cd!, wall: a.wall!, height: a.height!, thickness: a.thickness!, k: a.k! });
+  return shape.cell!.surfaces.reduce((sum, s) => sum + c[s], 0);
+}
+
+const storageCapacitance: QuantityDef = {
+  name: 'electrical.storage_capacitance',
+  title: 'Storage capacitance',
+  unit: 'F',
+  symbol: 'C_s',
+  description: 'Capacitance of the cylinder electrode over the surfaces that carry the dielectric: each wall as a coaxial capacitor, the floor as a parallel plate.',
+  source: COAX_SOURCE,
+  assumptions: ['Vertical walls at the top CD; the outer wall faces the plate over the full height, the inner one from the floor (one wall thick) up; fringe fields at the rim ignored.'],
+  validity: [{ holds: ({ cd, wall, thickness }) => cd! / 2 - wall! > thickness!, why: 'the dielectric fills the cup: there is no room for a plate electrode inside.' }],
+  better: 'higher',
+  sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
+  variant: (shape) => {
+    const no = cellOnly(shape);
+    if (no) return no;
+    const surfaces = shape.cell!.surfaces;
+    const terms: Record<string, string> = {
+      outer: '\\frac{2\\pi\\varepsilon_0 k H}{\\ln\\frac{r_o + t_d}{r_o}}',
+      inner: '\\frac{2\\pi\\varepsilon_0 k (H - t_w)}{\\ln\\frac{r_i}{r_i - t_d}}',
+      bottom: '\\frac{\\varepsilon_0 k \\pi (r_i - t_d)^2}{t_d}',
+    };
+    return variant({
+      label: `electrode surfaces: ${surfaces.join(', ')}`,
+      inputs: cellInputs,
+      symbols: SYMBOLS,
+      formula: `C_s = ${surfaces.map((s) => terms[s]).join(' + ')},\\;\\; r_o = \\tfrac{\\mathrm{CD}}{2},\\; r_i = r_o - t_w`,
+      compute: (a: Record<string, number>) => {
+        const coax = capacitanceOf(shape, a);
+        const g = { cd: a.cd!, wall: a.wall!, height: a.height!, thickness: a.thickness!, k: a.k! };
+        const pp = parallelPlateCapacitances(g);
+        const plate = shape.cell!.surfaces.reduce((sum, s) => sum + pp[s], 0);
+        return noted(coax, `a parallel-plate estimate on the electrode's own area would give ${((plate / coax - 1) * 100).toFixed(1)} % ${plate >= coax ? 'more' : 'less'}`);
+      },
+    });
+  },
+};
+
+const senseSignal: QuantityDef = {
+  name: 'electrical.sense_signal',
+  title: 'Sense signal on the bit line',
+  unit: 'V',
+  symbol: '\\Delta V',
+  description: 'Bit-line signal of the weaker stored state right after writing: the smaller of the 1 and 0 swings from the precharge level, shared with the bit line.',
+  source: CELL_SOURCE,
+  better: 'higher',
+  sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
+  variant: (shape) =>
+    cellOnly(shape) ??
+    variant({
+      inputs: { cs: 'electrical.storage_capacitance', ...circuitInputs },
+      symbols: SYMBOLS,
+      formula: '\\Delta V = \\min(p, 1 - p)\\,V_{DD}\\,\\frac{C_s}{C_s + C_{BL}}',
+      compute: ({ cs, cbl, v, p }) => bitlineSignal(cs, cbl, v, p),
+    }),
+};
+
+const retentionSignal: QuantityDef = {
+  name: 'electrical.retention_signal',
+  title: 'Sense signal at the end of the refresh interval',
+  unit: 'V',
+  symbol: '\\Delta V_{ret}',
+  description: 'Bit-line signal of the weaker stored state after the cell has leaked for one refresh interval.',
+  source: `${CELL_SOURCE}; charge lost I_leak·t_ref`,
+  assumptions: ['Constant leakage current over the interval.'],
+  better: 'higher',
+  sweep: { input: () => 'cell.refresh_interval', from: 0, to: 2 },
+  variant: (shape) =>
+    cellOnly(shape) ??
+    variant({
+      inputs: { cs: 'electrical.storage_capacitance', ...circuitInputs, leak: 'cell.leakage_current', refresh: 'cell.refresh_interval' },
+      symbols: SYMBOLS,
+      formula: '\\Delta V_{ret} = \\frac{\\min(p, 1-p)\\,V_{DD}\\,C_s - I_{leak}\\,t_{ref}}{C_s + C_{BL}}',
+      compute: ({ cs, cbl, v, p, leak, refresh }) => bitlineSignal(cs, cbl, v, p, leak * refresh),
+    }),
+};
+
+const requiredCapacitance: QuantityDef = {
+  name: 'electrical.required_capacitance',
+  title: 'Capacitance the signal requirement takes',
+  unit: 'F',
+  symbol: 'C_{req}',
+  description: 'Smallest storage capacitance that still leaves the required signal at the end of the refresh interval.',
+  source: `${CELL_SOURCE}, solved for C_s`,
+  better: 'lower',
+  variant: (shape) =>
+    cellOnly(shape) ??
+    variant({
+      inputs: { ...circuitInputs, leak: 'cell.leakage_current', refresh: 'cell.refresh_interval', required: 'cell.required_signal' },
+      symbols: SYMBOLS,
+      formula: 'C_{req} = \\frac{\\Delta V_{req}\\,C_{BL} + I_{leak}\\,t_{ref}}{\\min(p, 1-p)\\,V_{DD} - \\Delta V_{req}}',
+      compute: ({ cbl, v, p, leak, refresh, required }) => {
+        const headroom = Math.min(p, 1 - p) * v - required;
+        if (headroom <= 0) return noValue('the required signal is not below the swing from the precharge level: no capacitance reaches it', 'above');
+        return (required * cbl + leak * refresh) / headroom;
+      },
+    }),
+};
+
+const requiredHeight: QuantityDef = {
+  name: 'electrical.required_height',
+  title: 'Height the signal requirement takes',
+  unit: 'm',
+  symbol: 'H_{req}',
+  description: 'Height of the cylinder at its CD, wall and dielectric that would just meet the signal requirement at the end of the refresh interval (the capacitance is linear in the height, so it is solved directly).',
+  source: `${COAX_SOURCE}; inverted for the height`,
+  better: 'lower',
+  variant: (shape) => {
+    const no = cellOnly(shape);
+    if (no) return no;
+    return variant({
+      inputs: { ...cellInputs, creq: 'electrical.required_capacitance' },
+      symbols: SYMBOLS,
+      formula: 'C_s(H_{req}) = C_{req},\\;\\; C_s(H) = \\alpha H + \\beta',
+      compute: (a: Record<string, number>) => {
+        // C_s(H) is affine in H: two evaluations give slope and intercept.
+        const at = (h: number) => capacitanceOf(shape, { ...a, height: h });
+        const beta = at(0);
+        const alpha = at(1) - beta;
+        if (!(alpha > 0)) return noValue('the electrode surfaces chosen do not grow with the height');
+        return (a.creq! - beta) / alpha;
+      },
+    });
+  },
+};
+
+export const electricalEngine: Engine = {
+  id: 'electrical',
+  title: 'Electrical: storage cell',
+  summary: 'Capacitance of a cylinder electrode (coaxial surfaces), the bit-line signal at read and after the refresh interval, and the capacitance and height the signal requirement takes.',
+  quantities: [storageCapacitance, senseSignal, retentionSignal, requiredCapacitance, requiredHeight],
+};

@@ -1,0 +1,88 @@
+// Storage-cell electrical checks. Sources beside each check:
+// - coaxial capacitor 2π·ε₀·k·h/ln(r₂/r₁) and parallel plate ε₀·k·A/t (Gauss's law, any
+//   electromagnetics text, e.g. Griffiths ch. 2); ε₀ = 8.8541878128e-12 F/m (CODATA 2018);
+//   SiO₂ k = 3.9 (Robertson 2004, Table 1);
+// - charge sharing ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL), and the trade's rule of thumb (common
+//   practice): at 1 V with a 100 fF bit line, a readable ~150 mV takes about 15–18 fF;
+// - the inverse solution (required height) reproducing the forward one.
+import { describe, expect, it } from 'vitest';
+import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { bitlineSignal, EPSILON_0, parallelPlateCapacitances, surfaceCapacitances } from '../../src/engines/electrical/index.ts';
+import type { Param, Structure } from '../../src/model/types.ts';
+import { expectRel, makeStructure, nm, um } from '../helpers.ts';
+
+describe('capacitance of a cylinder electrode', () => {
+  it('uses ε₀ = 8.8541878128e-12 F/m (CODATA 2018)', () => {
+    expect(EPSILON_0).toBe(8.8541878128e-12);
+  });
+
+  it('outer wall: 2π·ε₀·k·H/ln((r + t)/r), hand-evaluated', () => {
+    // r = 18 nm, t = 5 nm, k = 3.9 (SiO₂), H = 1 µm: 2π·8.8541878128e-12·3.9·1e-6/ln(23/18) = 0.8852 fF.
+    const c = surfaceCapacitances({ cd: 36 * nm, wall: 5 * nm, height: 1 * um, thickness: 5 * nm, k: 3.9 });
+    expectRel(c.outer, (2 * Math.PI * 8.8541878128e-12 * 3.9 * 1e-6) / Math.log(23 / 18), 12);
+    expect(c.outer).toBeCloseTo(0.8852e-15, 18);
+  });
+
+  it('tends to the parallel plate when the dielectric is thin against the radius', () => {
+    // ln(1 + t/r) → t/r: the coaxial and plate forms agree to about t/(2r).
+    const g = { cd: 2e-3, wall: 1e-4, height: 1e-6, thickness: 1e-9, k: 3.9 };
+    expectRel(surfaceCapacitances(g).outer / parallelPlateCapacitances(g).outer, 1, 5);
+  });
+
+  it('differs from the parallel plate by tens of percent for a 5 nm film on an 18 nm radius', () => {
+    const g = { cd: 36 * nm, wall: 5 * nm, height: 1 * um, thickness: 5 * nm, k: 25 };
+    // Outer: ln(23/18) = 0.2451 against t/r = 0.2778 → the plate on the electrode's area is 12 % low.
+    expect(parallelPlateCapacitances(g).outer / surfaceCapacitances(g).outer).toBeCloseTo(0.2451 / 0.2778, 3);
+  });
+});
+
+describe('charge sharing with the bit line', () => {
+  it('rule of thumb (common practice): 1 V swing, 100 fF bit line, 150 mV takes 15–18 fF', () => {
+    // Full 1 V between cell and precharge level: ΔV = C_s/(C_s + 100 fF) = 0.15 → C_s = 17.6 fF;
+    // the quick estimate ΔV ≈ V·C_s/C_BL gives 15 fF. With half-supply precharge the swing is 0.5 V
+    // and the same 150 mV would take 42.9 fF.
+    const cs = (0.15 * 100e-15) / (1 - 0.15);
+    expectRel(cs, 17.647e-15, 4);
+    expectRel(bitlineSignal(cs, 100e-15, 1, 1), 0, 12); // precharge at the supply: a stored 1 gives nothing
+    expectRel(bitlineSignal(cs, 100e-15, 2, 0.5), 0.15, 9); // 2 V at half precharge is a 1 V swing
+    expect(cs).toBeGreaterThan(15e-15);
+    expect(cs).toBeLessThan(18e-15);
+  });
+});
+
+/** A storage node with a cell block, in SI. */
+function cellNode(height: number): Structure {
+  const s = makeStructure('cylinder', { cd: 36 * nm, wall: 5 * nm, height, sidewall_angle: Math.PI / 2 }, { array: 'hexagonal' });
+  const pos = { file: 'test', line: 1, column: 1 };
+  const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+  set('cell.dielectric_thickness', 5 * nm);
+  set('cell.dielectric_dielectric_constant', 40);
+  set('cell.bitline_capacitance', 80e-15);
+  set('cell.array_voltage', 1.2);
+  set('cell.precharge', 0.5);
+  set('cell.required_signal', 0.1);
+  set('cell.leakage_current', 1e-15);
+  set('cell.refresh_interval', 0.064);
+  s.cell = { surfaces: ['inner', 'outer'] };
+  return s;
+}
+
+describe('the cell of a structure (format example: 36 nm, 5 nm wall, 1.5 µm, ZrO₂ k = 40, 5 nm)', () => {
+  const q = evaluateStructure(cellNode(1.5 * um)).quantities;
+  it('adds the coaxial inner and outer walls', () => {
+    const outer = (2 * Math.PI * EPSILON_0 * 40 * 1.5e-6) / Math.log(23 / 18);
+    const inner = (2 * Math.PI * EPSILON_0 * 40 * (1.5e-6 - 5e-9)) / Math.log(13 / 8);
+    expectRel(q['electrical.storage_capacitance']?.value, outer + inner, 12);
+  });
+  it('gives the signal of the weaker state: 0.6 V·C_s/(C_s + 80 fF), less the leaked 64 aC', () => {
+    const cs = q['electrical.storage_capacitance']!.value!;
+    expectRel(q['electrical.sense_signal']?.value, (0.6 * cs) / (cs + 80e-15), 12);
+    expectRel(q['electrical.retention_signal']?.value, (0.6 * cs - 1e-15 * 0.064) / (cs + 80e-15), 12);
+  });
+  it('solves the height that just meets the requirement: the forward model at that height gives it back', () => {
+    const h = q['electrical.required_height']!.value!;
+    const back = evaluateStructure(cellNode(h)).quantities;
+    expectRel(back['electrical.retention_signal']?.value, 0.1, 9);
+    expectRel(back['electrical.storage_capacitance']?.value, q['electrical.required_capacitance']!.value!, 9);
+  });
+});
