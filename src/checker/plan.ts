@@ -41,6 +41,8 @@ export function shapeOf(structure: Structure, film?: string): Shape {
     ...(structure.deposition ? { deposition: structure.deposition } : {}),
     ...(structure.fill ? { fill: structure.fill } : {}),
     ...(structure.cell ? { cell: structure.cell } : {}),
+    ...(structure.via ? { via: true as const } : {}),
+    ...(structure.isolation ? { isolation: true as const } : {}),
     ...(film !== undefined ? { film } : {}),
   };
 }

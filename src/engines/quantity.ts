@@ -52,6 +52,8 @@ export interface Shape {
   deposition?: DepositionShape;
   fill?: FillShape;
   cell?: CellShape;
+  via?: true;
+  isolation?: true;
   /** The film step a rule (or a per-step listing) selects, for quantities of one film step. */
   film?: string;
 }

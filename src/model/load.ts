@@ -10,7 +10,7 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
@@ -294,7 +294,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'via', 'isolation', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
@@ -313,6 +313,14 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                       ? ['dielectric', 'electrode_surfaces', ...Object.keys(CELL_PARAMS)]
                       : ptr === '/cell/dielectric'
                         ? ['material', ...Object.keys(CELL_DIELECTRIC_PARAMS)]
+                        : ptr === '/via'
+                          ? ['conductor', 'liner']
+                          : ptr === '/via/conductor'
+                            ? ['material', 'resistivity']
+                            : ptr === '/via/liner'
+                              ? ['material', 'thickness', 'dielectric_constant']
+                              : ptr === '/isolation'
+                                ? Object.keys(ISOLATION_PARAMS)
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -388,6 +396,19 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   }
 
   const cell = isMapping(raw.cell) ? readCell(report, raw.cell, kindKnown ? kind : undefined, params, materials) : undefined;
+  const via = isMapping(raw.via) ? readVia(report, raw.via, kindKnown ? kind : undefined, params, materials) : undefined;
+  let isolation: true | undefined;
+  if (isMapping(raw.isolation)) {
+    if (kindKnown && kind !== 'trench') report.add('unknown-field', '/isolation', { expected: `an isolation block only on a trench, not on a ${kind}` }, 'key');
+    else {
+      for (const [name, spec] of Object.entries(ISOLATION_PARAMS)) {
+        if (raw.isolation[name] === undefined) continue;
+        const r = readValue(report, `/isolation/${name}`, raw.isolation[name], spec);
+        if (r) params.set(`isolation.${name}`, { name: `isolation.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/isolation/${name}`) } });
+      }
+      isolation = true;
+    }
+  }
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
   const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
   const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
@@ -414,6 +435,8 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     ...(deposition ? { deposition } : {}),
     ...(fill ? { fill } : {}),
     ...(cell ? { cell } : {}),
+    ...(via ? { via } : {}),
+    ...(isolation ? { isolation } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -583,6 +606,37 @@ function readCell(report: FileReport, c: Record<string, unknown>, kind: Kind | u
   }
   const surfaces = Array.isArray(c.electrode_surfaces) ? (c.electrode_surfaces.filter((x) => typeof x === 'string') as ElectrodeSurface[]) : [];
   return { surfaces };
+}
+
+/** The `via:` block: conductor and liner materials, with inline overrides. */
+function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>, materials: Map<string, Material>): true | undefined {
+  if (kind && kind !== 'via') {
+    report.add('unknown-field', '/via', { expected: `a via block only on a via, not on a ${kind}` }, 'key');
+    return undefined;
+  }
+  const fromMaterial = (pointer: string, id: unknown, prop: string, name: string) => {
+    if (typeof id !== 'string') return;
+    const m = materials.get(id);
+    if (!m) return report.add('unknown-material', pointer, { found: id, suggestions: suggest(id, [...materials.keys()]) });
+    const p = m.properties[prop];
+    if (p) params.set(name, { name, value: p.value, unit: p.unit, written: p.written, origin: { type: 'material-table', material: id, source: p.source, pos: report.pos(pointer) } });
+  };
+  const inline = (pointer: string, raw: unknown, name: string) => {
+    if (raw === undefined) return;
+    const spec = VIA_PARAMS[name.slice('via.'.length)]!;
+    const r = readValue(report, pointer, raw, spec);
+    if (r) params.set(name, { name, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
+  };
+  if (isMapping(v.conductor)) {
+    fromMaterial('/via/conductor/material', v.conductor.material, 'resistivity', 'via.conductor_resistivity');
+    inline('/via/conductor/resistivity', v.conductor.resistivity, 'via.conductor_resistivity');
+  }
+  if (isMapping(v.liner)) {
+    fromMaterial('/via/liner/material', v.liner.material, 'dielectric_constant', 'via.liner_dielectric_constant');
+    inline('/via/liner/thickness', v.liner.thickness, 'via.liner_thickness');
+    inline('/via/liner/dielectric_constant', v.liner.dielectric_constant, 'via.liner_dielectric_constant');
+  }
+  return true;
 }
 
 function rulesFromFile(loaded: Loaded): LocatedRule[] {

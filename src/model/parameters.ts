@@ -91,6 +91,20 @@ export const CELL_DIELECTRIC_PARAMS: Record<string, ParamSpec> = {
   dielectric_constant: { unit: '1', description: 'Relative permittivity of the capacitor dielectric.', min: 1 },
 };
 
+/** Inputs of a `via:` block: `via.conductor_resistivity`, `via.liner_thickness`, `via.liner_dielectric_constant`. */
+export const VIA_PARAMS: Record<string, ParamSpec> = {
+  conductor_resistivity: { unit: 'ohm*m', description: 'Resistivity of the via conductor.', min: 0, exclusiveMin: true },
+  liner_thickness: { unit: 'm', description: 'Thickness of the insulating liner between conductor and silicon.', min: 0, exclusiveMin: true },
+  liner_dielectric_constant: { unit: '1', description: 'Relative permittivity of the liner.', min: 1 },
+};
+
+/** Inputs of an `isolation:` block. */
+export const ISOLATION_PARAMS: Record<string, ParamSpec> = {
+  voltage: { unit: 'V', description: 'Largest voltage between the neighbours the trench separates.', min: 0, exclusiveMin: true },
+  doping: { unit: '1/m^3', description: 'Substrate (well) doping around the trench.', min: 0, exclusiveMin: true },
+  breakdown_field: { unit: 'V/m', description: 'Breakdown field of the trench fill.', min: 0, exclusiveMin: true },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -111,6 +125,8 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
   if (block === 'deposition' && b) return DEPOSITION_PARAMS[b];
   if (block === 'fill' && a) return FILL_PARAMS[a];
+  if (block === 'via' && a) return VIA_PARAMS[a];
+  if (block === 'isolation' && a) return ISOLATION_PARAMS[a];
   if (block === 'cell' && a) return a.startsWith('dielectric_') ? CELL_DIELECTRIC_PARAMS[a.slice('dielectric_'.length)] : CELL_PARAMS[a];
   if (block === 'etch' && a) {
     if (a.startsWith('calibration_')) return CALIBRATION_SPECS[a.replace(/^calibration_\d+_/, '')];

@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -81,6 +81,23 @@ export function structureSchema(): JsonSchema {
             ...propertiesFrom(DEPOSITION_PARAMS),
           },
         },
+      },
+      via: {
+        type: 'object',
+        description: 'Conductor and liner of a through-silicon via (the liner sits inside the etched hole).',
+        additionalProperties: false,
+        required: ['conductor', 'liner'],
+        properties: {
+          conductor: { type: 'object', additionalProperties: false, required: ['material'], properties: { material: { type: 'string' }, resistivity: valueWithUnit('Resistivity override.') } },
+          liner: { type: 'object', additionalProperties: false, required: ['material', 'thickness'], properties: { material: { type: 'string' }, thickness: valueWithUnit('Liner thickness.'), dielectric_constant: valueWithUnit('Permittivity override.') } },
+        },
+      },
+      isolation: {
+        type: 'object',
+        description: 'What an isolation trench must withstand.',
+        additionalProperties: false,
+        required: ['voltage', 'doping', 'breakdown_field'],
+        properties: propertiesFrom(ISOLATION_PARAMS),
       },
       cell: {
         type: 'object',

@@ -91,6 +91,10 @@ export interface Structure {
   deposition?: DepositionShape;
   fill?: FillShape;
   cell?: CellShape;
+  /** A `via:` block is present (conductor and liner). */
+  via?: true;
+  /** An `isolation:` block is present. */
+  isolation?: true;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

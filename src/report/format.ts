@@ -63,6 +63,11 @@ const DISPLAY: Record<string, (v: number, d: number) => string> = {
   'kg/mol': (v, d) => `${sig(v * 1e3, d)} g/mol`,
   '1/m^2': (v, d) => `${sig(v, d)} m⁻²`,
   N: (v, d) => withPrefix(v, 'N', 1, d),
+  ohm: (v, d) => withPrefix(v, 'Ω', 1, d),
+  H: (v, d) => withPrefix(v, 'H', 1, d),
+  A: (v, d) => withPrefix(v, 'A', 1, d),
+  'V/m': (v, d) => `${sig(v / 1e8, d)} MV/cm`,
+  '1/m^3': (v, d) => `${sig(v / 1e6, d)} cm⁻³`,
 };
 
 /** `3.2e-8, 'm'` → `32 nm`; dimensionless values are plain numbers. */
@@ -83,6 +88,7 @@ function displayUnitOf(unit: string): string {
 /** Margin as a signed percentage. */
 export function formatMargin(m: number | null): string {
   if (m === null || !Number.isFinite(m)) return '—';
+  if (Math.abs(m) < 1e-9) return '0 %';
   const pct = m * 100;
   const s = Math.abs(pct) >= 1000 ? pct.toExponential(1) : sig(pct, 3);
   return `${pct >= 0 ? '+' : ''}${s} %`;

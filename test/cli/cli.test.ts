@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 42 applicable pairs of 385 (35 rules × 11 structures): 30 pass, 11 fail (8 blocking), 1
+    // 47 applicable pairs of 440 (40 rules × 11 structures): 34 pass, 12 fail (9 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 30, fail: 11, incomplete: 1, 'not-applicable': 343 });
-    expect(j.blocking_failures).toBe(8);
-    expect(j.verdicts).toHaveLength(385);
+    expect(j.counts).toEqual({ pass: 34, fail: 12, incomplete: 1, 'not-applicable': 393 });
+    expect(j.blocking_failures).toBe(9);
+    expect(j.verdicts).toHaveLength(440);
   });
 
   it('accepts --root before the command too', async () => {

@@ -7,7 +7,8 @@
 // - the inverse solution (required height) reproducing the forward one.
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
-import { bitlineSignal, EPSILON_0, parallelPlateCapacitances, surfaceCapacitances } from '../../src/engines/electrical/index.ts';
+import { bitlineSignal, EPSILON_0, MU_0, parallelPlateCapacitances, surfaceCapacitances, wireInductance } from '../../src/engines/electrical/index.ts';
+import { builtIn, depletionWidth, EPS_SI, Q } from '../../src/engines/electrical/isolation.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
 import { expectRel, makeStructure, nm, um } from '../helpers.ts';
 
@@ -84,5 +85,59 @@ describe('the cell of a structure (format example: 36 nm, 5 nm wall, 1.5 µm, Zr
     const back = evaluateStructure(cellNode(h)).quantities;
     expectRel(back['electrical.retention_signal']?.value, 0.1, 9);
     expectRel(back['electrical.storage_capacitance']?.value, q['electrical.required_capacitance']!.value!, 9);
+  });
+});
+
+// ── Fins, vias, isolation ─────────────────────────────────────────────────────────────────────
+
+describe('fin effective width (common practice: tri-gate W_eff = 2H + W)', () => {
+  it('a 9 nm fin 62 nm tall on a 36 nm pitch gives 133 nm per fin, 3.69 per unit footprint', () => {
+    const s = makeStructure('line', { cd: 9 * nm, height: 62 * nm, pitch: 36 * nm });
+    const q = evaluateStructure(s).quantities;
+    expectRel(q['electrical.effective_width']?.value, 133 * nm, 12);
+    expectRel(q['electrical.effective_width_per_footprint']?.value, 133 / 36, 12);
+  });
+});
+
+describe('via parasitics', () => {
+  it('the wire inductance tends to Rosa’s (μ₀l/2π)[ln(2l/r) − 3/4] for a long thin conductor', () => {
+    // Rosa, Bull. Bur. Stand. 4, 301 (1908); l/r = 1e4: the exact and long-wire forms agree to ~r/l.
+    const [l, r] = [1e-3, 1e-7];
+    expectRel(wireInductance(l, r), ((MU_0 * l) / (2 * Math.PI)) * (Math.log((2 * l) / r) - 0.75), 4);
+  });
+
+  it('resistance, liner capacitance and inductance of a copper via (hand values)', () => {
+    // 6 µm hole, 60 µm deep, vertical; 300 nm oxide liner (k = 3.9); copper 1.72e-8 Ω·m:
+    // R = ρL/(π·2.7²µm²) = 45.05 mΩ; C = 2π·ε₀·3.9·60 µm/ln(3/2.7) = 1.30178e-14/0.105361 = 123.56 fF.
+    const s = makeStructure('via', { cd: 6 * um, depth: 60 * um, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    const pos = { file: 'test', line: 1, column: 1 };
+    const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+    set('via.conductor_resistivity', 1.72e-8);
+    set('via.liner_thickness', 300 * nm);
+    set('via.liner_dielectric_constant', 3.9);
+    s.via = true;
+    const q = evaluateStructure(s).quantities;
+    expectRel(q['electrical.via_resistance']?.value, (1.72e-8 * 60e-6) / (Math.PI * (2.7e-6) ** 2), 12);
+    expect(q['electrical.via_resistance']?.value).toBeCloseTo(0.04505, 4);
+    expectRel(q['electrical.via_capacitance']?.value, (2 * Math.PI * EPSILON_0 * 3.9 * 60e-6) / Math.log(3 / 2.7), 12);
+    expect(q['electrical.via_capacitance']?.value).toBeCloseTo(123.56e-15, 17);
+    expectRel(q['electrical.via_rc']?.value, q['electrical.via_resistance']!.value! * q['electrical.via_capacitance']!.value!, 12);
+  });
+});
+
+describe('isolation (one-sided abrupt junction, Sze & Ng ch. 2)', () => {
+  it('built-in potential and zero-bias depletion width on 1e16 cm⁻³ (hand: 0.954 V, 0.351 µm)', () => {
+    // V_bi = 0.025852·ln(1e16·1e20/(9.65e9)²) = 0.025852·36.913 = 0.9543 V;
+    // W = √(2·11.7ε₀·V_bi/(q·1e22 m⁻³)) = √(1.2340e-13) = 0.3513 µm.
+    expect(builtIn(1e22)).toBeCloseTo(0.9543, 3);
+    expectRel(depletionWidth(1e22, 0), Math.sqrt((2 * 11.7 * 8.8541878128e-12 * builtIn(1e22)) / (1.602176634e-19 * 1e22)), 12);
+    expect(depletionWidth(1e22, 0)).toBeCloseTo(0.3513e-6, 9);
+    expect(EPS_SI / EPSILON_0).toBe(11.7);
+    expect(Q).toBe(1.602176634e-19);
+  });
+
+  it('widens as the square root of the voltage: 20 V on 2e17 cm⁻³ (hand: 0.369 µm)', () => {
+    // √(2·11.7ε₀·(V_bi + 20)/(q·2e23)), V_bi = 0.025852·ln(2e17·1e20/(9.65e9)²) = 1.0317 V → 0.3688 µm.
+    expect(depletionWidth(2e23, 20)).toBeCloseTo(0.3688e-6, 9);
   });
 });

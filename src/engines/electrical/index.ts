@@ -207,9 +207,155 @@ const requiredHeight: QuantityDef = {
   },
 };
 
+// ── Fins ──────────────────────────────────────────────────────────────────────────────────────
+
+const effectiveWidth: QuantityDef = {
+  name: 'electrical.effective_width',
+  title: 'Effective channel width per fin',
+  unit: 'm',
+  symbol: 'W_{eff}',
+  description: 'Gate-controlled channel width of one fin in a tri-gate device: both sidewalls and the top.',
+  source: 'Tri-gate fin: W_eff = 2·H_fin + W_fin (common practice; 2·H_fin with a thick top mask)',
+  better: 'higher',
+  variant: (shape) =>
+    shape.kind !== 'line'
+      ? { notApplicable: 'fins are lines' }
+      : variant({
+          inputs: { height: 'geometry.height', cd: 'geometry.cd' },
+          symbols: { height: 'H', cd: 'W' },
+          formula: 'W_{eff} = 2H + W',
+          compute: ({ height, cd }) => 2 * height + cd,
+        }),
+};
+
+const widthPerFootprint: QuantityDef = {
+  name: 'electrical.effective_width_per_footprint',
+  title: 'Effective width per unit of footprint',
+  unit: '1',
+  symbol: 'W_{eff}/p',
+  description: 'Channel width a fin array gives per unit of layout width: the reason fins are tall.',
+  source: 'Tri-gate fin array: (2·H_fin + W_fin)/p (common practice)',
+  better: 'higher',
+  variant: (shape) =>
+    shape.kind !== 'line'
+      ? { notApplicable: 'fins are lines' }
+      : variant({
+          inputs: { width: 'electrical.effective_width', pitch: 'geometry.pitch' },
+          symbols: { width: 'W_{eff}', pitch: 'p' },
+          formula: '\\frac{W_{eff}}{p}',
+          compute: ({ width, pitch }) => width / pitch,
+        }),
+};
+
+// ── Through-silicon vias ──────────────────────────────────────────────────────────────────────
+
+/** Permeability of free space, CODATA 2018 (H/m). */
+export const MU_0 = 1.25663706212e-6;
+
+/**
+ * Partial self-inductance of a straight round conductor of length l and radius r with uniform
+ * current (internal part μ₀l/8π included): (μ₀/2π)[l·asinh(l/r) − √(l² + r²) + r + l/4]; for l ≫ r
+ * it is Rosa's (μ₀l/2π)[ln(2l/r) − 3/4] (Rosa, Bull. Bur. Stand. 4, 301 (1908); Grover, Inductance
+ * Calculations).
+ */
+export function wireInductance(length: number, radius: number): number {
+  return (MU_0 / (2 * Math.PI)) * (length * Math.asinh(length / radius) - Math.hypot(length, radius) + radius + length / 4);
+}
+
+const viaInputs = { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', depth: 'geometry.depth', liner: 'via.liner_thickness' };
+const VIA_SYMBOLS: Record<string, string> = { cd: '\\mathrm{CD}', bottom: '\\mathrm{CD}_b', depth: 'L', liner: 't_l', rho: '\\rho', k: 'k_l', r: 'R', c: 'C' };
+
+function viaOnly(shape: Shape): { notApplicable: string } | { incomplete: string[] } | null {
+  if (shape.kind !== 'via') return { notApplicable: 'via parasitics concern through-silicon vias' };
+  if (!shape.via) return { incomplete: ['via'] };
+  return null;
+}
+
+const viaResistance: QuantityDef = {
+  name: 'electrical.via_resistance',
+  title: 'Via resistance',
+  unit: 'ohm',
+  symbol: 'R',
+  description: 'DC resistance of the via conductor inside its liner, along its taper.',
+  source: 'R = ρ∫dz/(π r(z)²) = ρL/(π·r_top·r_bottom) for a straight taper (Ohm’s law for a cone frustum)',
+  assumptions: ['Uniform current; resistivity of the fill as given (grain and barrier effects included only through it).'],
+  better: 'lower',
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: { ...viaInputs, rho: 'via.conductor_resistivity' },
+      symbols: VIA_SYMBOLS,
+      formula: 'R = \\frac{\\rho L}{\\pi\\,(\\mathrm{CD}/2 - t_l)(\\mathrm{CD}_b/2 - t_l)}',
+      compute: ({ cd, bottom, depth, liner, rho }) => {
+        const r1 = cd / 2 - liner;
+        const r2 = bottom / 2 - liner;
+        return r1 > 0 && r2 > 0 ? (rho * depth) / (Math.PI * r1 * r2) : noValue('the liner fills the via: no conductor left');
+      },
+    }),
+};
+
+const viaCapacitance: QuantityDef = {
+  name: 'electrical.via_capacitance',
+  title: 'Via liner capacitance',
+  unit: 'F',
+  symbol: 'C',
+  description: 'Capacitance between the via conductor and the silicon across the liner, as a coaxial capacitor along the depth.',
+  source: 'Coaxial capacitor 2π·ε₀·k·L/ln(r_ox/r_cu) (Katti et al., IEEE Trans. Electron Devices 57, 256 (2010), who add the depletion capacitance in series)',
+  assumptions: ['Liner only: the series depletion capacitance of the silicon (which lowers C) is not included; top CD along the depth.'],
+  better: 'lower',
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: { cd: 'geometry.cd', depth: 'geometry.depth', liner: 'via.liner_thickness', k: 'via.liner_dielectric_constant' },
+      symbols: VIA_SYMBOLS,
+      formula: 'C = \\frac{2\\pi\\varepsilon_0 k_l L}{\\ln\\frac{\\mathrm{CD}/2}{\\mathrm{CD}/2 - t_l}}',
+      compute: ({ cd, depth, liner, k }) => (cd / 2 > liner ? (2 * Math.PI * EPSILON_0 * k * depth) / Math.log(cd / 2 / (cd / 2 - liner)) : noValue('the liner fills the via')),
+    }),
+};
+
+const viaInductance: QuantityDef = {
+  name: 'electrical.via_inductance',
+  title: 'Via partial self-inductance',
+  unit: 'H',
+  symbol: 'L_p',
+  description: 'Partial self-inductance of the via conductor as a straight round wire.',
+  source: 'Rosa, Bull. Bur. Stand. 4, 301 (1908); Grover, Inductance Calculations: (μ₀/2π)[l·asinh(l/r) − √(l² + r²) + r + l/4]',
+  assumptions: ['Uniform (low-frequency) current; mean conductor radius; the return path is not included (partial inductance).'],
+  better: 'lower',
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: viaInputs,
+      symbols: VIA_SYMBOLS,
+      formula: 'L_p = \\frac{\\mu_0}{2\\pi}\\left[L\\,\\mathrm{asinh}\\frac{L}{r} - \\sqrt{L^2 + r^2} + r + \\frac{L}{4}\\right],\\;\\; r = \\frac{\\mathrm{CD} + \\mathrm{CD}_b}{4} - t_l',
+      compute: ({ cd, bottom, depth, liner }) => {
+        const r = (cd + bottom) / 4 - liner;
+        return r > 0 ? wireInductance(depth, r) : noValue('the liner fills the via');
+      },
+    }),
+};
+
+const viaRc: QuantityDef = {
+  name: 'electrical.via_rc',
+  title: 'Via RC product',
+  unit: 's',
+  symbol: 'RC',
+  description: 'Resistance times liner capacitance of the via: its intrinsic delay scale.',
+  source: 'R·C of the two quantities above',
+  better: 'lower',
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: { r: 'electrical.via_resistance', c: 'electrical.via_capacitance' },
+      symbols: VIA_SYMBOLS,
+      formula: '\\tau = R\\,C',
+      compute: ({ r, c }) => r * c,
+    }),
+};
+
 export const electricalEngine: Engine = {
   id: 'electrical',
-  title: 'Electrical: storage cell',
-  summary: 'Capacitance of a cylinder electrode (coaxial surfaces), the bit-line signal at read and after the refresh interval, and the capacitance and height the signal requirement takes.',
-  quantities: [storageCapacitance, senseSignal, retentionSignal, requiredCapacitance, requiredHeight],
+  title: 'Electrical: cells, fins and vias',
+  summary: 'Storage-cell capacitance (coaxial surfaces) and bit-line signal at read and after refresh, the capacitance and height the requirement takes; fin effective width; via resistance, liner capacitance, inductance and RC.',
+  quantities: [storageCapacitance, senseSignal, retentionSignal, requiredCapacitance, requiredHeight, effectiveWidth, widthPerFootprint, viaResistance, viaCapacitance, viaInductance, viaRc],
 };
