@@ -106,6 +106,8 @@ export interface QuantityDef {
    * The input a verdict page sweeps to chart this quantity against (e.g. the height), as a
    * range of multiples of the structure's own value. The report runs the same plan at each point.
    */
+  /** A second chart against another input (e.g. a signal against height as well as over time). */
+  extraSweep?: NonNullable<QuantityDef['sweep']>;
   sweep?: {
     /** Chart another quantity's sweep instead (a fit residual shows the fitted curve). */
     of?: string;

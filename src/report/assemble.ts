@@ -85,6 +85,7 @@ export async function assembleReport(h: Handbook, results: Results) {
     const s = structureById.get(v.structure)!;
     const t = v.trace;
     const sweep = await sweepOf(v, s, plans, rule.film);
+    const extra = await sweepOf(v, s, plans, rule.film, true);
     verdictPages.push({
       ...row(v, rule, s),
       quantity: v.quantity,
@@ -122,6 +123,8 @@ export async function assembleReport(h: Handbook, results: Results) {
       })),
       sweepSvg: sweep?.svg ?? '',
       sweepCaption: sweep?.caption ?? '',
+      extraSweepSvg: extra?.svg ?? '',
+      extraSweepCaption: extra?.caption ?? '',
     });
   }
 
@@ -286,14 +289,16 @@ const SWEEP_POINTS = 48;
  * The verdict's quantity against the input its declaration sweeps (the height, say), from the
  * deciding inputs: the same plan run at each point. Empty when the quantity declares no sweep.
  */
-async function sweepOf(v: Verdict, s: Structure, plans: PlanCache, film?: string): Promise<{ svg: string; caption: string } | null> {
+async function sweepOf(v: Verdict, s: Structure, plans: PlanCache, film?: string, extra = false): Promise<{ svg: string; caption: string } | null> {
   const own = QUANTITIES.get(v.quantity);
-  if (!own?.sweep || !v.trace || v.value === null) return null;
+  const ownSweep = extra ? own?.extraSweep : own?.sweep;
+  if (!ownSweep || !v.trace || v.value === null) return null;
   // A quantity may chart another one's sweep (a fit residual shows the fitted curve).
-  const name = own.sweep.of ?? v.quantity;
+  const name = ownSweep.of ?? v.quantity;
   const def = QUANTITIES.get(name);
-  if (!def?.sweep) return null;
-  const sweep = { ...def.sweep, ...own.sweep };
+  const baseSweep = extra ? def?.extraSweep : def?.sweep;
+  if (!def || !baseSweep) return null;
+  const sweep = { ...baseSweep, ...ownSweep };
   const plan = plans.get(s, name, film);
   if (plan.status !== 'ready') return null;
   const inputName = sweep.input(shapeOf(s, film));

@@ -140,7 +140,7 @@ const senseSignal: QuantityDef = {
 
 const retentionSignal: QuantityDef = {
   name: 'electrical.retention_signal',
-  title: 'Sense signal at the end of the refresh interval',
+  title: 'Signal after the refresh interval',
   unit: 'V',
   symbol: '\\Delta V_{ret}',
   description: 'Bit-line signal of the weaker stored state after the cell has leaked for one refresh interval.',
@@ -148,6 +148,7 @@ const retentionSignal: QuantityDef = {
   assumptions: ['Constant leakage current over the interval.'],
   better: 'higher',
   sweep: { input: () => 'cell.refresh_interval', from: 0, to: 2 },
+  extraSweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   variant: (shape) =>
     cellOnly(shape) ??
     variant({
@@ -236,6 +237,7 @@ const widthPerFootprint: QuantityDef = {
   description: 'Channel width a fin array gives per unit of layout width: the reason fins are tall.',
   source: 'Tri-gate fin array: (2·H_fin + W_fin)/p (common practice)',
   better: 'higher',
+  sweep: { input: () => 'geometry.height', from: 0.5, to: 2 },
   variant: (shape) =>
     shape.kind !== 'line'
       ? { notApplicable: 'fins are lines' }
@@ -280,6 +282,7 @@ const viaResistance: QuantityDef = {
   source: 'R = ρ∫dz/(π r(z)²) = ρL/(π·r_top·r_bottom) for a straight taper (Ohm’s law for a cone frustum)',
   assumptions: ['Uniform current; resistivity of the fill as given (grain and barrier effects included only through it).'],
   better: 'lower',
+  sweep: { input: () => 'geometry.depth', from: 0.25, to: 2 },
   variant: (shape) =>
     viaOnly(shape) ??
     variant({
@@ -303,6 +306,7 @@ const viaCapacitance: QuantityDef = {
   source: 'Coaxial capacitor 2π·ε₀·k·L/ln(r_ox/r_cu) (Katti et al., IEEE Trans. Electron Devices 57, 256 (2010), who add the depletion capacitance in series)',
   assumptions: ['Liner only: the series depletion capacitance of the silicon (which lowers C) is not included; top CD along the depth.'],
   better: 'lower',
+  sweep: { input: () => 'via.liner_thickness', from: 0.25, to: 3 },
   variant: (shape) =>
     viaOnly(shape) ??
     variant({

@@ -60,6 +60,7 @@ const breakdownMargin: QuantityDef = {
   description: 'Breakdown field of the fill over the field across it.',
   source: 'E_bd/E',
   better: 'higher',
+  sweep: { input: () => 'isolation.voltage', from: 0.25, to: 2 },
   variant: (shape) =>
     isolationOnly(shape) ??
     variant({
