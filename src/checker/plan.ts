@@ -43,6 +43,7 @@ export function shapeOf(structure: Structure, film?: string): Shape {
     ...(structure.cell ? { cell: structure.cell } : {}),
     ...(structure.via ? { via: true as const } : {}),
     ...(structure.isolation ? { isolation: true as const } : {}),
+    ...(structure.waferOrientation ? { waferOrientation: structure.waferOrientation } : {}),
     ...(film !== undefined ? { film } : {}),
   };
 }

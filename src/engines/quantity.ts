@@ -54,6 +54,7 @@ export interface Shape {
   cell?: CellShape;
   via?: true;
   isolation?: true;
+  waferOrientation?: '001' | '111';
   /** The film step a rule (or a per-step listing) selects, for quantities of one film step. */
   film?: string;
 }

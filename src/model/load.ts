@@ -10,7 +10,7 @@ import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
-import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
+import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, THERMOMECH_PARAMS, VIA_CONDUCTOR_MECH, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
 import {
   KINDS,
@@ -294,7 +294,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   if (!schemaOk) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
       ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'via', 'isolation', 'materials']
+        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'via', 'isolation', 'anneal', 'keep_out', 'film', 'wafer', 'materials']
         : ptr === '/geometry'
           ? [...Object.keys(GEOMETRY_PARAMS), 'array']
           : ptr === '/drying'
@@ -316,11 +316,15 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                         : ptr === '/via'
                           ? ['conductor', 'liner']
                           : ptr === '/via/conductor'
-                            ? ['material', 'resistivity']
+                            ? ['material', 'resistivity', 'youngs_modulus', 'poisson_ratio', 'expansion']
                             : ptr === '/via/liner'
                               ? ['material', 'thickness', 'dielectric_constant']
                               : ptr === '/isolation'
                                 ? Object.keys(ISOLATION_PARAMS)
+                                : ptr === '/wafer'
+                                  ? [...Object.keys(THERMOMECH_PARAMS.wafer!), 'orientation']
+                                  : THERMOMECH_PARAMS[ptr.slice(1)]
+                                    ? Object.keys(THERMOMECH_PARAMS[ptr.slice(1)]!)
             : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
     );
     // Keep checking values, units and materials so one run reports every problem in the file;
@@ -387,10 +391,11 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
     if (isInline) {
       for (const [prop, spec] of Object.entries(MATERIAL_PROPERTIES)) {
-        const val = (use as Record<string, unknown>)[prop];
+        const val = (use as Record<string, unknown>)[prop] ?? (prop === 'thermal_expansion' ? (use as Record<string, unknown>).expansion : undefined);
         if (val === undefined) continue;
-        const r = readValue(report, `/materials/${role}/${prop}`, val, spec);
-        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/materials/${role}/${prop}`) } });
+        const written = (use as Record<string, unknown>)[prop] !== undefined ? prop : 'expansion';
+        const r = readValue(report, `/materials/${role}/${written}`, val, spec);
+        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/materials/${role}/${written}`) } });
       }
     }
   }
@@ -409,6 +414,16 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
       isolation = true;
     }
   }
+  for (const [block, specs] of Object.entries(THERMOMECH_PARAMS)) {
+    const b = raw[block];
+    if (!isMapping(b)) continue;
+    for (const [name, spec] of Object.entries(specs)) {
+      if (b[name] === undefined) continue;
+      const r = readValue(report, `/${block}/${name}`, b[name], spec);
+      if (r) params.set(`${block}.${name}`, { name: `${block}.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/${block}/${name}`) } });
+    }
+  }
+  const waferOrientation = isMapping(raw.wafer) && (raw.wafer.orientation === '001' || raw.wafer.orientation === '111') ? raw.wafer.orientation : undefined;
   const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
   const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
   const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
@@ -437,6 +452,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     ...(cell ? { cell } : {}),
     ...(via ? { via } : {}),
     ...(isolation ? { isolation } : {}),
+    ...(waferOrientation ? { waferOrientation } : {}),
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -630,6 +646,15 @@ function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | un
   if (isMapping(v.conductor)) {
     fromMaterial('/via/conductor/material', v.conductor.material, 'resistivity', 'via.conductor_resistivity');
     inline('/via/conductor/resistivity', v.conductor.resistivity, 'via.conductor_resistivity');
+    for (const prop of Object.keys(VIA_CONDUCTOR_MECH)) {
+      fromMaterial('/via/conductor/material', v.conductor.material, prop, `via.conductor_${prop}`);
+      const key = prop === 'thermal_expansion' ? 'expansion' : prop;
+      const raw = v.conductor[key];
+      if (raw === undefined) continue;
+      const spec = VIA_CONDUCTOR_MECH[prop]!;
+      const r = readValue(report, `/via/conductor/${key}`, raw, spec);
+      if (r) params.set(`via.conductor_${prop}`, { name: `via.conductor_${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/via/conductor/${key}`) } });
+    }
   }
   if (isMapping(v.liner)) {
     fromMaterial('/via/liner/material', v.liner.material, 'dielectric_constant', 'via.liner_dielectric_constant');

@@ -105,6 +105,28 @@ export const ISOLATION_PARAMS: Record<string, ParamSpec> = {
   breakdown_field: { unit: 'V/m', description: 'Breakdown field of the trench fill.', min: 0, exclusiveMin: true },
 };
 
+/** Thermo-mechanical blocks: `anneal`, `keep_out`, `film`, `wafer` (their inputs are `<block>.<name>`). */
+export const THERMOMECH_PARAMS: Record<string, Record<string, ParamSpec>> = {
+  anneal: { temperature_change: { unit: 'K', description: 'Temperature change from the stress-free state to the state of use (negative on cooling).' } },
+  keep_out: { mobility_shift: { unit: '1', description: 'Largest relative mobility change allowed in a transistor.', min: 0, exclusiveMin: true } },
+  film: {
+    stress: { unit: 'Pa', description: 'Biaxial stress of the film on the wafer (tensile positive).' },
+    thickness: { unit: 'm', description: 'Film thickness.', min: 0, exclusiveMin: true },
+  },
+  wafer: {
+    thickness: { unit: 'm', description: 'Wafer thickness.', min: 0, exclusiveMin: true },
+    diameter: { unit: 'm', description: 'Wafer diameter.', min: 0, exclusiveMin: true },
+    bow_limit: { unit: 'm', description: 'Largest bow the next steps accept.', min: 0, exclusiveMin: true },
+  },
+};
+
+/** Mechanical properties of the via conductor: `via.conductor_<name>`. */
+export const VIA_CONDUCTOR_MECH: Record<string, ParamSpec> = {
+  youngs_modulus: { unit: 'Pa', description: "Young's modulus of the conductor.", min: 0, exclusiveMin: true },
+  poisson_ratio: { unit: '1', description: "Poisson's ratio of the conductor.", min: -1, max: 0.5 },
+  thermal_expansion: { unit: '1/K', description: 'Expansion coefficient of the conductor.' },
+};
+
 /** Spec of one support height in `drying.supports`. */
 export const SUPPORT_SPEC: ParamSpec = { unit: 'm', description: 'Height above the base of a lateral support lattice.', min: 0, exclusiveMin: true };
 
@@ -125,7 +147,8 @@ export function paramSpecOf(path: string): ParamSpec | undefined {
   if (block === 'drying' && a) return a.startsWith('support_') ? SUPPORT_SPEC : DRYING_PARAMS[a];
   if (block === 'deposition' && b) return DEPOSITION_PARAMS[b];
   if (block === 'fill' && a) return FILL_PARAMS[a];
-  if (block === 'via' && a) return VIA_PARAMS[a];
+  if (block === 'via' && a) return VIA_PARAMS[a] ?? VIA_CONDUCTOR_MECH[a.replace(/^conductor_/, '')];
+  if (block && a && THERMOMECH_PARAMS[block]) return THERMOMECH_PARAMS[block]![a];
   if (block === 'isolation' && a) return ISOLATION_PARAMS[a];
   if (block === 'cell' && a) return a.startsWith('dielectric_') ? CELL_DIELECTRIC_PARAMS[a.slice('dielectric_'.length)] : CELL_PARAMS[a];
   if (block === 'etch' && a) {

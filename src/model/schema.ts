@@ -1,6 +1,6 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { THERMOMECH_PARAMS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
@@ -88,9 +88,28 @@ export function structureSchema(): JsonSchema {
         additionalProperties: false,
         required: ['conductor', 'liner'],
         properties: {
-          conductor: { type: 'object', additionalProperties: false, required: ['material'], properties: { material: { type: 'string' }, resistivity: valueWithUnit('Resistivity override.') } },
+          conductor: {
+            type: 'object',
+            additionalProperties: false,
+            required: ['material'],
+            properties: {
+              material: { type: 'string' },
+              resistivity: valueWithUnit('Resistivity override.'),
+              youngs_modulus: valueWithUnit("Young's modulus override."),
+              poisson_ratio: valueWithUnit("Poisson's ratio override."),
+              expansion: valueWithUnit('Expansion coefficient override.'),
+            },
+          },
           liner: { type: 'object', additionalProperties: false, required: ['material', 'thickness'], properties: { material: { type: 'string' }, thickness: valueWithUnit('Liner thickness.'), dielectric_constant: valueWithUnit('Permittivity override.') } },
         },
+      },
+      anneal: { type: 'object', additionalProperties: false, required: ['temperature_change'], properties: propertiesFrom(THERMOMECH_PARAMS.anneal!) },
+      keep_out: { type: 'object', additionalProperties: false, required: ['mobility_shift'], properties: propertiesFrom(THERMOMECH_PARAMS.keep_out!) },
+      film: { type: 'object', additionalProperties: false, required: ['stress', 'thickness'], properties: propertiesFrom(THERMOMECH_PARAMS.film!) },
+      wafer: {
+        type: 'object',
+        additionalProperties: false,
+        properties: { ...propertiesFrom(THERMOMECH_PARAMS.wafer!), orientation: { type: 'string', enum: ['001', '111'] } },
       },
       isolation: {
         type: 'object',
@@ -144,7 +163,7 @@ export function structureSchema(): JsonSchema {
           type: ['string', 'object'],
           required: ['material'],
           additionalProperties: false,
-          properties: { material: { type: 'string' }, ...propertiesFrom(MATERIAL_PROPERTIES) },
+          properties: { material: { type: 'string' }, ...propertiesFrom(MATERIAL_PROPERTIES), expansion: valueWithUnit('Alias of thermal_expansion.') },
         },
       },
     },

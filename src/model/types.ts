@@ -95,6 +95,8 @@ export interface Structure {
   via?: true;
   /** An `isolation:` block is present. */
   isolation?: true;
+  /** Wafer orientation, when a `wafer:` block gives it. */
+  waferOrientation?: '001' | '111';
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */

@@ -206,6 +206,17 @@ describe('the demo handbook, verdict by verdict', () => {
     return 1 / (Math.cosh(phi) + (Math.sqrt(3 * s) / 4) * Math.sinh(phi));
   };
   const discs = (X: number) => (2 + X * X - X * Math.sqrt(X * X + 4)) / 2;
+  const sigma0 = () => {
+    const [e1, n1, a1, e2, n2, a2] = [120e9, 0.34, 16.5e-6, 169e9, 0.064, 2.509e-6];
+    const k1 = e1 / ((1 + n1) * (1 - 2 * n1));
+    const m2 = e2 / (1 + n2);
+    return -((k1 * m2) / (k1 + m2)) * ((1 + n1) * a1 - (1 + n2) * a2) * -250;
+  };
+  const koz = (dpi: number) => 4.15e-6 * Math.sqrt((dpi * Math.abs(sigma0())) / 0.05);
+  const bow = (stress: number, hf: number) => {
+    const m = 165.7e9 + 63.9e9 - (2 * 63.9e9 * 63.9e9) / 165.7e9;
+    return ((6 * stress * hf) / (m * 775e-6 * 775e-6)) * 0.15 * 0.15 / 2;
+  };
   const punchThrough = () => {
     const eps = 11.7 * 8.8541878128e-12;
     const q = 1.602176634e-19;
@@ -327,6 +338,14 @@ describe('the demo handbook, verdict by verdict', () => {
     ['TSV-R-1', 'package-tsv', 'pass', (1.68e-8 * 112e-6) / (Math.PI * 3.65e-6 * ((7.7 - 2 * 112 * tanDeg(0.4)) / 2 - 0.2) * 1e-6)],
     // Via liner, worst corner: widest (8.3 µm) and deepest (112 µm), 200 nm SiO₂ (k = 3.9).
     ['TSV-C-1', 'package-tsv', 'pass', (2 * Math.PI * 8.8541878128e-12 * 3.9 * 112e-6) / Math.log(4.15 / 3.95)],
+    // Via keep-out (inclusion stress, Smith's coefficients): copper 120 GPa/0.34/16.5 ppm/K in
+    // silicon 169 GPa/0.064/2.509 ppm/K (the materials table), ΔT = −250 K; widest via a = 4.15 µm;
+    // r = a·√(|π_L − π_T|·|σ₀|/5 %).
+    ['TSV-KOZ-N100', 'package-tsv', 'pass', koz(155.6e-11)],
+    ['TSV-KOZ-N110', 'package-tsv', 'pass', koz(13.6e-11)],
+    ['TSV-KOZ-P110', 'package-tsv', 'fail', koz(138.1e-11)],
+    // Bow: 120 MPa × 1.2 µm copper on a 775 µm, 300 mm (001) wafer; limit 100 µm.
+    ['TSV-BOW-1', 'package-tsv', 'pass', 100e-6 / bow(120e6, 1.2e-6)],
     // Via: worst corner 112 µm deep, 72 min × 8 µm/min / 112 µm = 5.14 open-field; passes 1.15.
     ['TSV-ETCH-1', 'package-tsv', 'pass', [1.15, (72 * 8) / 112]],
     // (110 + 2)/(8 − 0.3) = 14.545 ≤ 15.
@@ -351,11 +370,11 @@ describe('the demo handbook, verdict by verdict', () => {
     }
   });
 
-  it('counts 34 pass, 12 fail (9 blocking), 1 incomplete, 393 not applicable', () => {
-    // 40 rules × 11 structures = 440 pairs; the 47 in the table above apply, so 393 do not.
+  it('counts 37 pass, 13 fail (10 blocking), 1 incomplete, 433 not applicable', () => {
+    // 44 rules × 11 structures = 484 pairs; the 51 in the table above apply, so 433 do not.
     const r = evaluateHandbook(handbook);
-    expect(r.counts).toEqual({ pass: 34, fail: 12, incomplete: 1, 'not-applicable': 393 });
-    expect(r.blockingFailures).toBe(9);
+    expect(r.counts).toEqual({ pass: 37, fail: 13, incomplete: 1, 'not-applicable': 433 });
+    expect(r.blockingFailures).toBe(10);
   });
 
   it('names the worst corner of SN-AR-1: height high, cd low', () => {

@@ -27,14 +27,14 @@ describe('check', () => {
   });
 
   it('prints parseable JSON with counts', async () => {
-    // 47 applicable pairs of 440 (40 rules × 11 structures): 34 pass, 12 fail (9 blocking), 1
+    // 51 applicable pairs of 484 (44 rules × 11 structures): 37 pass, 13 fail (10 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts.
     const r = await cli('check', '--root', ROOT, '--json');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 34, fail: 12, incomplete: 1, 'not-applicable': 393 });
-    expect(j.blocking_failures).toBe(9);
-    expect(j.verdicts).toHaveLength(440);
+    expect(j.counts).toEqual({ pass: 37, fail: 13, incomplete: 1, 'not-applicable': 433 });
+    expect(j.blocking_failures).toBe(10);
+    expect(j.verdicts).toHaveLength(484);
   });
 
   it('accepts --root before the command too', async () => {
@@ -129,9 +129,9 @@ describe('the real binary', () => {
   });
 
   it('gives byte-identical JSON from two separate processes (the brief: results are deterministic)', () => {
-    const once = () => spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, LANG: 'C' } });
+    const once = () => spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'C' } });
     const a = once();
-    const b = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', env: { ...process.env, LANG: 'tr_TR.UTF-8', LC_ALL: 'tr_TR.UTF-8' } });
+    const b = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'tr_TR.UTF-8', LC_ALL: 'tr_TR.UTF-8' } });
     expect(a.status).toBe(1);
     expect(b.stdout).toBe(a.stdout);
   });

@@ -1,0 +1,194 @@
+// Thermo-mechanical stress: the field a via leaves in the silicon after an anneal, the mobility
+// shift it causes in nearby transistors and the keep-out radius that bounds it, and the bow a
+// stressed film gives the wafer.
+//
+// Via: an elastic cylinder (1) in an infinite elastic matrix (2), plane strain, uniform
+// temperature change [derived; the classical shrink-fit/inclusion solution, Timoshenko & Goodier,
+// Theory of Elasticity]: in the matrix σ_rr = −σ_θθ = σ₀(a/r)² with
+// σ₀ = −[k₁m₂/(k₁ + m₂)]·[(1 + ν₁)α₁ − (1 + ν₂)α₂]·ΔT, k₁ = E₁/((1 + ν₁)(1 − 2ν₁)), m₂ = E₂/(1 + ν₂).
+// Mobility: Δμ/μ = −(π_L·σ_L + π_T·σ_T) with Smith's piezoresistance coefficients (Phys. Rev. 94, 42
+// (1954)) rotated to ⟨110⟩ (Kanda, IEEE Trans. Electron Devices 29, 64 (1982)); around the via
+// σ_L − σ_T follows σ_rr·cos 2φ, so the largest shift at distance r is |π_L − π_T|·|σ₀|(a/r)².
+// Bow: Stoney's equation with the substrate's biaxial modulus (Freund & Suresh, Thin Film
+// Materials, 2003): κ = 6σ_f·h_f/(M_s·h_s²), bow b = κ·R²/2 over a wafer of radius R.
+import { noted, noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
+
+/** Smith (1954), 1e-11 /Pa: n- and p-type silicon. */
+export const SMITH = {
+  n: { p11: -102.2e-11, p12: 53.4e-11, p44: -13.6e-11 },
+  p: { p11: 6.6e-11, p12: -1.1e-11, p44: 138.1e-11 },
+} as const;
+
+export type Channel = 'n100' | 'n110' | 'p100' | 'p110';
+
+/** Longitudinal and transverse coefficients of a channel in the (001) plane (Kanda 1982). */
+export function piezo(channel: Channel): { longitudinal: number; transverse: number } {
+  const c = SMITH[channel[0] as 'n' | 'p'];
+  if (channel.endsWith('100')) return { longitudinal: c.p11, transverse: c.p12 };
+  return { longitudinal: (c.p11 + c.p12 + c.p44) / 2, transverse: (c.p11 + c.p12 - c.p44) / 2 };
+}
+
+/** Stress at the via edge in the matrix, σ₀ (radial; hoop is −σ₀). */
+export function viaEdgeStress(e1: number, nu1: number, a1: number, e2: number, nu2: number, a2: number, dT: number): number {
+  const k1 = e1 / ((1 + nu1) * (1 - 2 * nu1));
+  const m2 = e2 / (1 + nu2);
+  return -((k1 * m2) / (k1 + m2)) * ((1 + nu1) * a1 - (1 + nu2) * a2) * dT;
+}
+
+/** Biaxial modulus of a silicon wafer from its elastic constants (Hopcroft, Nix & Kenny 2010: C11 165.7, C12 63.9, C44 79.6 GPa). */
+export function siliconBiaxialModulus(orientation: '001' | '111'): number {
+  const [c11, c12, c44] = [165.7e9, 63.9e9, 79.6e9];
+  if (orientation === '001') return c11 + c12 - (2 * c12 * c12) / c11;
+  // (111): M = 6·C44·(C11 + 2C12)/(C11 + 2C12 + 4C44).
+  return (6 * c44 * (c11 + 2 * c12)) / (c11 + 2 * c12 + 4 * c44);
+}
+
+const INCLUSION = 'Elastic cylinder in an elastic matrix, plane strain (classical inclusion solution, Timoshenko & Goodier, Theory of Elasticity); σ₀ = −[k₁m₂/(k₁ + m₂)][(1 + ν₁)α₁ − (1 + ν₂)α₂]ΔT';
+const PIEZO = 'Smith, Phys. Rev. 94, 42 (1954), piezoresistance of silicon; rotated to ⟨110⟩ as in Kanda, IEEE Trans. Electron Devices 29, 64 (1982); Δμ/μ ≈ −(π_L σ_L + π_T σ_T)';
+
+const stressInputs = {
+  e1: 'via.conductor_youngs_modulus',
+  nu1: 'via.conductor_poisson_ratio',
+  a1: 'via.conductor_thermal_expansion',
+  e2: 'materials.substrate.youngs_modulus',
+  nu2: 'materials.substrate.poisson_ratio',
+  a2: 'materials.substrate.thermal_expansion',
+  dT: 'anneal.temperature_change',
+};
+const SYMBOLS: Record<string, string> = {
+  e1: 'E_1',
+  nu1: '\\nu_1',
+  a1: '\\alpha_1',
+  e2: 'E_2',
+  nu2: '\\nu_2',
+  a2: '\\alpha_2',
+  dT: '\\Delta T',
+  s0: '\\sigma_0',
+  cd: '\\mathrm{CD}',
+  limit: '\\Delta\\mu_{max}',
+  stress: '\\sigma_f',
+  hf: 'h_f',
+  hs: 'h_s',
+  d: 'D_w',
+  bow: 'b',
+  blimit: 'b_{max}',
+};
+
+function viaOnly(shape: Shape): { notApplicable: string } | null {
+  return shape.kind === 'via' ? null : { notApplicable: 'the via stress field concerns through-silicon vias' };
+}
+
+const viaStress: QuantityDef = {
+  name: 'thermomech.via_stress',
+  title: 'Radial stress in the silicon at the via edge',
+  unit: 'Pa',
+  symbol: '\\sigma_0',
+  description: 'Radial stress in the silicon at the conductor’s edge after the temperature change (tensile positive); the hoop stress is its negative, and both fall as (a/r)².',
+  source: INCLUSION,
+  assumptions: [
+    'Plane strain far below the wafer surface (near the surface the field is three-dimensional); isotropic elastic materials; the thin liner is left out.',
+    'The single-modulus form −EΔαΔT/2 quoted in some via papers differs from this two-material solution by up to about 1.5×.',
+  ],
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: stressInputs,
+      symbols: SYMBOLS,
+      formula: '\\sigma_0 = -\\frac{k_1 m_2}{k_1 + m_2}\\left[(1+\\nu_1)\\alpha_1 - (1+\\nu_2)\\alpha_2\\right]\\Delta T,\\;\\; k_1 = \\frac{E_1}{(1+\\nu_1)(1-2\\nu_1)},\\; m_2 = \\frac{E_2}{1+\\nu_2}',
+      compute: ({ e1, nu1, a1, e2, nu2, a2, dT }) => viaEdgeStress(e1, nu1, a1, e2, nu2, a2, dT),
+    }),
+};
+
+function channelQuantities(channel: Channel): QuantityDef[] {
+  const { longitudinal, transverse } = piezo(channel);
+  const diff = Math.abs(longitudinal - transverse);
+  const label = `${channel[0]}-type channel along ⟨${channel.slice(1)}⟩`;
+  const shift: QuantityDef = {
+    name: `thermomech.mobility_shift_${channel}`,
+    title: `Mobility shift at the via edge, ${label}`,
+    unit: '1',
+    symbol: `|\\Delta\\mu/\\mu|_{${channel}}`,
+    description: `Largest relative mobility change of a ${label} at the via edge, over every angle around the via.`,
+    source: PIEZO,
+    assumptions: ['Linear piezoresistance (small shifts); stress in the (001) plane only.'],
+    validity: [{ holds: ({ s0 }) => diff * Math.abs(s0!) <= 0.2, why: 'above a 20 % shift the linear piezoresistance model no longer holds.' }],
+    better: 'lower',
+    variant: (shape) =>
+      viaOnly(shape) ??
+      variant({
+        inputs: { s0: 'thermomech.via_stress' },
+        symbols: SYMBOLS,
+        formula: `\\left|\\frac{\\Delta\\mu}{\\mu}\\right| = |\\pi_L - \\pi_T|\\,|\\sigma_0| ,\\;\\; |\\pi_L - \\pi_T| = ${(diff * 1e11).toFixed(1)}\\times 10^{-11}\\,\\mathrm{Pa^{-1}}`,
+        compute: ({ s0 }) => diff * Math.abs(s0),
+      }),
+  };
+  const koz: QuantityDef = {
+    name: `thermomech.keep_out_radius_${channel}`,
+    title: `Keep-out radius, ${label}`,
+    unit: 'm',
+    symbol: `r_{koz,${channel}}`,
+    description: `Distance from the via centre beyond which a ${label} shifts less than the threshold in every direction (the via radius when it never exceeds it).`,
+    source: `${INCLUSION}; ${PIEZO}`,
+    better: 'lower',
+    variant: (shape) =>
+      viaOnly(shape) ??
+      variant({
+        inputs: { s0: 'thermomech.via_stress', cd: 'geometry.cd', limit: 'keep_out.mobility_shift' },
+        symbols: SYMBOLS,
+        formula: 'r_{koz} = \\max\\left(\\frac{\\mathrm{CD}}{2},\\; \\frac{\\mathrm{CD}}{2}\\sqrt{\\frac{|\\pi_L - \\pi_T|\\,|\\sigma_0|}{\\Delta\\mu_{max}}}\\right)',
+        compute: ({ s0, cd, limit }) => {
+          const a = cd / 2;
+          const r = a * Math.sqrt((diff * Math.abs(s0)) / limit);
+          return r <= a ? noted(a, 'the shift stays under the threshold everywhere outside the via') : r;
+        },
+      }),
+  };
+  return [shift, koz];
+}
+
+const waferBow: QuantityDef = {
+  name: 'thermomech.wafer_bow',
+  title: 'Wafer bow',
+  unit: 'm',
+  symbol: 'b',
+  description: 'Bow (centre height) of the wafer under the film’s stress, from Stoney’s equation with the substrate’s biaxial modulus.',
+  source: 'Stoney (1909) in biaxial form, Freund & Suresh, Thin Film Materials (2003): κ = 6σ_f h_f/(M_s h_s²), b = κR²/2; M_s of silicon from Hopcroft, Nix & Kenny (2010)',
+  assumptions: ['Film much thinner than the wafer; small deflection; uniform film over the whole wafer.'],
+  validity: [{ holds: ({ hf, hs }) => hf! < 0.01 * hs!, why: 'Stoney’s equation needs a film under about 1 % of the wafer thickness.' }],
+  better: 'lower',
+  variant: (shape) =>
+    variant({
+      inputs: { stress: 'film.stress', hf: 'film.thickness', hs: 'wafer.thickness', d: 'wafer.diameter' },
+      symbols: SYMBOLS,
+      formula: `b = \\frac{3\\,\\sigma_f h_f R^2}{M_s h_s^2},\\;\\; R = \\frac{D_w}{2},\\;\\; M_s(${shape.waferOrientation ?? '001'}) = ${(siliconBiaxialModulus(shape.waferOrientation ?? '001') / 1e9).toFixed(1)}\\,\\mathrm{GPa}`,
+      compute: ({ stress, hf, hs, d }) => {
+        const m = siliconBiaxialModulus(shape.waferOrientation ?? '001');
+        const kappa = (6 * stress * hf) / (m * hs * hs);
+        return Math.abs((kappa * (d / 2) ** 2) / 2);
+      },
+    }),
+};
+
+const bowMargin: QuantityDef = {
+  name: 'thermomech.bow_margin',
+  title: 'Bow margin',
+  unit: '1',
+  symbol: 'b_{max}/b',
+  description: 'Largest bow the next steps accept over the wafer’s bow: above 1 it passes.',
+  source: 'b_max/b',
+  better: 'higher',
+  variant: () =>
+    variant({
+      inputs: { bow: 'thermomech.wafer_bow', blimit: 'wafer.bow_limit' },
+      symbols: SYMBOLS,
+      formula: '\\frac{b_{max}}{b}',
+      compute: ({ bow, blimit }) => (bow === 0 ? noValue('no bow', 'above') : blimit / bow),
+    }),
+};
+
+export const thermomechEngine: Engine = {
+  id: 'thermomech',
+  title: 'Thermo-mechanics: via stress, keep-out zones, wafer bow',
+  summary: 'Stress a via leaves in the silicon after an anneal, the mobility shift of nearby n- and p-channels along ⟨100⟩ and ⟨110⟩ and the keep-out radius per channel, and the bow a stressed film gives the wafer.',
+  quantities: [viaStress, ...(['n100', 'n110', 'p100', 'p110'] as const).flatMap(channelQuantities), waferBow, bowMargin],
+};

@@ -1,0 +1,161 @@
+// Thermo-mechanics. Sources beside each check:
+// - Smith, Phys. Rev. 94, 42 (1954): piezoresistance coefficients of silicon (published table);
+// - the via stress against an independent finite-element solution of the axisymmetric
+//   plane-strain elasticity equations with thermal strain (written in this test);
+// - silicon's biaxial moduli from its elastic constants (Hopcroft, Nix & Kenny 2010: 180.5 and
+//   229 GPa for (001) and (111) as quoted in the design references);
+// - Stoney's equation evaluated by hand (no textbook worked example was reachable);
+// - the keep-out radius against the mobility map it is solved from.
+import { describe, expect, it } from 'vitest';
+import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { piezo, SMITH, siliconBiaxialModulus, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import type { Param } from '../../src/model/types.ts';
+import { expectRel, makeStructure, um } from '../helpers.ts';
+
+describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
+  it('matches the published table', () => {
+    expect([SMITH.n.p11, SMITH.n.p12, SMITH.n.p44].map((x) => Math.round(x * 1e12) / 10)).toEqual([-102.2, 53.4, -13.6]);
+    expect([SMITH.p.p11, SMITH.p.p12, SMITH.p.p44].map((x) => Math.round(x * 1e12) / 10)).toEqual([6.6, -1.1, 138.1]);
+  });
+  it('rotates to <110>: π_L − π_T = π44 (Kanda 1982)', () => {
+    const n = piezo('n110');
+    expectRel(n.longitudinal - n.transverse, SMITH.n.p44, 12);
+    expectRel(piezo('p110').longitudinal, (6.6e-11 - 1.1e-11 + 138.1e-11) / 2, 12);
+  });
+});
+
+describe('stress around a via (cylinder in a matrix, plane strain)', () => {
+  // The independent solution is a radial finite-element model (below), not the closed form.
+  // Copper in silicon, isotropic: E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K, ΔT = −300 K, a = 5 µm.
+  const [E1, n1, a1, E2, n2, a2, dT, a] = [120e9, 0.34, 16.7e-6, 130e9, 0.28, 2.6e-6, -300, 5e-6];
+
+  /**
+   * Radial stress from an independent numerical solution: linear finite elements minimising the
+   * strain energy ∫[½λ(ε_r + ε_θ)² + μ(ε_r² + ε_θ²) − (3λ + 2μ)αΔT(ε_r + ε_θ)]·r dr over a disc of
+   * radius R = 100a (outer edge free, u(0) = 0), ε_r = u′, ε_θ = u/r, evaluated at element midpoints.
+   */
+  function radialStressFE(r: number): number {
+    const R = 100 * a;
+    const N = 8000;
+    const h = R / N;
+    const lame = (E: number, nu: number) => ({ l: (E * nu) / ((1 + nu) * (1 - 2 * nu)), m: E / (2 * (1 + nu)) });
+    const matAt = (x: number) => (x < a ? { ...lame(E1, n1), alpha: a1 } : { ...lame(E2, n2), alpha: a2 });
+    const diag = new Float64Array(N + 1);
+    const off = new Float64Array(N);
+    const f = new Float64Array(N + 1);
+    for (let e = 0; e < N; e++) {
+      const xm = (e + 0.5) * h;
+      const { l, m, alpha } = matAt(xm);
+      // ε_r = (u₂ − u₁)/h, ε_θ = (u₁ + u₂)/(2xm): B rows for (ε_r, ε_θ) on (u₁, u₂).
+      const B = [
+        [-1 / h, 1 / h],
+        [1 / (2 * xm), 1 / (2 * xm)],
+      ];
+      const D = [
+        [l + 2 * m, l],
+        [l, l + 2 * m],
+      ];
+      const th = (3 * l + 2 * m) * alpha * dT;
+      for (let p = 0; p < 2; p++) {
+        for (let q = 0; q < 2; q++) {
+          let k = 0;
+          for (let i = 0; i < 2; i++) for (let j = 0; j < 2; j++) k += B[i]![p]! * D[i]![j]! * B[j]![q]!;
+          k *= xm * h;
+          if (p === q) diag[e + p] = diag[e + p]! + k;
+          else if (p === 0) off[e] = off[e]! + k;
+        }
+        f[e + p] = f[e + p]! + th * (B[0]![p]! + B[1]![p]!) * xm * h;
+      }
+    }
+    // u(0) = 0: drop the first equation.
+    const n = N;
+    const d = Array.from(diag.slice(1));
+    const o = Array.from(off.slice(1));
+    const rhs = Array.from(f.slice(1));
+    for (let i = 1; i < n; i++) {
+      const w = o[i - 1]! / d[i - 1]!;
+      d[i] = d[i]! - w * o[i - 1]!;
+      rhs[i] = rhs[i]! - w * rhs[i - 1]!;
+    }
+    const u = new Array<number>(n);
+    u[n - 1] = rhs[n - 1]! / d[n - 1]!;
+    for (let i = n - 2; i >= 0; i--) u[i] = (rhs[i]! - o[i]! * u[i + 1]!) / d[i]!;
+    const node = (i: number) => (i === 0 ? 0 : u[i - 1]!);
+    // σ_r at the midpoint of the matrix element that starts at r.
+    const e = Math.round(r / h);
+    const xm = (e + 0.5) * h;
+    const { l, m, alpha } = matAt(xm);
+    const er = (node(e + 1) - node(e)) / h;
+    const et = (node(e) + node(e + 1)) / (2 * xm);
+    return (l + 2 * m) * er + l * et - (3 * l + 2 * m) * alpha * dT;
+  }
+
+  it('equals the closed form at the edge and decays as (a/r)² (finite-difference check)', () => {
+    const s0 = viaEdgeStress(E1, n1, a1, E2, n2, a2, dT);
+    // At the edge the closed form is evaluated half an element out, as the elements are.
+    const h = (100 * a) / 8000;
+    expect(Math.abs(radialStressFE(a) / ((s0 * a * a) / (a + h / 2) ** 2) - 1)).toBeLessThan(0.005);
+    expect(Math.abs(radialStressFE(3 * a) / ((s0 * a * a) / (3 * a + h / 2) ** 2) - 1)).toBeLessThan(0.005);
+    expect(s0).toBeGreaterThan(0); // cooling: copper pulls the silicon, radial tension
+  });
+
+  it('vanishes without a mismatch of (1 + ν)α and changes sign with the temperature change', () => {
+    expect(viaEdgeStress(E1, 0.3, 5e-6, E2, 0.3, 5e-6, -300)).toBeCloseTo(0, 6);
+    expectRel(viaEdgeStress(E1, n1, a1, E2, n2, a2, 300), -viaEdgeStress(E1, n1, a1, E2, n2, a2, -300), 12);
+  });
+});
+
+describe('wafer bow (Stoney, biaxial)', () => {
+  it('uses silicon biaxial moduli of 180.5 GPa (001) and 229 GPa (111)', () => {
+    expect(siliconBiaxialModulus('001') / 1e9).toBeCloseTo(180.3, 0);
+    expect(siliconBiaxialModulus('111') / 1e9).toBeCloseTo(229.1, 0);
+  });
+});
+
+describe('keep-out radius and bow of a via structure', () => {
+  const s = makeStructure('via', { cd: 10 * um, depth: 50 * um }, { array: 'square' });
+  const pos = { file: 'test', line: 1, column: 1 };
+  const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+  set('via.conductor_youngs_modulus', 120e9);
+  set('via.conductor_poisson_ratio', 0.34);
+  set('via.conductor_thermal_expansion', 16.7e-6);
+  set('materials.substrate.youngs_modulus', 130e9);
+  set('materials.substrate.poisson_ratio', 0.28);
+  set('materials.substrate.thermal_expansion', 2.6e-6);
+  set('anneal.temperature_change', -300);
+  set('keep_out.mobility_shift', 0.05);
+  set('film.stress', 250e6);
+  set('film.thickness', 0.8e-6);
+  set('wafer.thickness', 775e-6);
+  set('wafer.diameter', 0.3);
+  set('wafer.bow_limit', 50e-6);
+  const q = evaluateStructure(s).quantities;
+
+  it('puts the keep-out circle where the mobility map, rotated around the via, reaches the threshold', () => {
+    // Map: σ_rr = σ₀(a/r)², σ_θθ = −σ_rr; for a channel along x at polar angle φ, σ_L = σ_xx =
+    // σ_rr cos²φ + σ_θθ sin²φ, σ_T = σ_yy; Δμ/μ = −(π_L σ_L + π_T σ_T). Scan φ at r = r_koz.
+    const s0 = q['thermomech.via_stress']!.value!;
+    for (const channel of ['n100', 'p110'] as const) {
+      const { longitudinal, transverse } = piezo(channel);
+      const r = q[`thermomech.keep_out_radius_${channel}`]!.value!;
+      let worst = 0;
+      for (let k = 0; k < 3600; k++) {
+        const phi = (k / 3600) * 2 * Math.PI;
+        const srr = s0 * (5e-6 / r) ** 2;
+        const sxx = srr * Math.cos(phi) ** 2 - srr * Math.sin(phi) ** 2;
+        const syy = srr * Math.sin(phi) ** 2 - srr * Math.cos(phi) ** 2;
+        worst = Math.max(worst, Math.abs(longitudinal * sxx + transverse * syy));
+      }
+      expectRel(worst, 0.05, 6);
+    }
+  });
+
+  it('bows the wafer as Stoney’s equation says (hand: 124.7 µm for 250 MPa × 0.8 µm on 775 µm, 300 mm)', () => {
+    // κ = 6·250e6·0.8e-6/(180.31e9·(775e-6)²) = 0.011081 /m; b = κ·(0.15 m)²/2 = 124.7 µm.
+    const m = 165.7e9 + 63.9e9 - (2 * 63.9e9 * 63.9e9) / 165.7e9;
+    const kappa = (6 * 250e6 * 0.8e-6) / (m * 775e-6 * 775e-6);
+    expectRel(q['thermomech.wafer_bow']?.value, (kappa * 0.15 * 0.15) / 2, 12);
+    expect(q['thermomech.wafer_bow']?.value).toBeCloseTo(124.7e-6, 7);
+    expectRel(q['thermomech.bow_margin']?.value, 50e-6 / ((kappa * 0.15 * 0.15) / 2), 12);
+  });
+});
