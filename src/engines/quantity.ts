@@ -31,6 +31,23 @@ export type Figure = {
   frames: Array<{ time: number; widths: number[]; bottom: number }>;
   /** Depth range of a trapped void, if any. */
   void?: { from: number; to: number };
+} | {
+  /** Radial and hoop stress in the matrix against distance from a via's centre. */
+  type: 'stress-profile';
+  radius: number;
+  points: Array<{ r: number; radial: number; hoop: number }>;
+} | {
+  /** Relative mobility change on a square grid around a via, channel along +x, with the keep-out circle. */
+  type: 'mobility-map';
+  channel: string;
+  radius: number;
+  keepOut: number;
+  threshold: number;
+  /** Half-width of the square, centred on the via. */
+  extent: number;
+  n: number;
+  /** Row-major, top row first (y = +extent), null inside the via. */
+  values: Array<number | null>;
 };
 
 export type Outcome = number | NoValue | Noted;

@@ -13,11 +13,13 @@ const ROOT = resolve(import.meta.dirname, '../..');
 const CHROMIUM = process.env.PLUMBLINE_CHROMIUM ?? '/usr/bin/chromium';
 let browser: Browser;
 let site: string;
+let keepOutP110: number | null = null;
 
 beforeAll(async () => {
   site = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-')), 'site');
   const outcome = checkHandbook(ROOT);
   if (!outcome.ok) throw new Error('demo handbook does not load');
+  keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);
   browser = await chromium.launch({
     executablePath: CHROMIUM,
@@ -56,6 +58,23 @@ describe('report in chromium', () => {
     // The formula is typeset and the derivation lists its steps.
     await expect(page.locator('ol.steps math').count()).resolves.toBeGreaterThan(0);
     expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it('draws the failing keep-out verdict’s mobility map with its circle at the deciding radius', async () => {
+    // The map spans 1.5 × the keep-out radius each side of the via (when the radius exceeds two via
+    // radii), so the drawn circle's diameter is 1/1.5 of the map's side if it is drawn to scale.
+    const page = await browser.newPage();
+    await page.goto(pathToFileURL(join(site, 'rules/TSV-KOZ-P110/package-tsv/index.html')).href);
+    const map = page.locator('svg.figure', { has: page.locator('[data-keep-out]') });
+    await expect(map.count()).resolves.toBe(1);
+    const circle = map.locator('[data-keep-out]');
+    expect(Number(await circle.getAttribute('data-keep-out')) / (keepOutP110 ?? NaN)).toBeCloseTo(1, 9);
+    const frame = await map.locator('rect[fill="none"]').boundingBox();
+    const ring = await circle.boundingBox();
+    expect((ring?.width ?? 0) / (frame?.width ?? 1)).toBeCloseTo(1 / 1.5, 1);
+    // The stress against distance is on the same page.
+    await expect(page.locator('svg.figure[aria-label^="Stress in the silicon"]').count()).resolves.toBe(1);
     await page.close();
   });
 

@@ -8,7 +8,7 @@
 // - the keep-out radius against the mobility map it is solved from.
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
-import { piezo, SMITH, siliconBiaxialModulus, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import { piezo, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 import type { Param } from '../../src/model/types.ts';
 import { expectRel, makeStructure, um } from '../helpers.ts';
 
@@ -148,6 +148,43 @@ describe('keep-out radius and bow of a via structure', () => {
       }
       expectRel(worst, 0.05, 6);
     }
+  });
+
+  it('draws the map from the same stress tensor: grid values match the rotated tensor, and none beyond the circle exceeds the threshold', () => {
+    const s0 = q['thermomech.via_stress']!.value!;
+    const def = thermomechEngine.quantities.find((d) => d.name === 'thermomech.keep_out_radius_p110')!;
+    const v = def.variant({ kind: 'via', via: true });
+    if (!('compute' in v)) throw new Error('keep-out radius does not apply to a via');
+    const out = v.compute({ s0, cd: 10e-6, limit: 0.05 });
+    const fig = typeof out === 'object' && 'figure' in out ? out.figure : undefined;
+    if (fig?.type !== 'mobility-map') throw new Error('no mobility map');
+    const { longitudinal, transverse } = piezo('p110');
+    let inside = 0;
+    for (let j = 0; j < fig.n; j++) {
+      for (let i = 0; i < fig.n; i++) {
+        const v = fig.values[j * fig.n + i];
+        const x = -fig.extent + (2 * fig.extent * i) / (fig.n - 1);
+        const y = fig.extent - (2 * fig.extent * j) / (fig.n - 1);
+        const r = Math.hypot(x, y);
+        if (v === null || v === undefined) {
+          expect(r).toBeLessThanOrEqual(5e-6 + 1e-12);
+          continue;
+        }
+        const srr = s0 * (5e-6 / r) ** 2;
+        const c = x / r;
+        const sn = y / r;
+        const sxx = srr * c * c - srr * sn * sn;
+        const syy = srr * sn * sn - srr * c * c;
+        expect(Math.abs(v - -(longitudinal * sxx + transverse * syy))).toBeLessThan(1e-12);
+        if (r > fig.keepOut) expect(Math.abs(v)).toBeLessThanOrEqual(0.05 + 1e-12);
+        else if (Math.abs(v) > 0.05) inside++;
+      }
+    }
+    expect(inside).toBeGreaterThan(0);
+  });
+
+  it('bounds the protrusion by the free expansion mismatch (hand: 14.1 ppm/K × 300 K × 50 µm = 211.5 nm)', () => {
+    expect(q['thermomech.protrusion']?.value).toBeCloseTo(211.5e-9, 12);
   });
 
   it('bows the wafer as Stoney’s equation says (hand: 124.7 µm for 250 MPa × 0.8 µm on 775 µm, 300 mm)', () => {

@@ -11,7 +11,7 @@
 // σ_L − σ_T follows σ_rr·cos 2φ, so the largest shift at distance r is |π_L − π_T|·|σ₀|(a/r)².
 // Bow: Stoney's equation with the substrate's biaxial modulus (Freund & Suresh, Thin Film
 // Materials, 2003): κ = 6σ_f·h_f/(M_s·h_s²), bow b = κ·R²/2 over a wafer of radius R.
-import { noted, noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
+import { noValue, variant, type Engine, type Figure, type QuantityDef, type Shape } from '../quantity.ts';
 
 /** Smith (1954), 1e-11 /Pa: n- and p-type silicon. */
 export const SMITH = {
@@ -33,6 +33,46 @@ export function viaEdgeStress(e1: number, nu1: number, a1: number, e2: number, n
   const k1 = e1 / ((1 + nu1) * (1 - 2 * nu1));
   const m2 = e2 / (1 + nu2);
   return -((k1 * m2) / (k1 + m2)) * ((1 + nu1) * a1 - (1 + nu2) * a2) * dT;
+}
+
+/** Radial and hoop stress in the matrix at distance r from the centre of a via of radius a. */
+export function matrixStress(s0: number, a: number, r: number): { radial: number; hoop: number } {
+  const f = (a / r) ** 2;
+  return { radial: s0 * f, hoop: -s0 * f };
+}
+
+/**
+ * Relative mobility change of a channel at (x, y) from the via centre, channel along x: with
+ * σ_L = σ_rr cos²φ + σ_θθ sin²φ = σ₀(a/r)² cos 2φ and σ_T = −σ_L, Δμ/μ = −(π_L − π_T)·σ₀(a/r)²·cos 2φ.
+ */
+export function mobilityShiftAt(channel: Channel, s0: number, a: number, x: number, y: number): number {
+  const { longitudinal, transverse } = piezo(channel);
+  const r2 = x * x + y * y;
+  const cos2phi = (x * x - y * y) / r2;
+  return -(longitudinal - transverse) * s0 * ((a * a) / r2) * cos2phi;
+}
+
+function stressProfile(s0: number, a: number): Figure {
+  const points = [];
+  for (let i = 0; i <= 60; i++) {
+    const r = a * (1 + (9 * i) / 60);
+    points.push({ r, ...matrixStress(s0, a, r) });
+  }
+  return { type: 'stress-profile', radius: a, points };
+}
+
+function mobilityMap(channel: Channel, s0: number, a: number, keepOut: number, threshold: number): Figure {
+  const n = 41;
+  const extent = 1.5 * Math.max(keepOut, 2 * a);
+  const values: Array<number | null> = [];
+  for (let j = 0; j < n; j++) {
+    const y = extent - (2 * extent * j) / (n - 1);
+    for (let i = 0; i < n; i++) {
+      const x = -extent + (2 * extent * i) / (n - 1);
+      values.push(x * x + y * y <= a * a ? null : mobilityShiftAt(channel, s0, a, x, y));
+    }
+  }
+  return { type: 'mobility-map', channel: `${channel[0]}-channel ⟨${channel.slice(1)}⟩`, radius: a, keepOut, threshold, extent, n, values };
 }
 
 /** Biaxial modulus of a silicon wafer from its elastic constants (Hopcroft, Nix & Kenny 2010: C11 165.7, C12 63.9, C44 79.6 GPa). */
@@ -65,6 +105,7 @@ const SYMBOLS: Record<string, string> = {
   dT: '\\Delta T',
   s0: '\\sigma_0',
   cd: '\\mathrm{CD}',
+  depth: 'h',
   limit: '\\Delta\\mu_{max}',
   stress: '\\sigma_f',
   hf: 'h_f',
@@ -89,13 +130,19 @@ const viaStress: QuantityDef = {
     'Plane strain far below the wafer surface (near the surface the field is three-dimensional); isotropic elastic materials; the thin liner is left out.',
     'The single-modulus form −EΔαΔT/2 quoted in some via papers differs from this two-material solution by up to about 1.5×.',
   ],
+  validity: [
+    { holds: ({ depth, cd }) => depth! >= 3 * cd!, why: 'plane strain needs a via at least three diameters deep; a shallower via relaxes at the surface and the field is smaller.' },
+  ],
   variant: (shape) =>
     viaOnly(shape) ??
     variant({
-      inputs: stressInputs,
+      inputs: { ...stressInputs, cd: 'geometry.cd', depth: 'geometry.depth' },
       symbols: SYMBOLS,
       formula: '\\sigma_0 = -\\frac{k_1 m_2}{k_1 + m_2}\\left[(1+\\nu_1)\\alpha_1 - (1+\\nu_2)\\alpha_2\\right]\\Delta T,\\;\\; k_1 = \\frac{E_1}{(1+\\nu_1)(1-2\\nu_1)},\\; m_2 = \\frac{E_2}{1+\\nu_2}',
-      compute: ({ e1, nu1, a1, e2, nu2, a2, dT }) => viaEdgeStress(e1, nu1, a1, e2, nu2, a2, dT),
+      compute: ({ e1, nu1, a1, e2, nu2, a2, dT, cd }) => {
+        const s0 = viaEdgeStress(e1, nu1, a1, e2, nu2, a2, dT);
+        return { value: s0, note: 'hoop stress −σ₀; both fall off as (a/r)²', figure: stressProfile(s0, cd / 2) };
+      },
     }),
 };
 
@@ -139,12 +186,39 @@ function channelQuantities(channel: Channel): QuantityDef[] {
         compute: ({ s0, cd, limit }) => {
           const a = cd / 2;
           const r = a * Math.sqrt((diff * Math.abs(s0)) / limit);
-          return r <= a ? noted(a, 'the shift stays under the threshold everywhere outside the via') : r;
+          const koz = Math.max(r, a);
+          return {
+            value: koz,
+            note: r <= a ? 'the shift stays under the threshold everywhere outside the via' : 'set along and across the channel (cos 2φ = ±1), where the shift is largest',
+            figure: mobilityMap(channel, s0, a, koz, limit),
+          };
         },
       }),
   };
   return [shift, koz];
 }
+
+const protrusion: QuantityDef = {
+  name: 'thermomech.protrusion',
+  title: 'Conductor protrusion during the anneal',
+  unit: 'm',
+  symbol: '\\Delta h',
+  description: 'How far the conductor rises above the silicon surface at the anneal temperature if it slides freely along the liner: the free difference in thermal expansion over the via depth. Part of it stays after cooling where the conductor yields near the top.',
+  source: 'Free differential thermal expansion over the via depth, the elementary elastic upper bound; measured protrusions to compare with: Heryanto et al., J. Electron. Mater. (2012), doi:10.1007/s11664-012-2117-3',
+  assumptions: [
+    'Upper bound: the liner lets the conductor slide and the silicon does not hold it back; measured protrusions after cooling are usually a fraction of it.',
+    'The anneal excursion is the size of the stated temperature change.',
+  ],
+  better: 'lower',
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: { a1: 'via.conductor_thermal_expansion', a2: 'materials.substrate.thermal_expansion', dT: 'anneal.temperature_change', depth: 'geometry.depth' },
+      symbols: SYMBOLS,
+      formula: '\\Delta h = (\\alpha_1 - \\alpha_2)\\,|\\Delta T|\\,h',
+      compute: ({ a1, a2, dT, depth }) => Math.max(0, (a1 - a2) * Math.abs(dT) * depth),
+    }),
+};
 
 const waferBow: QuantityDef = {
   name: 'thermomech.wafer_bow',
@@ -189,6 +263,6 @@ const bowMargin: QuantityDef = {
 export const thermomechEngine: Engine = {
   id: 'thermomech',
   title: 'Thermo-mechanics: via stress, keep-out zones, wafer bow',
-  summary: 'Stress a via leaves in the silicon after an anneal, the mobility shift of nearby n- and p-channels along ⟨100⟩ and ⟨110⟩ and the keep-out radius per channel, and the bow a stressed film gives the wafer.',
-  quantities: [viaStress, ...(['n100', 'n110', 'p100', 'p110'] as const).flatMap(channelQuantities), waferBow, bowMargin],
+  summary: 'Stress a via leaves in the silicon after an anneal, the mobility shift of nearby n- and p-channels along ⟨100⟩ and ⟨110⟩ and the keep-out radius per channel, the conductor’s protrusion, and the bow a stressed film gives the wafer.',
+  quantities: [viaStress, ...(['n100', 'n110', 'p100', 'p110'] as const).flatMap(channelQuantities), protrusion, waferBow, bowMargin],
 };
