@@ -176,6 +176,8 @@ function channelQuantities(channel: Channel): QuantityDef[] {
     symbol: `r_{koz,${channel}}`,
     description: `Distance from the via centre beyond which a ${label} shifts less than the threshold in every direction (the via radius when it never exceeds it).`,
     source: `${INCLUSION}; ${PIEZO}`,
+    assumptions: ['Single via in an infinite matrix: neighbouring vias’ fields add and widen the zone between them.'],
+    validity: [{ arg: 'limit', max: 0.2, why: 'a threshold above 20 % lies outside the linear piezoresistance model.' }],
     better: 'lower',
     variant: (shape) =>
       viaOnly(shape) ??
