@@ -2,13 +2,13 @@
 // - Smith, Phys. Rev. 94, 42 (1954): piezoresistance coefficients of silicon (published table);
 // - the via stress against an independent finite-element solution of the axisymmetric
 //   plane-strain elasticity equations with thermal strain (written in this test);
-// - silicon's biaxial moduli from its elastic constants (Hopcroft, Nix & Kenny 2010: 180.5 and
-//   229 GPa for (001) and (111) as quoted in the design references);
+// - silicon's biaxial moduli from its elastic constants (Hopcroft, Nix & Kenny 2010: 180.3 and
+//   229.1 GPa for (001) and (111); the design references quote them rounded, 180.5 and 229);
 // - Stoney's equation evaluated by hand (no textbook worked example was reachable);
 // - the keep-out radius against the mobility map it is solved from.
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
-import { piezo, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import { freeSlidingProtrusion, piezo, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 import type { Param } from '../../src/model/types.ts';
 import { expectRel, makeStructure, um } from '../helpers.ts';
 
@@ -21,6 +21,8 @@ describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
     const n = piezo('n110');
     expectRel(n.longitudinal - n.transverse, SMITH.n.p44, 12);
     expectRel(piezo('p110').longitudinal, (6.6e-11 - 1.1e-11 + 138.1e-11) / 2, 12);
+    // n-type along <100>: π_L − π_T = π11 − π12 = −102.2 − 53.4 = −155.6 (Smith's table).
+    expectRel(piezo('n100').longitudinal - piezo('n100').transverse, -155.6e-11, 12);
   });
 });
 
@@ -90,7 +92,7 @@ describe('stress around a via (cylinder in a matrix, plane strain)', () => {
     return (l + 2 * m) * er + l * et - (3 * l + 2 * m) * alpha * dT;
   }
 
-  it('equals the closed form at the edge and decays as (a/r)² (finite-difference check)', () => {
+  it('equals the closed form at the edge and decays as (a/r)² (finite-element check)', () => {
     const s0 = viaEdgeStress(E1, n1, a1, E2, n2, a2, dT);
     // At the edge the closed form is evaluated half an element out, as the elements are.
     const h = (100 * a) / 8000;
@@ -106,7 +108,7 @@ describe('stress around a via (cylinder in a matrix, plane strain)', () => {
 });
 
 describe('wafer bow (Stoney, biaxial)', () => {
-  it('uses silicon biaxial moduli of 180.5 GPa (001) and 229 GPa (111)', () => {
+  it('uses silicon biaxial moduli of 180.3 GPa (001) and 229.1 GPa (111)', () => {
     expect(siliconBiaxialModulus('001') / 1e9).toBeCloseTo(180.3, 0);
     expect(siliconBiaxialModulus('111') / 1e9).toBeCloseTo(229.1, 0);
   });
@@ -163,8 +165,9 @@ describe('keep-out radius and bow of a via structure', () => {
     for (let j = 0; j < fig.n; j++) {
       for (let i = 0; i < fig.n; i++) {
         const v = fig.values[j * fig.n + i];
-        const x = -fig.extent + (2 * fig.extent * i) / (fig.n - 1);
-        const y = fig.extent - (2 * fig.extent * j) / (fig.n - 1);
+        // Cell centres of an n × n grid over the square (the renderer draws cells of side 2·extent/n).
+        const x = -fig.extent + ((i + 0.5) * 2 * fig.extent) / fig.n;
+        const y = fig.extent - ((j + 0.5) * 2 * fig.extent) / fig.n;
         const r = Math.hypot(x, y);
         if (v === null || v === undefined) {
           expect(r).toBeLessThanOrEqual(5e-6 + 1e-12);
@@ -183,8 +186,16 @@ describe('keep-out radius and bow of a via structure', () => {
     expect(inside).toBeGreaterThan(0);
   });
 
-  it('bounds the protrusion by the free expansion mismatch (hand: 14.1 ppm/K × 300 K × 50 µm = 211.5 nm)', () => {
-    expect(q['thermomech.protrusion']?.value).toBeCloseTo(211.5e-9, 12);
+  it('raises the conductor by the mismatch plus its Poisson push (hand: 211.5 nm × 1.36925 = 289.6 nm)', () => {
+    // Free mismatch 14.1 ppm/K × 300 K × 50 µm = 211.5 nm; Poisson factor
+    // 1 + (2·0.34/120)/(0.66/120 + 1.28/130) = 1 + 0.0056667/0.0153462 = 1.36925 (hand, GPa⁻¹ units).
+    expect(q['thermomech.protrusion']?.value).toBeCloseTo(289.6e-9, 10);
+  });
+
+  it('matches rigid silicon and free expansion at the limits of the protrusion estimate', () => {
+    // Rigid silicon (E₂ → ∞): factor (1 + ν₁)/(1 − ν₁); ν₁ = 0: no Poisson push, the free mismatch.
+    expectRel(freeSlidingProtrusion(120e9, 0.34, 16.7e-6, 1e30, 0.28, 2.6e-6, 300, 50e-6), 211.5e-9 * (1.34 / 0.66), 9);
+    expectRel(freeSlidingProtrusion(120e9, 0, 16.7e-6, 130e9, 0.28, 2.6e-6, 300, 50e-6), 211.5e-9, 9);
   });
 
   it('bows the wafer as Stoney’s equation says (hand: 124.7 µm for 250 MPa × 0.8 µm on 775 µm, 300 mm)', () => {

@@ -66,9 +66,9 @@ function mobilityMap(channel: Channel, s0: number, a: number, keepOut: number, t
   const extent = 1.5 * Math.max(keepOut, 2 * a);
   const values: Array<number | null> = [];
   for (let j = 0; j < n; j++) {
-    const y = extent - (2 * extent * j) / (n - 1);
+    const y = extent - ((j + 0.5) * 2 * extent) / n;
     for (let i = 0; i < n; i++) {
-      const x = -extent + (2 * extent * i) / (n - 1);
+      const x = -extent + ((i + 0.5) * 2 * extent) / n;
       values.push(x * x + y * y <= a * a ? null : mobilityShiftAt(channel, s0, a, x, y));
     }
   }
@@ -200,25 +200,36 @@ function channelQuantities(channel: Channel): QuantityDef[] {
   return [shift, koz];
 }
 
+/**
+ * Axial rise of a conductor that slides freely along its liner (σ_zz = 0 in it) while the silicon
+ * holds it radially: with the in-plane pressure of the inclusion solution under σ_zz = 0,
+ * σ_in = −(α₁ − α₂)ΔT/[(1 − ν₁)/E₁ + (1 + ν₂)/E₂], the conductor's extra axial strain is
+ * (α₁ − α₂)ΔT − 2ν₁σ_in/E₁ [derived from the same inclusion solution].
+ */
+export function freeSlidingProtrusion(e1: number, nu1: number, a1: number, e2: number, nu2: number, a2: number, dT: number, depth: number): number {
+  const poisson = (2 * nu1) / e1 / ((1 - nu1) / e1 + (1 + nu2) / e2);
+  return (a1 - a2) * Math.abs(dT) * depth * (1 + poisson);
+}
+
 const protrusion: QuantityDef = {
   name: 'thermomech.protrusion',
   title: 'Conductor protrusion during the anneal',
   unit: 'm',
   symbol: '\\Delta h',
-  description: 'How far the conductor rises above the silicon surface at the anneal temperature if it slides freely along the liner: the free difference in thermal expansion over the via depth. Part of it stays after cooling where the conductor yields near the top.',
-  source: 'Free differential thermal expansion over the via depth, the elementary elastic upper bound; measured protrusions to compare with: Heryanto et al., J. Electron. Mater. (2012), doi:10.1007/s11664-012-2117-3',
+  description: 'How far the conductor rises above the silicon surface at the anneal temperature if it slides freely along the liner while the silicon holds it radially: the expansion mismatch over the via depth plus the Poisson push of the radial pressure. Part of it stays after cooling where the conductor yields near the top.',
+  source: 'Elastic estimate derived from the cylinder-in-a-matrix solution (Timoshenko & Goodier, Theory of Elasticity) with a freely sliding conductor (σ_zz = 0); measured protrusions to compare with: Heryanto et al., J. Electron. Mater. (2012), doi:10.1007/s11664-012-2117-3',
   assumptions: [
-    'Upper bound: the liner lets the conductor slide and the silicon does not hold it back; measured protrusions after cooling are usually a fraction of it.',
-    'The anneal excursion is the size of the stated temperature change.',
+    'Elastic, with the liner letting the conductor slide; plastic flow near the top, grain growth and the liner’s shear hold change the measured value either way.',
+    'The anneal excursion is the size of the stated temperature change; a negative value means the conductor sinks below the surface.',
   ],
   better: 'lower',
   variant: (shape) =>
     viaOnly(shape) ??
     variant({
-      inputs: { a1: 'via.conductor_thermal_expansion', a2: 'materials.substrate.thermal_expansion', dT: 'anneal.temperature_change', depth: 'geometry.depth' },
+      inputs: { ...stressInputs, depth: 'geometry.depth' },
       symbols: SYMBOLS,
-      formula: '\\Delta h = (\\alpha_1 - \\alpha_2)\\,|\\Delta T|\\,h',
-      compute: ({ a1, a2, dT, depth }) => Math.max(0, (a1 - a2) * Math.abs(dT) * depth),
+      formula: '\\Delta h = (\\alpha_1 - \\alpha_2)\\,|\\Delta T|\\,h\\left[1 + \\frac{2\\nu_1/E_1}{(1-\\nu_1)/E_1 + (1+\\nu_2)/E_2}\\right]',
+      compute: ({ e1, nu1, a1, e2, nu2, a2, dT, depth }) => freeSlidingProtrusion(e1, nu1, a1, e2, nu2, a2, dT, depth),
     }),
 };
 
