@@ -1,6 +1,6 @@
 // What an engine declares. A quantity is a named, sourced formula over SI numbers; the checker and
 // the report read only these declarations, never a specific engine.
-import type { ArrayLayout, CellShape, DepositionShape, DryingShape, EtchShape, FillShape, Kind } from '../model/types.ts';
+import type { ShapeFacts } from '../model/types.ts';
 
 /** A result that has no finite value for this structure, with the reason shown to the reader. */
 export interface NoValue {
@@ -60,18 +60,8 @@ export function noValue(reason: string, unbounded?: 'above' | 'below'): NoValue 
   return unbounded ? { value: null, reason, unbounded } : { value: null, reason };
 }
 
-/** The shape facts a quantity may branch on (never numbers: those are inputs). */
-export interface Shape {
-  kind: Kind;
-  array?: ArrayLayout;
-  drying?: DryingShape;
-  etch?: EtchShape;
-  deposition?: DepositionShape;
-  fill?: FillShape;
-  cell?: CellShape;
-  via?: true;
-  isolation?: true;
-  waferOrientation?: '001' | '111';
+/** The shape facts a quantity may branch on, and the film step it is evaluated for. */
+export interface Shape extends ShapeFacts {
   /** The film step a rule (or a per-step listing) selects, for quantities of one film step. */
   film?: string;
 }

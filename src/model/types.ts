@@ -81,9 +81,8 @@ export interface FillShape {
   method: 'conformal' | 'sticking-limited' | 'bottom-up';
 }
 
-export interface Structure {
-  id: string;
-  title: string;
+/** The facts of a structure's shape that decide which formulas apply (never numbers: those are inputs). */
+export interface ShapeFacts {
   kind: Kind;
   array?: ArrayLayout;
   drying?: DryingShape;
@@ -97,6 +96,11 @@ export interface Structure {
   isolation?: true;
   /** Wafer orientation, when a `wafer:` block gives it. */
   waferOrientation?: '001' | '111';
+}
+
+export interface Structure extends ShapeFacts {
+  id: string;
+  title: string;
   tags: string[];
   description?: string;
   /** Numeric inputs by dotted path. */
