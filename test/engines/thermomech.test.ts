@@ -7,10 +7,10 @@
 // - Stoney's equation evaluated by hand (no textbook worked example was reachable);
 // - the keep-out radius against the mobility map it is solved from.
 import { describe, expect, it } from 'vitest';
-import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { freeSlidingProtrusion, piezo, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 import type { Param } from '../../src/model/types.ts';
-import { expectRel, makeStructure, um } from '../helpers.ts';
+import { expectRel, makeRule, makeStructure, um } from '../helpers.ts';
 
 describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
   it('matches the published table', () => {
@@ -207,3 +207,27 @@ describe('keep-out radius and bow of a via structure', () => {
     expectRel(q['thermomech.bow_margin']?.value, 50e-6 / ((kappa * 0.15 * 0.15) / 2), 12);
   });
 });
+
+describe('validity flags on the verdict', () => {
+  // Plane strain holds deep below the surface; a via under three diameters deep is flagged
+  // (the classical solution's own assumption, Timoshenko & Goodier).
+  const warningsFor = (depth: number) => {
+    const s = makeStructure('via', { cd: 10 * um, depth: depth * um }, { array: 'square' });
+    const pos = { file: 'test', line: 1, column: 1 };
+    const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+    set('via.conductor_youngs_modulus', 120e9);
+    set('via.conductor_poisson_ratio', 0.34);
+    set('via.conductor_thermal_expansion', 16.7e-6);
+    set('materials.substrate.youngs_modulus', 130e9);
+    set('materials.substrate.poisson_ratio', 0.28);
+    set('materials.substrate.thermal_expansion', 2.6e-6);
+    set('anneal.temperature_change', -100);
+    const v = evaluateRule(makeRule({ quantity: 'thermomech.via_stress', comparison: 'at_most', limit: 1e9 }), s, new PlanCache());
+    return v.trace!.steps.flatMap((st) => st.warnings).join(' ');
+  };
+  it('flags a via shallower than three diameters and not a deep one', () => {
+    expect(warningsFor(20)).toMatch(/plane strain/);
+    expect(warningsFor(50)).toBe('');
+  });
+});
+
