@@ -77,6 +77,16 @@ function isMapping(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
+/** Shorter names a block may use for a material property (`expansion` for `thermal_expansion`). */
+const PROPERTY_ALIASES: Record<string, string> = { thermal_expansion: 'expansion' };
+
+/** A material property as written in a block, under its own name or its alias, with the key used. */
+function writtenProperty(block: Record<string, unknown>, prop: string): { key: string; raw: unknown } | undefined {
+  if (block[prop] !== undefined) return { key: prop, raw: block[prop] };
+  const alias = PROPERTY_ALIASES[prop];
+  return alias !== undefined && block[alias] !== undefined ? { key: alias, raw: block[alias] } : undefined;
+}
+
 function jsonType(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
@@ -391,11 +401,11 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
     if (isInline) {
       for (const [prop, spec] of Object.entries(MATERIAL_PROPERTIES)) {
-        const val = (use as Record<string, unknown>)[prop] ?? (prop === 'thermal_expansion' ? (use as Record<string, unknown>).expansion : undefined);
-        if (val === undefined) continue;
-        const written = (use as Record<string, unknown>)[prop] !== undefined ? prop : 'expansion';
-        const r = readValue(report, `/materials/${role}/${written}`, val, spec);
-        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/materials/${role}/${written}`) } });
+        const w = writtenProperty(use as Record<string, unknown>, prop);
+        if (!w) continue;
+        const pointer = `/materials/${role}/${w.key}`;
+        const r = readValue(report, pointer, w.raw, spec);
+        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
       }
     }
   }
@@ -648,12 +658,12 @@ function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | un
     inline('/via/conductor/resistivity', v.conductor.resistivity, 'via.conductor_resistivity');
     for (const prop of Object.keys(VIA_CONDUCTOR_MECH)) {
       fromMaterial('/via/conductor/material', v.conductor.material, prop, `via.conductor_${prop}`);
-      const key = prop === 'thermal_expansion' ? 'expansion' : prop;
-      const raw = v.conductor[key];
-      if (raw === undefined) continue;
+      const w = writtenProperty(v.conductor, prop);
+      if (!w) continue;
       const spec = VIA_CONDUCTOR_MECH[prop]!;
-      const r = readValue(report, `/via/conductor/${key}`, raw, spec);
-      if (r) params.set(`via.conductor_${prop}`, { name: `via.conductor_${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/via/conductor/${key}`) } });
+      const pointer = `/via/conductor/${w.key}`;
+      const r = readValue(report, pointer, w.raw, spec);
+      if (r) params.set(`via.conductor_${prop}`, { name: `via.conductor_${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
     }
   }
   if (isMapping(v.liner)) {

@@ -114,17 +114,25 @@ describe('wafer bow (Stoney, biaxial)', () => {
   });
 });
 
-describe('keep-out radius and bow of a via structure', () => {
-  const s = makeStructure('via', { cd: 10 * um, depth: 50 * um }, { array: 'square' });
+/** A 10 µm copper via in isotropic silicon (E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K). */
+function copperVia(depth: number, dT: number): { s: ReturnType<typeof makeStructure>; set: (name: string, value: number) => void } {
+  const s = makeStructure('via', { cd: 10 * um, depth }, { array: 'square' });
   const pos = { file: 'test', line: 1, column: 1 };
-  const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+  const set = (name: string, value: number) => {
+    s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+  };
   set('via.conductor_youngs_modulus', 120e9);
   set('via.conductor_poisson_ratio', 0.34);
   set('via.conductor_thermal_expansion', 16.7e-6);
   set('materials.substrate.youngs_modulus', 130e9);
   set('materials.substrate.poisson_ratio', 0.28);
   set('materials.substrate.thermal_expansion', 2.6e-6);
-  set('anneal.temperature_change', -300);
+  set('anneal.temperature_change', dT);
+  return { s, set };
+}
+
+describe('keep-out radius and bow of a via structure', () => {
+  const { s, set } = copperVia(50 * um, -300);
   set('keep_out.mobility_shift', 0.05);
   set('film.stress', 250e6);
   set('film.thickness', 0.8e-6);
@@ -212,16 +220,7 @@ describe('validity flags on the verdict', () => {
   // Plane strain holds deep below the surface; a via under three diameters deep is flagged
   // (the classical solution's own assumption, Timoshenko & Goodier).
   const warningsFor = (depth: number) => {
-    const s = makeStructure('via', { cd: 10 * um, depth: depth * um }, { array: 'square' });
-    const pos = { file: 'test', line: 1, column: 1 };
-    const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
-    set('via.conductor_youngs_modulus', 120e9);
-    set('via.conductor_poisson_ratio', 0.34);
-    set('via.conductor_thermal_expansion', 16.7e-6);
-    set('materials.substrate.youngs_modulus', 130e9);
-    set('materials.substrate.poisson_ratio', 0.28);
-    set('materials.substrate.thermal_expansion', 2.6e-6);
-    set('anneal.temperature_change', -100);
+    const { s } = copperVia(depth * um, -100);
     const v = evaluateRule(makeRule({ quantity: 'thermomech.via_stress', comparison: 'at_most', limit: 1e9 }), s, new PlanCache());
     return v.trace!.steps.flatMap((st) => st.warnings).join(' ');
   };
