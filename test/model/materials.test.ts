@@ -79,6 +79,26 @@ describe('handbook materials', () => {
     expect((cte.origin as { source: string }).source).toMatch(/Okada/);
   });
 
+  it('reads `expansion` as thermal_expansion inline and on a via conductor, with its own position', () => {
+    // Values written in the file (copper's 16.7 ppm/K is from memory); the check is that the alias
+    // lands on the right input and its origin points at the line where it is written.
+    const dir = mkdtempSync(join(tmpdir(), 'plumbline-mat-'));
+    cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+    writeFileSync(
+      join(dir, 'structures', 'test-via.yaml'),
+      'id: test-via\ntitle: Test via\nkind: via\ngeometry:\n  cd: 10 um\n  depth: 50 um\nvia:\n  conductor: { material: copper, expansion: 16.7e-6 /K }\n  liner: { material: silicon-dioxide, thickness: 200 nm }\nmaterials:\n  substrate: { material: silicon, expansion: 2.6 ppm/K }\n',
+    );
+    const r = loadHandbook(dir);
+    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+    const s = r.handbook.structures.find((x) => x.id === 'test-via')!;
+    const cu = s.params.get('via.conductor_thermal_expansion')!;
+    const si = s.params.get('materials.substrate.thermal_expansion')!;
+    expect(cu.value).toBeCloseTo(16.7e-6, 12);
+    expect(si.value).toBeCloseTo(2.6e-6, 12);
+    expect(cu.origin).toMatchObject({ type: 'handbook', pos: { line: 8 } });
+    expect(si.origin).toMatchObject({ type: 'handbook', pos: { line: 11 } });
+  });
+
   it('an unknown based_on is an unknown-material diagnostic with a suggestion', () => {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-mat-'));
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
