@@ -1,4 +1,4 @@
-// The report in a real browser: Debian's chromium, driven by playwright-core. A reviewer opens the
+// The report in a real browser: chromium (see ./chromium.ts for which), driven by playwright-core. A reviewer opens the
 // matrix, follows a failing cell to its derivation and finds the worst corner there.
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -8,9 +8,9 @@ import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checkHandbook } from '../../src/pipeline.ts';
 import { buildSite } from '../../src/report/site.ts';
+import { CHROMIUM_FLAGS, findChromium } from './chromium.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
-const CHROMIUM = process.env.PLUMBLINE_CHROMIUM ?? '/usr/bin/chromium';
 let browser: Browser;
 let site: string;
 let keepOutP110: number | null = null;
@@ -21,10 +21,7 @@ beforeAll(async () => {
   if (!outcome.ok) throw new Error('demo handbook does not load');
   keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);
-  browser = await chromium.launch({
-    executablePath: CHROMIUM,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
+  browser = await chromium.launch({ executablePath: (await findChromium()).path, args: CHROMIUM_FLAGS });
 }, 120_000);
 
 afterAll(async () => {
