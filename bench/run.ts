@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { evaluateHandbook } from '../src/checker/evaluate.ts';
-import { loadHandbook } from '../src/model/load.ts';
+import { loadHandbookFolder } from '../src/model/folder-source.ts';
 import { buildSite } from '../src/report/site.ts';
 
 const KINDS = [
@@ -91,16 +91,16 @@ function writeEtchHandbook(structures: number): string {
 }
 
 const big = writeHandbook(1000, 100);
-const etch = loadHandbook(writeEtchHandbook(200));
+const etch = loadHandbookFolder(writeEtchHandbook(200));
 if (!etch.ok) throw new Error(JSON.stringify(etch.diagnostics.slice(0, 3)));
-const collapse = loadHandbook(writeCollapseHandbook(200));
+const collapse = loadHandbookFolder(writeCollapseHandbook(200));
 if (!collapse.ok) throw new Error(JSON.stringify(collapse.diagnostics.slice(0, 3)));
-const loaded = loadHandbook(big);
+const loaded = loadHandbookFolder(big);
 if (!loaded.ok) throw new Error(JSON.stringify(loaded.diagnostics.slice(0, 3)));
 const mid = process.env.BENCH_SITE === "0" ? "" : writeHandbook(200, 100);
 
 const cases: Case[] = [
-  { name: 'load and validate 1,000 structure files and 100 rules', targetMs: 3000, run: () => void loadHandbook(big) },
+  { name: 'load and validate 1,000 structure files and 100 rules', targetMs: 3000, run: () => void loadHandbookFolder(big) },
   {
     name: 'evaluate 100,000 verdicts with tolerance corners',
     targetMs: 1000,
@@ -123,7 +123,7 @@ const cases: Case[] = [
     name: 'build the site for 200 structures × 100 rules (matrix of 20,000 cells)',
     targetMs: 120_000,
     run: async () => {
-      const h = loadHandbook(mid);
+      const h = loadHandbookFolder(mid);
       if (!h.ok) throw new Error('bench handbook invalid');
       await buildSite(h.handbook, evaluateHandbook(h.handbook), join(mid, 'site'));
     },

@@ -20,6 +20,7 @@ import { loadHandbook, type LoadResult } from './model/load.ts';
 import { evaluateHandbook, type Results } from './checker/evaluate.ts';
 import type { Diagnostic } from './diagnostics/diagnostic.ts';
 import type { Handbook } from './model/types.ts';
+import type { HandbookSource } from './model/source.ts';
 
 export { loadHandbook, evaluateHandbook };
 
@@ -27,16 +28,20 @@ export type CheckOutcome =
   | { ok: false; diagnostics: Diagnostic[] }
   | { ok: true; handbook: Handbook; results: Results };
 
-/** Load and evaluate: everything `check` needs. */
-export function checkHandbook(root: string): CheckOutcome {
-  const loaded: LoadResult = loadHandbook(root);
+/** Load and evaluate: everything `check` needs. The source says where the files come from. */
+export function checkHandbook(source: HandbookSource): CheckOutcome {
+  const loaded: LoadResult = loadHandbook(source);
   if (!loaded.ok) return loaded;
   return { ok: true, handbook: loaded.handbook, results: evaluateHandbook(loaded.handbook) };
 }
 
-/** Exit codes: 0 clean, 1 a blocking rule fails, 2 the handbook cannot be loaded, 3 our own bug. */
-export function exitCodeFor(outcome: CheckOutcome | { bug: true }): 0 | 1 | 2 | 3 {
+/**
+ * Exit codes: 0 clean, 1 a blocking rule fails, 2 the handbook cannot be loaded or the command was
+ * refused (an output folder plumbline does not own, a busy port), 3 our own bug.
+ */
+export function exitCodeFor(outcome: CheckOutcome | { bug: true } | { refused: true }): 0 | 1 | 2 | 3 {
   if ('bug' in outcome) return 3;
+  if ('refused' in outcome) return 2;
   if (!outcome.ok) return 2;
   return outcome.results.blockingFailures > 0 ? 1 : 0;
 }

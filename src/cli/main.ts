@@ -1,14 +1,15 @@
 // The `plumbline` command: a thin shell over the pipeline. Each command renders records the core
 // returns as text or JSON; exit codes come from exitCodeFor().
-import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import process from 'node:process';
-import { Command, Option } from 'commander';
+import { Command, InvalidArgumentError, Option } from 'commander';
 import { evaluateRule, evaluateStructure, PlanCache } from '../checker/evaluate.ts';
-import { formatDiagnostics } from '../diagnostics/messages.ts';
-import { loadStructureFile } from '../model/load.ts';
+import type { Diagnostic } from '../diagnostics/diagnostic.ts';
+import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
+import { FolderSource, SingleFileSource } from '../model/folder-source.ts';
+import { loadHandbook, loadStructure } from '../model/load.ts';
 import type { Structure } from '../model/types.ts';
-import { checkHandbook, exitCodeFor, loadHandbook } from '../pipeline.ts';
+import { checkHandbook, exitCodeFor } from '../pipeline.ts';
 import { renderCheckSummary, renderExplain, renderStructureQuantities } from './text.ts';
 
 interface Io {
@@ -16,8 +17,41 @@ interface Io {
   err: (s: string) => void;
 }
 
+/** Stops the command, says why on stderr and exits 2; nothing was changed (see report/publish.ts). */
+class Refused extends Error {}
+
 function rootOf(cmd: Command): string {
   return resolve(String(cmd.optsWithGlobals().root ?? '.'));
+}
+
+/** Ports: a whole number 0–65535 (0 asks the system for a free one). */
+export function parsePort(text: string): number {
+  if (!/^\d{1,5}$/.test(text.trim()) || Number(text) > 65535) throw new InvalidArgumentError('expected a port number from 0 to 65535 (0 picks a free one)');
+  return Number(text);
+}
+
+/** File-system failures while writing a report are the machine's, not ours: say which, exit 2. */
+const WRITE_PROBLEMS: Record<string, string> = {
+  ENOSPC: 'the disk is full',
+  EDQUOT: 'the disk quota is exhausted',
+  EACCES: 'permission denied',
+  EPERM: 'permission denied',
+  EROFS: 'the file system is read-only',
+  ENAMETOOLONG: 'a path is too long for the file system',
+  EMFILE: 'too many open files',
+};
+
+function writeProblem(err: unknown): string | undefined {
+  // Eleventy wraps the system error; follow the chain of causes to it.
+  for (let e = err as (NodeJS.ErrnoException & { originalError?: unknown }) | undefined, depth = 0; e && depth < 8; e = (e.cause ?? e.originalError) as typeof e, depth++) {
+    const what = typeof e.code === 'string' ? WRITE_PROBLEMS[e.code] : undefined;
+    if (what) return `the report could not be written: ${what} (${e.code}${e.path ? ` at ${e.path}` : ''}); the previous report, if any, is untouched`;
+  }
+  return undefined;
+}
+
+function printWarnings(io: Io, warnings: Diagnostic[]): void {
+  if (warnings.length) io.err(formatWarnings(warnings));
 }
 
 /** Builds the program; `run` is exported for tests, which pass their own io. */
@@ -34,12 +68,14 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .description('evaluate every rule on every structure; exit 0 when no blocking rule fails, 1 when one does, 2 when the handbook cannot be loaded')
     .option('--json', 'print the verdicts as JSON (SI values)')
     .action((opts: { json?: boolean }, cmd: Command) => {
-      const outcome = checkHandbook(rootOf(cmd));
+      const outcome = checkHandbook(new FolderSource(rootOf(cmd)));
       if (!outcome.ok) io.err(formatDiagnostics(outcome.diagnostics));
-      else if (opts.json) {
+      else {
         const { handbook, results } = outcome;
-        io.out(JSON.stringify({ handbook: handbook.meta.title, counts: results.counts, blocking_failures: results.blockingFailures, verdicts: results.verdicts }, null, 2));
-      } else io.out(renderCheckSummary(outcome.handbook, outcome.results));
+        printWarnings(io, handbook.warnings);
+        if (opts.json) io.out(JSON.stringify({ handbook: handbook.meta.title, counts: results.counts, blocking_failures: results.blockingFailures, warnings: handbook.warnings, verdicts: results.verdicts }, null, 2));
+        else io.out(renderCheckSummary(handbook, results));
+      }
       setExit(exitCodeFor(outcome));
     });
 
@@ -51,22 +87,26 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .action((target: string, opts: { json?: boolean }, cmd: Command) => {
       const root = rootOf(cmd);
       let structure: Structure | undefined;
-      if (existsSync(target) && /\.ya?ml$/.test(target)) {
-        const r = loadStructureFile(resolve(target), root);
+      if (/\.ya?ml$/i.test(target)) {
+        // A file named on the command line: that one regular file, under the loader's size limit.
+        const file = new SingleFileSource(resolve(target));
+        const r = loadStructure(file, file.file, new FolderSource(root));
         if (!r.ok) {
           io.err(formatDiagnostics(r.diagnostics));
           return setExit(2);
         }
+        printWarnings(io, r.warnings);
         structure = r.structure;
       } else {
-        const loaded = loadHandbook(root);
+        const loaded = loadHandbook(new FolderSource(root));
         if (!loaded.ok) {
           io.err(formatDiagnostics(loaded.diagnostics));
           return setExit(2);
         }
+        printWarnings(io, loaded.handbook.warnings);
         structure = loaded.handbook.structures.find((s) => s.id === target);
         if (!structure) {
-          io.err(`no structure "${target}" in ${root} (and no such file)`);
+          io.err(`no structure "${target}" in ${root} (and no such .yaml file)`);
           return setExit(2);
         }
       }
@@ -82,11 +122,12 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .argument('<rule>', 'rule id')
     .argument('<structure>', 'structure id')
     .action((ruleId: string, structureId: string, _opts: unknown, cmd: Command) => {
-      const loaded = loadHandbook(rootOf(cmd));
+      const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
       if (!loaded.ok) {
         io.err(formatDiagnostics(loaded.diagnostics));
         return setExit(2);
       }
+      printWarnings(io, loaded.handbook.warnings);
       const rule = loaded.handbook.rules.find((r) => r.id === ruleId);
       const s = loaded.handbook.structures.find((x) => x.id === structureId);
       if (!rule || !s) {
@@ -99,30 +140,52 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
 
   program
     .command('build')
-    .description('publish the report as a static site (written atomically; an invalid handbook leaves the old site untouched)')
-    .option('--out <dir>', 'output folder', 'site')
+    .description('publish the report as a static site (written aside and swapped in; an invalid handbook leaves the old report untouched)')
+    .option('--out <dir>', 'output folder: absent, empty, or a report plumbline wrote', 'site')
     .action(async (opts: { out: string }, cmd: Command) => {
       const root = rootOf(cmd);
-      const outcome = checkHandbook(root);
+      const outcome = checkHandbook(new FolderSource(root));
       if (!outcome.ok) {
         io.err(formatDiagnostics(outcome.diagnostics));
         return setExit(2);
       }
+      printWarnings(io, outcome.handbook.warnings);
       const { buildSite } = await import('../report/site.ts');
+      const { Refusal } = await import('../report/publish.ts');
       const out = resolve(root, opts.out);
-      const stats = await buildSite(outcome.handbook, outcome.results, out);
-      io.out(`wrote ${stats.pages} pages to ${out}\nopen ${resolve(out, 'index.html')}`);
-      setExit(0);
+      try {
+        const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline build', onWait: (h) => io.err(`waiting for another build of ${out} (pid ${h.pid}, started ${h.started}) to finish`) });
+        stats.recovered.forEach((n) => io.err(n));
+        io.out(`wrote ${stats.pages} pages to ${out}\nopen ${resolve(out, 'index.html')}`);
+        setExit(0);
+      } catch (err) {
+        const problem = err instanceof Refusal ? err.message : writeProblem(err);
+        if (problem === undefined) throw err;
+        throw new Refused(problem);
+      }
     });
 
   program
     .command('serve')
-    .description('build, serve the report on localhost and rebuild when handbook files change')
-    .option('--out <dir>', 'output folder', 'site')
-    .option('--port <n>', 'port', '8084')
-    .action(async (opts: { out: string; port: string }, cmd: Command) => {
+    .description('build, serve the report on 127.0.0.1 and rebuild when handbook files change')
+    .option('--out <dir>', 'output folder: absent, empty, or a report plumbline wrote', 'site')
+    .option('--port <n>', 'port (0 picks a free one)', parsePort, 8084)
+    .action(async (opts: { out: string; port: number }, cmd: Command) => {
       const { serveSite } = await import('../report/serve.ts');
-      await serveSite(rootOf(cmd), resolve(rootOf(cmd), opts.out), Number(opts.port), io);
+      const { Refusal } = await import('../report/publish.ts');
+      let serving;
+      try {
+        serving = await serveSite(rootOf(cmd), resolve(rootOf(cmd), opts.out), opts.port, io);
+      } catch (err) {
+        if (err instanceof Refusal) throw new Refused(err.message);
+        throw err;
+      }
+      await new Promise<void>((done) => {
+        const stop = () => void serving.close().then(done);
+        process.once('SIGINT', stop);
+        process.once('SIGTERM', stop);
+      });
+      setExit(0);
     });
 
   return program;
@@ -138,8 +201,12 @@ export async function run(argv: string[], io: Io): Promise<number> {
     if (typeof e.code === 'string' && e.code.startsWith('commander.')) {
       return e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help' ? 0 : 2;
     }
+    if (err instanceof Refused) {
+      io.err(`plumbline: ${err.message}`);
+      return exitCodeFor({ refused: true });
+    }
     io.err(`plumbline: internal error (please report it): ${(err as Error).stack ?? String(err)}`);
-    return 3;
+    return exitCodeFor({ bug: true });
   }
   return code;
 }

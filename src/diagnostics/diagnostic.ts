@@ -18,7 +18,25 @@ export type DiagnosticCode =
   | 'unknown-quantity'
   | 'unknown-material'
   | 'unknown-unit'
-  | 'no-handbook';
+  | 'offset-unit'
+  | 'id-too-long'
+  | 'relation-at-tolerance'
+  | 'no-handbook'
+  // Reading files (errors):
+  | 'not-a-folder'
+  | 'not-a-regular-file'
+  | 'outside-handbook'
+  | 'file-too-large'
+  | 'not-utf8'
+  // Warnings: loading goes on, the problem is named.
+  | 'not-loaded';
+
+/** Codes that warn: the handbook still loads, and every command says what was left out. */
+export const WARNING_CODES: ReadonlySet<DiagnosticCode> = new Set(['not-loaded']);
+
+export function isWarning(d: Diagnostic): boolean {
+  return WARNING_CODES.has(d.code);
+}
 
 export interface Diagnostic {
   code: DiagnosticCode;
@@ -35,6 +53,9 @@ export interface Diagnostic {
   suggestions?: string[];
   /** For duplicate ids: the other place. */
   other?: { file: string; line: number; column: number };
+  /** For a reference to another item (a material, a structure, a film step): which. A reference to
+   * an item that was written but failed to load is a consequence of that failure and is dropped. */
+  refersTo?: { kind: 'material' | 'structure' | 'film'; id: string };
 }
 
 /** Locale-independent string order, so output is byte-identical on every machine. */

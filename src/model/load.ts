@@ -1,13 +1,10 @@
 // Load a handbook folder: read → parse (YAML with positions) → validate (JSON Schema) → normalize
 // (units to SI, materials resolved, cross-references checked). Every problem becomes a diagnostic
 // and loading carries on, so one run reports them all.
-import { readFileSync, readdirSync, existsSync, statSync } from 'node:fs';
-import process from 'node:process';
-import { join, relative, basename, extname } from 'node:path';
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import { closest, distance } from 'fastest-levenshtein';
 import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
-import { byCodePoint, sortDiagnostics } from '../diagnostics/diagnostic.ts';
+import { byCodePoint, isWarning, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
 import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, THERMOMECH_PARAMS, VIA_CONDUCTOR_MECH, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
@@ -35,8 +32,11 @@ import {
 } from './types.ts';
 import { formatValue } from '../report/format.ts';
 import { isUnitProblem, parseValue } from './units.ts';
+import { checkRelation, describeCorner, structureRelations, type Relation } from './relations.ts';
 import { isYamlFailure, parseYamlSource, pointerToField, positionOf, type YamlSource } from './yaml-source.ts';
+import { baseName, decodeUtf8, extName, type HandbookSource } from './source.ts';
 
+/** A handbook (with the warnings of its loading in `handbook.warnings`), or every problem found. */
 export type LoadResult = { ok: true; handbook: Handbook } | { ok: false; diagnostics: Diagnostic[] };
 
 let validators: { structure: ValidateFunction; rule: ValidateFunction; materials: ValidateFunction; handbook: ValidateFunction } | undefined;
@@ -189,34 +189,92 @@ function describePattern(schemaPath: string): string {
   return 'an id of letters, digits and single dashes (lower-case for structures, upper-case for rules)';
 }
 
-function listYaml(dir: string): string[] {
-  if (!existsSync(dir) || !statSync(dir).isDirectory()) return [];
-  return readdirSync(dir)
-    .filter((f) => ['.yaml', '.yml'].includes(extname(f)))
-    .sort()
-    .map((f) => join(dir, f));
-}
-
 interface Loaded {
   src: YamlSource;
   report: FileReport;
 }
 
-function readAndParse(root: string, path: string, out: Diagnostic[]): Loaded | null {
-  const file = relative(root, path) || basename(path);
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (err) {
-    out.push({ code: 'file-unreadable', file, line: 1, column: 1, field: '', found: (err as Error).message });
+/** Read (regular files inside the handbook only), decode (strict UTF-8) and parse with positions. */
+function readAndParse(source: HandbookSource, path: string, out: Diagnostic[]): Loaded | null {
+  const at = { file: path, line: 1, column: 1, field: '' };
+  const read = source.read(path);
+  if (!read.ok) {
+    out.push({ ...at, code: read.problem.code, found: read.problem.found });
     return null;
   }
-  const parsed = parseYamlSource(file, text);
+  const decoded = decodeUtf8(read.bytes);
+  if (!decoded.ok) {
+    out.push({ ...at, code: 'not-utf8', line: decoded.line, column: decoded.column, found: decoded.found });
+    return null;
+  }
+  const parsed = parseYamlSource(path, decoded.text);
   if (isYamlFailure(parsed)) {
-    out.push({ code: 'yaml-syntax', file, line: parsed.line, column: parsed.column, field: '', found: parsed.reason });
+    out.push({ ...at, code: 'yaml-syntax', line: parsed.line, column: parsed.column, found: parsed.reason });
     return null;
   }
   return { src: parsed, report: new FileReport(parsed, out) };
+}
+
+const isYamlName = (path: string) => ['.yaml', '.yml'].includes(extName(path).toLowerCase());
+/** Editor and system litter (.DS_Store, .x.yaml.swp, emacs lock links): skipped without a word. */
+const isHidden = (path: string) => baseName(path).startsWith('.') && !isYamlName(path);
+/** Deep enough for any sensible grouping; deeper is a link loop. */
+const MAX_FOLDER_DEPTH = 8;
+
+/**
+ * The YAML files of `structures/` or `rules/`, subfolders included. Everything else in them is named
+ * in a warning, so nothing is left out silently; a YAML name that is not a regular file inside the
+ * handbook is kept, and reading it reports why.
+ */
+function discover(source: HandbookSource, dir: string, out: Diagnostic[]): string[] {
+  const kind = source.kindOf(dir);
+  if (kind === 'missing') return [];
+  if (kind !== 'folder') {
+    out.push({ code: 'not-a-folder', file: dir, line: 1, column: 1, field: '', found: `${dir} must be a folder of YAML files` });
+    return [];
+  }
+  const files: string[] = [];
+  const walk = (folder: string, depth: number): void => {
+    for (const e of source.list(folder)) {
+      if (isHidden(e.path)) continue;
+      if (e.kind === 'folder') {
+        if (depth < MAX_FOLDER_DEPTH) walk(e.path, depth + 1);
+        else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `folders nested more than ${MAX_FOLDER_DEPTH} deep are not read (a link loop?)` });
+      } else if (isYamlName(e.path)) files.push(e.path);
+      else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: e.kind === 'file' ? `only .yaml and .yml files are read in ${dir}/` : (e.what ?? 'not a regular file') });
+    }
+  };
+  walk(dir, 1);
+  return files.sort(byCodePoint);
+}
+
+/** Top-level entries that look meant for us under another spelling (`materials.yml`, `Rules/`). */
+function misnamedTopLevel(source: HandbookSource, out: Diagnostic[]): void {
+  const files = ['handbook.yaml', 'materials.yaml'];
+  const folders = ['structures', 'rules'];
+  for (const e of source.list('')) {
+    const name = baseName(e.path);
+    const lower = name.toLowerCase();
+    if (files.includes(name) || folders.includes(name)) continue;
+    const file = files.find((w) => lower === w || lower === w.replace(/\.yaml$/, '.yml'));
+    const folder = folders.find((w) => lower === w || lower === w.replace(/s$/, ''));
+    if (file) out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `the file is read only when named ${file}` });
+    else if (folder && e.kind === 'folder') out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `the folder is read only when named ${folder}/` });
+  }
+}
+
+/** A value quoted back as written: `"32 nm"`, or `.inf` as the file spells it rather than "Infinity". */
+function writtenText(src: YamlSource, pointer: string, raw: unknown): string {
+  if (typeof raw === 'number' && !Number.isFinite(raw)) return sourceSpelling(src, pointer) ?? String(raw);
+  return `"${String(raw)}"`;
+}
+
+/** The characters of a scalar as written in the file (for values whose parsed form reads differently). */
+function sourceSpelling(src: YamlSource, pointer: string): string | undefined {
+  const at = src.places.get(pointer);
+  if (!at) return undefined;
+  const m = /^[^\s,\]}#]+/.exec(src.text.slice(at.valueOffset, at.valueOffset + 40));
+  return m?.[0];
 }
 
 function rangeText(spec: ParamSpec): string {
@@ -235,9 +293,9 @@ function readValue(
   spec: ParamSpec,
 ): { value: number; low?: number; high?: number; written: string } | null {
   if (typeof raw !== 'string' && typeof raw !== 'number') return null; // the schema reported it
-  const parsed = parseValue(raw, spec.unit);
+  const parsed = parseValue(raw, spec.unit, spec.meaning ?? 'absolute');
   if (isUnitProblem(parsed)) {
-    report.add(parsed.code, pointer, { expected: parsed.expected, found: `"${String(raw)}"` });
+    report.add(parsed.code, pointer, { expected: parsed.expected, found: writtenText(report.src, pointer, raw) });
     return null;
   }
   // Every end of the tolerance must lie in the input's domain, and be finite.
@@ -249,13 +307,23 @@ function readValue(
     (spec.max !== undefined && (spec.exclusiveMax ? x >= spec.max - slack : x > spec.max));
   if (ends.some(outside)) {
     const end = outside(parsed.value) ? '' : ' (at an end of its tolerance)';
-    report.add('bad-value', pointer, { expected: `${rangeText(spec)}${end}`, found: `"${String(raw)}"` });
+    report.add('bad-value', pointer, { expected: `${rangeText(spec)}${end}`, found: writtenText(report.src, pointer, raw) });
     return null;
   }
   return { ...parsed, written: String(raw) };
 }
 
-function loadMaterials(root: string, out: Diagnostic[]): Map<string, Material> {
+/** The handbook's materials: the built-in table, then `materials.yaml`. */
+interface MaterialsLoaded {
+  materials: Map<string, Material>;
+  /** Ids written in materials.yaml, loaded or not: a use of one that failed is a consequence of
+   * that failure, not a problem of its own, and is not reported again. */
+  written: Set<string>;
+  /** materials.yaml could not be parsed at all, so no use of an unknown id can be judged. */
+  unreadable: boolean;
+}
+
+function builtInMaterials(): Map<string, Material> {
   const materials = new Map<string, Material>();
   for (const m of BUILT_IN_MATERIALS) {
     const properties: Record<string, MaterialProperty> = {};
@@ -268,18 +336,29 @@ function loadMaterials(root: string, out: Diagnostic[]): Map<string, Material> {
     }
     materials.set(m.id, { id: m.id, title: m.title, properties, origin: 'built-in' });
   }
-  const path = join(root, 'materials.yaml');
-  if (!existsSync(path)) return materials;
-  const loaded = readAndParse(root, path, out);
-  if (!loaded) return materials;
+  return materials;
+}
+
+function loadMaterials(source: HandbookSource, out: Diagnostic[]): MaterialsLoaded {
+  const materials = builtInMaterials();
+  const written = new Set<string>();
+  const path = 'materials.yaml';
+  if (source.kindOf(path) === 'missing') return { materials, written, unreadable: false };
+  const loaded = readAndParse(source, path, out);
+  if (!loaded) return { materials, written, unreadable: true };
   const { src, report } = loaded;
+  const entries = Array.isArray(src.value) ? (src.value as unknown[]) : [];
+  for (const e of entries) if (isMapping(e) && typeof e.id === 'string') written.add(e.id);
   const v = getValidators().materials;
   if (!v(src.value)) {
     reportSchemaErrors(v.errors ?? [], report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES)]);
-    return materials;
+    return { materials, written, unreadable: false };
   }
+  const ids: IdPlace[] = [];
   (src.value as Array<Record<string, unknown>>).forEach((entry, i) => {
     const id = String(entry.id);
+    ids.push({ id, at: report.pos(`/${i}/id`), field: `[${i}].id` });
+    if (ids.some((x, k) => k < ids.length - 1 && x.id === id)) return; // reported below; the first one stands
     const base = entry.based_on !== undefined ? materials.get(String(entry.based_on)) : undefined;
     if (entry.based_on !== undefined && !base) {
       report.add('unknown-material', `/${i}/based_on`, { found: String(entry.based_on), suggestions: suggest(String(entry.based_on), [...materials.keys()]) });
@@ -293,7 +372,46 @@ function loadMaterials(root: string, out: Diagnostic[]): Map<string, Material> {
     }
     materials.set(id, { id, title: String(entry.title), properties, origin: 'handbook', file: src.file });
   });
-  return materials;
+  checkDuplicates(ids, out);
+  return { materials, written, unreadable: false };
+}
+
+/**
+ * A material's property as an input of a structure: value and tolerance together, wherever the
+ * material is used (a role, a liquid, a dielectric, a via conductor or liner). The one place a
+ * material property becomes a Param, so no use can drop the tolerance.
+ */
+function materialParam(name: string, materialId: string, mp: MaterialProperty, pos: SourcePos): Param {
+  return {
+    name,
+    value: mp.value,
+    ...(mp.low !== undefined && mp.high !== undefined ? { low: mp.low, high: mp.high } : {}),
+    unit: mp.unit,
+    written: mp.written,
+    origin: { type: 'material-table', material: materialId, source: mp.source, pos },
+  };
+}
+
+/** An id that names no material; a consequence (and dropped) when materials.yaml failed on that id. */
+function reportUnknownMaterial(report: FileReport, pointer: string, id: string, materials: ReadonlyMap<string, Material>): void {
+  report.add('unknown-material', pointer, { found: id, suggestions: suggest(id, [...materials.keys()]), refersTo: { kind: 'material', id } });
+}
+
+/** Every relation between inputs, at nominal and at every combination of tolerance ends. */
+function checkRelations(report: FileReport, params: ReadonlyMap<string, Param>, relations: Relation[]): void {
+  const reported = new Set<string>();
+  for (const r of relations) {
+    if (reported.has(r.pointer)) continue; // one problem per field is enough to fix it
+    const c = checkRelation(r, params);
+    if (c.ok) continue;
+    reported.add(r.pointer);
+    const first = params.get(r.reads[0]!)!;
+    if (c.at === 'nominal') report.add('bad-value', r.pointer, { expected: r.expected, found: `"${first.written}"` });
+    else {
+      const corner = describeCorner(c.corner, (n) => params.get(n)?.unit ?? '1');
+      report.add('relation-at-tolerance', r.pointer, { expected: `${r.expected} at every end of the tolerances; it fails with ${corner}`, found: `"${first.written}"` });
+    }
+  }
 }
 
 function structureFromFile(loaded: Loaded, materials: Map<string, Material>): Structure | null {
@@ -344,7 +462,8 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const id = String(raw.id);
   const kindKnown = (KINDS as readonly unknown[]).includes(raw.kind);
   const kind = raw.kind as Kind;
-  const stem = basename(src.file, extname(src.file));
+  const fileName = baseName(src.file);
+  const stem = fileName.slice(0, fileName.length - extName(fileName).length);
   if (typeof raw.id === 'string' && stem !== id) report.add('bad-value', '/id', { expected: `the file name "${stem}" (a structure's id is its file name)`, found: `"${id}"` });
 
   const params = new Map<string, Param>();
@@ -368,13 +487,6 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   } else if (array === 'lines') {
     report.add('bad-value', '/geometry/array', { expected: `hexagonal or square for a ${kind}`, found: array });
   }
-  const cd = params.get('geometry.cd');
-  const pitch = params.get('geometry.pitch');
-  const wall = params.get('geometry.wall');
-  if (cd && pitch && pitch.value <= cd.value) report.add('bad-value', '/geometry/pitch', { expected: 'a pitch larger than the CD (neighbours would overlap)', found: `"${pitch.written}"` });
-  const height = params.get('geometry.height');
-  if (cd && wall && 2 * wall.value >= cd.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than half the CD', found: `"${wall.written}"` });
-  else if (height && wall && wall.value >= height.value) report.add('bad-value', '/geometry/wall', { expected: 'a wall thinner than the cylinder is tall', found: `"${wall.written}"` });
 
   const materialRoles: Record<string, string> = {};
   const mats = isMapping(raw.materials) ? raw.materials : {};
@@ -385,19 +497,12 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     const pointer = isInline ? `/materials/${role}/material` : `/materials/${role}`;
     const material = materials.get(materialId);
     if (!material) {
-      report.add('unknown-material', pointer, { found: materialId, suggestions: suggest(materialId, [...materials.keys()]) });
+      reportUnknownMaterial(report, pointer, materialId, materials);
       continue;
     }
     materialRoles[role] = materialId;
     for (const [prop, mp] of Object.entries(material.properties)) {
-      params.set(`materials.${role}.${prop}`, {
-        name: `materials.${role}.${prop}`,
-        value: mp.value,
-        ...(mp.low !== undefined ? { low: mp.low, high: mp.high } : {}),
-        unit: mp.unit,
-        written: mp.written,
-        origin: { type: 'material-table', material: materialId, source: mp.source, pos: report.pos(pointer) },
-      });
+      params.set(`materials.${role}.${prop}`, materialParam(`materials.${role}.${prop}`, materialId, mp, report.pos(pointer)));
     }
     if (isInline) {
       for (const [prop, spec] of Object.entries(MATERIAL_PROPERTIES)) {
@@ -449,6 +554,8 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
       fill = { method: raw.fill.method as FillShape['method'] };
     }
   }
+
+  checkRelations(report, params, structureRelations(drying?.supportCount ?? 0));
 
   if (!schemaOk) return null;
   return {
@@ -503,17 +610,10 @@ function readDrying(
   } else {
     const m = materials.get(liquid);
     const gamma = m?.properties.surface_tension;
-    if (!m) report.add('unknown-material', '/drying/liquid', { found: liquid, suggestions: suggest(liquid, [...materials.entries()].filter(([, x]) => x.properties.surface_tension).map(([k]) => k)) });
+    if (!m) reportUnknownMaterial(report, '/drying/liquid', liquid, new Map([...materials].filter(([, x]) => x.properties.surface_tension)));
     else if (!gamma && d.surface_tension === undefined) report.add('bad-value', '/drying/liquid', { expected: 'a liquid with a surface tension (such as water or isopropanol), or none', found: `"${liquid}"` });
     else if (gamma) {
-      params.set('drying.surface_tension', {
-        name: 'drying.surface_tension',
-        value: gamma.value,
-        ...(gamma.low !== undefined ? { low: gamma.low, high: gamma.high } : {}),
-        unit: gamma.unit,
-        written: gamma.written,
-        origin: { type: 'material-table', material: liquid, source: gamma.source, pos: report.pos('/drying/liquid') },
-      });
+      params.set('drying.surface_tension', materialParam('drying.surface_tension', liquid, gamma, report.pos('/drying/liquid')));
     }
   }
   for (const [name, spec] of Object.entries(DRYING_PARAMS)) {
@@ -522,15 +622,10 @@ function readDrying(
     if (r) params.set(`drying.${name}`, { name: `drying.${name}`, ...r, unit: spec.unit, origin: handbook(`/drying/${name}`) });
   }
   const supports = Array.isArray(d.supports) ? d.supports : [];
-  const height = params.get('geometry.height');
-  let previous = 0;
   supports.forEach((raw, i) => {
     const pointer = `/drying/supports/${i}`;
     const r = readValue(report, pointer, raw, SUPPORT_SPEC);
     if (!r) return;
-    if (r.value <= previous) report.add('bad-value', pointer, { expected: 'support heights in rising order', found: `"${r.written}"` });
-    else if (height && r.value > height.value) report.add('bad-value', pointer, { expected: `a height within the structure (at most ${formatValue(height.value, 'm')})`, found: `"${r.written}"` });
-    previous = r.value;
     params.set(`drying.support_${i + 1}`, { name: `drying.support_${i + 1}`, ...r, unit: 'm', origin: handbook(pointer) });
   });
   return { liquid, supportCount: supports.length, supportHold: d.supports_hold === 'clamped' ? 'clamped' : 'pinned' };
@@ -617,10 +712,9 @@ function readCell(report: FileReport, c: Record<string, unknown>, kind: Kind | u
     const d = c.dielectric;
     if (typeof d.material === 'string') {
       const m = materials.get(d.material);
-      if (!m) report.add('unknown-material', '/cell/dielectric/material', { found: d.material, suggestions: suggest(d.material, [...materials.keys()]) });
+      if (!m) reportUnknownMaterial(report, '/cell/dielectric/material', d.material, materials);
       else if (m.properties.dielectric_constant) {
-        const k = m.properties.dielectric_constant;
-        params.set('cell.dielectric_dielectric_constant', { name: 'cell.dielectric_dielectric_constant', value: k.value, unit: '1', written: k.written, origin: { type: 'material-table', material: d.material, source: k.source, pos: report.pos('/cell/dielectric/material') } });
+        params.set('cell.dielectric_dielectric_constant', materialParam('cell.dielectric_dielectric_constant', d.material, m.properties.dielectric_constant, report.pos('/cell/dielectric/material')));
       }
     }
     for (const [name, spec] of Object.entries(CELL_DIELECTRIC_PARAMS)) {
@@ -643,9 +737,9 @@ function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | un
   const fromMaterial = (pointer: string, id: unknown, prop: string, name: string) => {
     if (typeof id !== 'string') return;
     const m = materials.get(id);
-    if (!m) return report.add('unknown-material', pointer, { found: id, suggestions: suggest(id, [...materials.keys()]) });
+    if (!m) return reportUnknownMaterial(report, pointer, id, materials);
     const p = m.properties[prop];
-    if (p) params.set(name, { name, value: p.value, unit: p.unit, written: p.written, origin: { type: 'material-table', material: id, source: p.source, pos: report.pos(pointer) } });
+    if (p) params.set(name, materialParam(name, id, p, report.pos(pointer)));
   };
   const inline = (pointer: string, raw: unknown, name: string) => {
     if (raw === undefined) return;
@@ -742,11 +836,11 @@ function rulesFromFile(loaded: Loaded): LocatedRule[] {
   return rules;
 }
 
-function loadMeta(root: string, out: Diagnostic[]): HandbookMeta {
-  const path = join(root, 'handbook.yaml');
-  const fallback = { title: basename(root) };
-  if (!existsSync(path)) return fallback;
-  const loaded = readAndParse(root, path, out);
+function loadMeta(source: HandbookSource, out: Diagnostic[]): HandbookMeta {
+  const path = 'handbook.yaml';
+  const fallback = { title: baseName(source.root.replace(/[\\/]+$/, '')) || 'handbook' };
+  if (source.kindOf(path) === 'missing') return fallback;
+  const loaded = readAndParse(source, path, out);
   if (!loaded) return fallback;
   const v = getValidators().handbook;
   if (!v(loaded.src.value)) {
@@ -772,32 +866,80 @@ function checkDuplicates(items: IdPlace[], out: Diagnostic[]): void {
   }
 }
 
-/** Load and validate the handbook under `root`. Never throws for a bad handbook. */
-export function loadHandbook(root: string): LoadResult {
+/** Items that were written but did not load; references to them are consequences, not causes. */
+interface Broken {
+  structures: Set<string>;
+  materials: Set<string>;
+  films: Set<string>;
+  /** A file that could not be parsed at all may have defined anything of this kind. */
+  anyStructure: boolean;
+  anyMaterial: boolean;
+}
+
+function isConsequence(d: Diagnostic, broken: Broken): boolean {
+  const r = d.refersTo;
+  if (!r) return false;
+  if (r.kind === 'material') return broken.anyMaterial || broken.materials.has(r.id);
+  if (r.kind === 'structure') return broken.anyStructure || broken.structures.has(r.id);
+  return broken.anyStructure || broken.films.has(r.id);
+}
+
+/** Diagnostics in a stable order, references to broken items dropped: the causes remain. */
+function finish(out: Diagnostic[], broken: Broken): Diagnostic[] {
+  return sortDiagnostics(out.filter((d) => !isConsequence(d, broken)));
+}
+
+/** What a structure file says it defines, read from its raw value even when it fails to load. */
+function writtenDefinitions(raw: unknown, path: string): { id: string; films: string[] } {
+  const name = baseName(path);
+  const stem = name.slice(0, name.length - extName(name).length);
+  if (!isMapping(raw)) return { id: stem, films: [] };
+  const films = Array.isArray(raw.deposition) ? raw.deposition.flatMap((s) => (isMapping(s) && typeof s.film === 'string' ? [s.film] : [])) : [];
+  return { id: typeof raw.id === 'string' ? raw.id : stem, films };
+}
+
+/**
+ * Load and validate a handbook from its source. Never throws for a bad handbook: every problem of
+ * the run comes back as a diagnostic, warnings (files left out) with them.
+ */
+export function loadHandbook(source: HandbookSource): LoadResult {
   const out: Diagnostic[] = [];
-  const structureFiles = listYaml(join(root, 'structures'));
-  const ruleFiles = listYaml(join(root, 'rules'));
-  if (structureFiles.length === 0 && ruleFiles.length === 0) {
-    return { ok: false, diagnostics: [{ code: 'no-handbook', file: root, line: 1, column: 1, field: '', expected: 'a folder with structures/ and rules/ holding YAML files' }] };
+  const structureFiles = discover(source, 'structures', out);
+  const ruleFiles = discover(source, 'rules', out);
+  if (structureFiles.length === 0 && ruleFiles.length === 0 && !out.some((d) => !isWarning(d))) {
+    return { ok: false, diagnostics: [{ code: 'no-handbook', file: source.root, line: 1, column: 1, field: '', expected: 'a folder with structures/ and rules/ holding YAML files' }, ...out] };
   }
-  const meta = loadMeta(root, out);
-  const materials = loadMaterials(root, out);
+  misnamedTopLevel(source, out);
+  const meta = loadMeta(source, out);
+  const { materials, written: materialIds, unreadable } = loadMaterials(source, out);
+  // When materials.yaml has problems, its ids that did not load are broken for their users.
+  const materialsFailed = out.some((d) => d.file === 'materials.yaml' && !isWarning(d));
+  const broken: Broken = { structures: new Set(), materials: new Set(materialsFailed ? materialIds : []), films: new Set(), anyStructure: false, anyMaterial: unreadable };
   const structures: Structure[] = [];
   const structureIds: IdPlace[] = [];
+  const allFilms = new Set<string>();
   for (const path of structureFiles) {
-    const loaded = readAndParse(root, path, out);
-    if (!loaded) continue;
+    const loaded = readAndParse(source, path, out);
+    if (!loaded) {
+      broken.anyStructure = true;
+      continue;
+    }
+    const written = writtenDefinitions(loaded.src.value, path);
+    written.films.forEach((f) => allFilms.add(f));
     const s = structureFromFile(loaded, materials);
     if (s) {
       structures.push(s);
       structureIds.push({ id: s.id, at: loaded.report.pos('/id'), field: 'id' });
+    } else {
+      broken.structures.add(written.id);
+      written.films.forEach((f) => broken.films.add(f));
     }
   }
   const rules: Rule[] = [];
   const ruleIds: IdPlace[] = [];
   const ruleSources: Array<{ rule: Rule; report: FileReport; pointer: string }> = [];
   for (const path of ruleFiles) {
-    const loaded = readAndParse(root, path, out);
+    const loaded = readAndParse(source, path, out);
     if (!loaded) continue;
     for (const { rule, idPointer } of rulesFromFile(loaded)) {
       rules.push(rule);
@@ -807,33 +949,38 @@ export function loadHandbook(root: string): LoadResult {
   }
   checkDuplicates(structureIds, out);
   checkDuplicates(ruleIds, out);
-  // Rules that name structures must name real ones.
+  // Rules that name structures or film steps must name real ones.
   const ids = structures.map((s) => s.id);
-  const filmNames = [...new Set(structures.flatMap((x) => x.deposition?.films.map((f) => f.film) ?? []))].sort();
+  const filmNames = [...allFilms].sort(byCodePoint);
   for (const { rule, report, pointer } of ruleSources) {
     if (rule.film !== undefined) {
       const def = QUANTITIES.get(rule.quantity);
       if (!def?.steps) report.add('bad-value', `${pointer}/film`, { expected: `no film: ${rule.quantity} is not a quantity of one film step`, found: `"${rule.film}"` }, 'key');
-      else if (!filmNames.includes(rule.film)) report.add('bad-value', `${pointer}/film`, { expected: `the film name of a deposition step in this handbook${filmNames.length ? ` (${filmNames.join(', ')})` : ''}`, found: `"${rule.film}"`, suggestions: suggest(rule.film, filmNames) });
+      else if (!filmNames.includes(rule.film)) {
+        report.add('bad-value', `${pointer}/film`, { expected: `the film name of a deposition step in this handbook${filmNames.length ? ` (${filmNames.join(', ')})` : ''}`, found: `"${rule.film}"`, suggestions: suggest(rule.film, filmNames), refersTo: { kind: 'film', id: rule.film } });
+      }
     }
     (rule.appliesTo.structures ?? []).forEach((sid, i) => {
       if (!ids.includes(sid)) {
-        report.add('bad-value', `${pointer}/applies_to/structures/${i}`, { expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids) });
+        report.add('bad-value', `${pointer}/applies_to/structures/${i}`, { expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, ids), refersTo: { kind: 'structure', id: sid } });
       }
     });
   }
-  if (out.length > 0) return { ok: false, diagnostics: sortDiagnostics(out) };
+  const diagnostics = finish(out, broken);
+  if (diagnostics.some((d) => !isWarning(d))) return { ok: false, diagnostics };
   structures.sort((a, b) => byCodePoint(a.id, b.id));
   rules.sort((a, b) => byCodePoint(a.id, b.id));
-  return { ok: true, handbook: { root, meta, structures, rules, materials } };
+  return { ok: true, handbook: { root: source.root, meta, structures, rules, materials, warnings: diagnostics } };
 }
 
-/** Load one structure file on its own (for `eval FILE`), with the materials of `root` if it has any. */
-export function loadStructureFile(path: string, root: string): { ok: true; structure: Structure } | { ok: false; diagnostics: Diagnostic[] } {
+/** Load one structure file on its own (for `eval FILE`), with the materials of `materialsFrom`. */
+export function loadStructure(source: HandbookSource, path: string, materialsFrom: HandbookSource): { ok: true; structure: Structure; warnings: Diagnostic[] } | { ok: false; diagnostics: Diagnostic[] } {
   const out: Diagnostic[] = [];
-  const materials = loadMaterials(root, out);
-  const loaded = readAndParse(process.cwd(), path, out);
+  const { materials, written, unreadable } = loadMaterials(materialsFrom, out);
+  const loaded = readAndParse(source, path, out);
   const s = loaded ? structureFromFile(loaded, materials) : null;
-  if (out.length > 0 || !s) return { ok: false, diagnostics: sortDiagnostics(out) };
-  return { ok: true, structure: s };
+  const broken: Broken = { structures: new Set(), materials: new Set(out.length ? written : []), films: new Set(), anyStructure: false, anyMaterial: unreadable };
+  const diagnostics = finish(out, broken);
+  if (diagnostics.some((d) => !isWarning(d)) || !s) return { ok: false, diagnostics };
+  return { ok: true, structure: s, warnings: diagnostics };
 }

@@ -9,6 +9,8 @@ export interface ParamSpec {
   max?: number;
   exclusiveMin?: boolean;
   exclusiveMax?: boolean;
+  /** A difference (a temperature change): units with an offset (°C, °F) are refused. */
+  meaning?: 'difference';
 }
 
 export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {
@@ -107,7 +109,7 @@ export const ISOLATION_PARAMS: Record<string, ParamSpec> = {
 
 /** Thermo-mechanical blocks: `anneal`, `keep_out`, `film`, `wafer` (their inputs are `<block>.<name>`). */
 export const THERMOMECH_PARAMS: Record<string, Record<string, ParamSpec>> = {
-  anneal: { temperature_change: { unit: 'K', description: 'Temperature change from the stress-free state to the state of use (negative on cooling).' } },
+  anneal: { temperature_change: { unit: 'K', meaning: 'difference', description: 'Temperature change from the stress-free state to the state of use (negative on cooling), in K.' } },
   keep_out: { mobility_shift: { unit: '1', description: 'Largest relative mobility change allowed in a transistor.', min: 0, exclusiveMin: true } },
   film: {
     stress: { unit: 'Pa', description: 'Biaxial stress of the film on the wafer (tensile positive).' },

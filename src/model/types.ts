@@ -1,5 +1,6 @@
 // The typed handbook: what loading produces and every later phase reads.
 // All numbers are SI; no strings with units survive past loading.
+import type { Diagnostic } from '../diagnostics/diagnostic.ts';
 
 /** A place in a source file, 1-based line and column. */
 export interface SourcePos {
@@ -165,4 +166,6 @@ export interface Handbook {
   structures: Structure[];
   rules: Rule[];
   materials: Map<string, Material>;
+  /** What loading left out or doubted without failing (files not loaded, ...), for every command to show. */
+  warnings: Diagnostic[];
 }

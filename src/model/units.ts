@@ -32,6 +32,8 @@ export interface ParsedValue {
 }
 
 export type UnitProblem =
+  | { code: 'offset-unit'; expected: string }
+  | { code: 'bad-value'; expected: string }
   | { code: 'malformed-quantity'; expected: string }
   | { code: 'malformed-tolerance'; expected: string }
   | { code: 'unknown-unit'; expected: string }
@@ -73,7 +75,22 @@ export function describeDimension(siUnit: string): string {
   return names[siUnit] ?? `a value in units of ${siUnit}`;
 }
 
-function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem {
+/**
+ * What a value means, for units with an offset (°C, °F): an absolute temperature converts with
+ * the offset (25 degC = 298.15 K), a difference must not (a change of −250 K written as
+ * "-250 degC" would become +23.15 K), so a difference in such a unit is refused.
+ */
+export type Meaning = 'absolute' | 'difference';
+
+/** The unit is a lone unit with an offset from SI (degC, degF), so absolute and difference differ. */
+function hasOffset(u: Unit): boolean {
+  const parts = u.units;
+  return parts.length === 1 && parts[0]!.power === 1 && parts[0]!.unit.offset !== 0;
+}
+
+const DIFFERENCE_EXPECTED = 'a temperature difference in K (such as "-250 K"): °C and °F are absolute scales with an offset, so write the change in K';
+
+function parseNumberWithUnit(text: string, siUnit: string, meaning: Meaning = 'absolute'): number | UnitProblem {
   const t = text.trim();
   if (t === '') return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
   if (siUnit === '1' && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return Number(t);
@@ -92,8 +109,27 @@ function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem
   }
   const ref = referenceUnit(siUnit);
   if (!u.equalBase(ref)) return { code: 'wrong-dimension', expected: describeDimension(siUnit) };
+  if (meaning === 'difference' && hasOffset(u)) return { code: 'offset-unit', expected: DIFFERENCE_EXPECTED };
   const si = u.toSI().toNumeric();
   return typeof si === 'number' ? clean(si) : clean(Number(si));
+}
+
+/** A tolerance is a difference: "400 degC ± 5 degC" is ±5 K, not ±278.15 K. */
+function parseDifference(text: string, siUnit: string): number | UnitProblem {
+  const v = parseNumberWithUnit(text, siUnit);
+  if (typeof v !== 'number') return v;
+  const unitText = unitOf(text);
+  if (!unitText) return v;
+  ensureExtraUnits();
+  let u: Unit;
+  try {
+    u = mathUnit(`1 ${unitText.replace(/[µμ]/g, 'u')}`);
+  } catch {
+    return v;
+  }
+  if (!hasOffset(u)) return v;
+  const zero = mathUnit(`0 ${unitText}`).toSI().toNumeric();
+  return clean(v - Number(zero));
 }
 
 // nominal, then ± / +/- tolerance, or an asymmetric +a/-b tolerance; the tolerance may be a
@@ -109,22 +145,51 @@ function unitOf(text: string): string {
 function parseTolerancePart(part: string, nominalText: string, nominal: number, siUnit: string): number | UnitProblem {
   const p = part.trim();
   const pct = /^([0-9.]+(?:[eE][-+]?\d+)?)\s*%$/.exec(p);
-  if (pct) return Math.abs(nominal) * Number(pct[1]) / 100;
+  if (pct) {
+    // A percentage of a temperature on an offset scale has no single meaning (1 % of 400 °C is
+    // 4 K, of 673.15 K it is 6.7 K): ask for the tolerance in a unit.
+    if (offsetScale(nominalText)) return { code: 'malformed-tolerance', expected: 'a tolerance in K or °C (a percentage of a °C or °F value is ambiguous)' };
+    return Math.abs(nominal) * Number(pct[1]) / 100;
+  }
   if (/^[0-9.]+(?:[eE][-+]?\d+)?$/.test(p)) {
     const u = unitOf(nominalText);
-    const r = parseNumberWithUnit(u ? `${p} ${u}` : p, siUnit);
-    return r;
+    return parseDifference(u ? `${p} ${u}` : p, siUnit);
   }
-  return parseNumberWithUnit(p, siUnit);
+  return parseDifference(p, siUnit);
+}
+
+function offsetScale(text: string): boolean {
+  const u = unitOf(text);
+  if (!u) return false;
+  ensureExtraUnits();
+  try {
+    return hasOffset(mathUnit(`1 ${u.replace(/[µμ]/g, 'u')}`));
+  } catch {
+    return false;
+  }
 }
 
 const TOL_EXPECTED = 'a tolerance such as "± 1.5 nm", "+/- 5%" or "+2/-1 nm"';
+// "-1/+2 nm": the minus part first.
+const REVERSED = /^(.*?)\s+-\s*([0-9.eE+-]+)\s*\/\s*\+\s*([0-9.eE+-]+)\s*(%|[A-Za-zµμ][^\s]*)?\s*$/;
 
 /** Parse `32 nm`, `32 nm ± 1.5 nm`, `32 nm +/- 5%`, `32 nm +2/-1 nm` into SI. */
-export function parseValue(text: string | number, siUnit: string): ParsedValue | UnitProblem {
+export function parseValue(text: string | number, siUnit: string, meaning: Meaning = 'absolute'): ParsedValue | UnitProblem {
   if (typeof text === 'number') {
+    // YAML's .inf and .nan arrive as numbers: say so once, in the handbook's own spelling.
+    if (!Number.isFinite(text)) return { code: 'bad-value', expected: 'a finite value' };
     if (siUnit === '1') return { value: text };
     return { code: 'malformed-quantity', expected: `${describeDimension(siUnit)}; a bare number has no unit` };
+  }
+  if (meaning === 'difference') {
+    // The nominal of a difference may not carry an offset; its tolerance is a difference anyway.
+    const nominalText = (ASYM.exec(text)?.[1] ?? TOL.exec(text)?.[1] ?? text).trim();
+    if (offsetScale(nominalText)) return { code: 'offset-unit', expected: DIFFERENCE_EXPECTED };
+  }
+  const reversed = REVERSED.exec(text);
+  if (reversed) {
+    const unit = reversed[4] ?? '';
+    return { code: 'malformed-tolerance', expected: `the plus part first, as in "+${reversed[3]}/-${reversed[2]}${unit === '%' ? '%' : unit ? ` ${unit}` : ''}"` };
   }
   const asym = ASYM.exec(text);
   if (asym) {
@@ -134,7 +199,7 @@ export function parseValue(text: string | number, siUnit: string): ParsedValue |
     const suffix = asym[4] ?? '';
     const plus = parseTolerancePart(`${asym[2]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
     const minus = parseTolerancePart(`${asym[3]}${suffix === '%' ? '%' : suffix ? ' ' + suffix : ''}`, nominalText, nominal, siUnit);
-    for (const part of [plus, minus]) if (typeof part !== 'number' && part.code === 'wrong-dimension') return part;
+    for (const part of [plus, minus]) if (typeof part !== 'number' && (part.code === 'wrong-dimension' || part.code === 'malformed-tolerance')) return part;
     if (typeof plus !== 'number' || typeof minus !== 'number' || plus < 0 || minus < 0) {
       return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
     }
@@ -147,7 +212,7 @@ export function parseValue(text: string | number, siUnit: string): ParsedValue |
     if (typeof nominal !== 'number') return nominal;
     const t = parseTolerancePart(tol[2] ?? '', nominalText, nominal, siUnit);
     if (typeof t !== 'number') {
-      return t.code === 'wrong-dimension' ? t : { code: 'malformed-tolerance', expected: TOL_EXPECTED };
+      return t.code === 'wrong-dimension' || t.code === 'malformed-tolerance' ? t : { code: 'malformed-tolerance', expected: TOL_EXPECTED };
     }
     if (!(t >= 0)) return { code: 'malformed-tolerance', expected: TOL_EXPECTED };
     return { value: nominal, low: clean(nominal - t), high: clean(nominal + t) };

@@ -1,58 +1,172 @@
-// `plumbline serve`: build, serve the site on localhost, rebuild when handbook files change.
-// A build that fails to load keeps serving the last good site and prints the problems.
-import { createReadStream, existsSync, statSync, watch } from 'node:fs';
-import { createServer } from 'node:http';
-import { extname, join, normalize, resolve } from 'node:path';
-import { formatDiagnostics } from '../diagnostics/messages.ts';
+// `plumbline serve`: build, serve the report on loopback, rebuild when handbook files change.
+// A build that fails to load keeps serving the last good report and prints the problems.
+//
+// Only files inside the report's real folder are served: each request path is decoded segment by
+// segment (a malformed escape is a 400, an encoded slash or a dot segment too), resolved through
+// links, and served only if its real path lies inside the report and is a regular file. Every
+// failure is an answer (400, 404, 405), never a crash.
+import { createReadStream, realpathSync, statSync, watch, type FSWatcher } from 'node:fs';
+import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
+import { extname, join, resolve } from 'node:path';
+import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
+import { FolderSource, isInside } from '../model/folder-source.ts';
 import { checkHandbook } from '../pipeline.ts';
+import { Refusal, guardOutput } from './publish.ts';
 import { buildSite } from './site.ts';
+import { CONTENT_SECURITY_POLICY } from './policy.ts';
 
 const TYPES: Record<string, string> = {
   '.html': 'text/html; charset=utf-8',
   '.css': 'text/css; charset=utf-8',
   '.json': 'application/json; charset=utf-8',
   '.svg': 'image/svg+xml',
+  '.txt': 'text/plain; charset=utf-8',
 };
 
-export async function serveSite(root: string, outDir: string, port: number, io: { out: (s: string) => void; err: (s: string) => void }): Promise<void> {
-  const rebuild = async (): Promise<void> => {
-    const outcome = checkHandbook(root);
-    if (!outcome.ok) {
-      io.err(formatDiagnostics(outcome.diagnostics));
-      return;
+export type Resolved = { file: string } | { status: 400 | 404 };
+
+/**
+ * The file a request path names inside `rootReal` (a real, absolute path), or the status to answer.
+ * Pure apart from reading the file system; exported for tests.
+ */
+export function resolveRequest(rootReal: string, rawUrl: string): Resolved {
+  const pathPart = rawUrl.split(/[?#]/, 1)[0] ?? '/';
+  if (!pathPart.startsWith('/')) return { status: 400 };
+  const segments: string[] = [];
+  for (const raw of pathPart.split('/').slice(1)) {
+    let seg: string;
+    try {
+      seg = decodeURIComponent(raw);
+    } catch {
+      return { status: 400 }; // a malformed escape such as %E0%A4%A
     }
-    const stats = await buildSite(outcome.handbook, outcome.results, outDir);
-    io.out(`rebuilt ${stats.pages} pages`);
-  };
-  await rebuild();
-  const server = createServer((req, res) => {
-    const urlPath = decodeURIComponent(new URL(req.url ?? '/', 'http://localhost').pathname);
-    let file = normalize(join(outDir, urlPath));
-    if (!file.startsWith(resolve(outDir))) {
-      res.writeHead(403).end();
-      return;
+    if (seg.includes('/') || seg.includes('\\') || seg.includes('\0')) return { status: 400 };
+    if (seg === '.' || seg === '..') return { status: 400 };
+    if (seg.startsWith('.')) return { status: 404 }; // our marker and any dotfile stay private
+    segments.push(seg);
+  }
+  let candidate = join(rootReal, ...segments);
+  try {
+    let real = realpathSync(candidate);
+    if (!isInside(rootReal, real)) return { status: 404 };
+    if (statSync(real).isDirectory()) {
+      candidate = join(real, 'index.html');
+      real = realpathSync(candidate);
+      if (!isInside(rootReal, real)) return { status: 404 };
     }
-    if (existsSync(file) && statSync(file).isDirectory()) file = join(file, 'index.html');
-    if (!existsSync(file)) {
-      res.writeHead(404, { 'content-type': 'text/plain' }).end('not found');
-      return;
-    }
-    res.writeHead(200, { 'content-type': TYPES[extname(file)] ?? 'application/octet-stream' });
-    createReadStream(file).pipe(res);
+    return statSync(real).isFile() ? { file: real } : { status: 404 };
+  } catch {
+    return { status: 404 };
+  }
+}
+
+function answer(res: ServerResponse, status: number, text: string): void {
+  res.writeHead(status, { 'content-type': 'text/plain; charset=utf-8', 'x-content-type-options': 'nosniff' }).end(`${text}\n`);
+}
+
+export interface Serving {
+  port: number;
+  close: () => Promise<void>;
+}
+
+export interface ServeIo {
+  out: (s: string) => void;
+  err: (s: string) => void;
+}
+
+/** Start listening; rejects with a Refusal when the port cannot be used. */
+function listen(server: Server, port: number): Promise<number> {
+  return new Promise((res, rej) => {
+    const onError = (err: NodeJS.ErrnoException) => {
+      server.off('listening', onListening);
+      if (err.code === 'EADDRINUSE') rej(new Refusal(`port ${port} is already in use on 127.0.0.1; stop what is using it or choose another with --port`));
+      else if (err.code === 'EACCES') rej(new Refusal(`port ${port} may not be used by this user; choose one above 1023 with --port`));
+      else rej(new Refusal(`cannot listen on 127.0.0.1:${port}: ${err.message}`));
+    };
+    const onListening = () => {
+      server.off('error', onError);
+      const addr = server.address();
+      res(typeof addr === 'object' && addr ? addr.port : port);
+    };
+    server.once('error', onError);
+    server.once('listening', onListening);
+    server.listen(port, '127.0.0.1');
   });
-  server.listen(port, '127.0.0.1', () => io.out(`serving ${outDir} at http://127.0.0.1:${port}/ (Ctrl-C to stop)`));
-  let timer: NodeJS.Timeout | undefined;
-  for (const dir of ['structures', 'rules']) {
-    const p = join(root, dir);
-    if (!existsSync(p)) continue;
-    watch(p, { recursive: true }, () => {
-      clearTimeout(timer);
-      timer = setTimeout(() => void rebuild().catch((e: Error) => io.err(e.message)), 150);
+}
+
+export async function serveSite(root: string, outDir: string, port: number, io: ServeIo): Promise<Serving> {
+  const out = resolve(outDir);
+  guardOutput(out, root);
+  // Rebuilds run one after another; a change during a build queues one more.
+  let chain: Promise<void> = Promise.resolve();
+  const rebuild = (): Promise<void> =>
+    (chain = chain.then(async () => {
+      const outcome = checkHandbook(new FolderSource(root));
+      if (!outcome.ok) {
+        io.err(formatDiagnostics(outcome.diagnostics));
+        return;
+      }
+      if (outcome.handbook.warnings.length) io.err(formatWarnings(outcome.handbook.warnings));
+      try {
+        const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline serve', onWait: () => io.out('waiting for another build of this folder to finish') });
+        stats.recovered.forEach((n) => io.out(n));
+        io.out(`rebuilt ${stats.pages} pages`);
+      } catch (e) {
+        io.err(e instanceof Refusal ? `plumbline: ${e.message}` : `plumbline: the report could not be rebuilt: ${(e as Error).message}`);
+      }
+    }));
+  await rebuild();
+  const rootReal = realpathSync(out);
+
+  const server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    if (req.method !== 'GET' && req.method !== 'HEAD') return answer(res, 405, 'only GET and HEAD');
+    const r = resolveRequest(rootReal, req.url ?? '/');
+    if ('status' in r) return answer(res, r.status, r.status === 400 ? 'bad request' : 'not found');
+    const stream = createReadStream(r.file);
+    stream.once('error', () => {
+      // Gone between resolving and reading (a rebuild swapped the folder): a clean 404.
+      if (!res.headersSent) answer(res, 404, 'not found');
+      else res.destroy();
     });
+    stream.once('open', () => {
+      res.writeHead(200, {
+        'content-type': TYPES[extname(r.file)] ?? 'application/octet-stream',
+        'x-content-type-options': 'nosniff',
+        'content-security-policy': CONTENT_SECURITY_POLICY,
+        'cache-control': 'no-cache',
+      });
+      if (req.method === 'HEAD') {
+        stream.destroy();
+        res.end();
+      } else stream.pipe(res);
+    });
+  });
+  server.on('clientError', (_err, socket) => socket.destroy());
+  const actual = await listen(server, port);
+  io.out(`serving ${out} at http://127.0.0.1:${actual}/ (Ctrl-C to stop)`);
+
+  const watchers: FSWatcher[] = [];
+  let timer: NodeJS.Timeout | undefined;
+  const soon = () => {
+    clearTimeout(timer);
+    timer = setTimeout(() => void rebuild(), 150);
+  };
+  for (const p of ['structures', 'rules', 'handbook.yaml', 'materials.yaml']) {
+    try {
+      watchers.push(watch(join(root, p), { recursive: true }, soon));
+    } catch {
+      // absent (or the system's watch limit reached): nothing to watch there
+    }
   }
-  for (const f of ['handbook.yaml', 'materials.yaml']) {
-    const p = join(root, f);
-    if (existsSync(p)) watch(p, () => void rebuild().catch((e: Error) => io.err(e.message)));
-  }
-  await new Promise(() => undefined);
+  return {
+    port: actual,
+    close: async () => {
+      clearTimeout(timer);
+      watchers.forEach((w) => w.close());
+      const closed = new Promise<void>((r) => server.close(() => r()));
+      server.closeAllConnections();
+      await closed;
+      await chain;
+    },
+  };
 }

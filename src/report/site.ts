@@ -1,12 +1,13 @@
-// Render the report with Eleventy into a fresh temporary folder beside the target, then swap it
-// in. A failed build leaves the previous site as it was; readers never see a half-written site.
-import { existsSync, mkdirSync, renameSync, rmSync, readdirSync, statSync } from 'node:fs';
-import { dirname, basename, join, resolve } from 'node:path';
+// Render the report with Eleventy into a fresh folder beside the target, then swap it in (publish.ts
+// guards, locks and recovers). A failed build leaves the previous site as it was.
+import { readdirSync, statSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { Results } from '../checker/evaluate.ts';
 import type { Handbook } from '../model/types.ts';
 import { assembleReport, type ReportData } from './assemble.ts';
+import { guardOutput, publish, type LockOptions } from './publish.ts';
 
 const PACKAGE_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 export const TEMPLATES_DIR = join(PACKAGE_ROOT, 'templates');
@@ -36,23 +37,17 @@ export async function renderSite(report: ReportData, outDir: string): Promise<vo
   await elev.write();
 }
 
-/** Assemble, render to a temporary folder and swap it in place of `outDir`. */
-export async function buildSite(h: Handbook, results: Results, outDir: string): Promise<{ pages: number }> {
+/**
+ * Assemble and publish: the output folder is checked (it must be absent, empty or an earlier report,
+ * and must not hold the handbook), locked, rendered aside and swapped in (see publish.ts).
+ */
+export async function buildSite(h: Handbook, results: Results, outDir: string, opts: LockOptions = {}): Promise<{ pages: number; recovered: string[] }> {
+  guardOutput(outDir, h.root);
   const report = await assembleReport(h, results);
-  const parent = dirname(outDir);
-  mkdirSync(parent, { recursive: true });
-  const tmp = join(parent, `.${basename(outDir)}-building-${process.pid}`);
-  const old = join(parent, `.${basename(outDir)}-previous-${process.pid}`);
-  rmSync(tmp, { recursive: true, force: true });
-  try {
-    await renderSite(report, tmp);
-  } catch (err) {
-    rmSync(tmp, { recursive: true, force: true });
-    throw err;
-  }
-  const pages = countHtml(tmp);
-  if (existsSync(outDir)) renameSync(outDir, old);
-  renameSync(tmp, outDir);
-  rmSync(old, { recursive: true, force: true });
-  return { pages };
+  let pages = 0;
+  const { recovered } = await publish(outDir, h.root, async (dir) => {
+    await renderSite(report, dir);
+    pages = countHtml(dir);
+  }, opts);
+  return { pages, recovered };
 }

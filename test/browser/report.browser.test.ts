@@ -7,6 +7,7 @@ import { pathToFileURL } from 'node:url';
 import { chromium, type Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checkHandbook } from '../../src/pipeline.ts';
+import { FolderSource } from '../../src/model/folder-source.ts';
 import { buildSite } from '../../src/report/site.ts';
 import { CHROMIUM_FLAGS, findChromium } from './chromium.ts';
 
@@ -17,7 +18,7 @@ let keepOutP110: number | null = null;
 
 beforeAll(async () => {
   site = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-')), 'site');
-  const outcome = checkHandbook(ROOT);
+  const outcome = checkHandbook(new FolderSource(ROOT));
   if (!outcome.ok) throw new Error('demo handbook does not load');
   keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);

@@ -4,7 +4,7 @@
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { evaluateHandbook, evaluateRule, margin, PlanCache, type Verdict } from '../../src/checker/evaluate.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 import type { Handbook, Rule, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 
@@ -182,7 +182,7 @@ describe('values that are unbounded or do not exist', () => {
 describe('the demo handbook, verdict by verdict', () => {
   let handbook: Handbook;
   beforeAll(() => {
-    const loaded = loadHandbook(DEMO_ROOT);
+    const loaded = loadHandbookFolder(DEMO_ROOT);
     if (!loaded.ok) throw new Error(`demo handbook does not load: ${JSON.stringify(loaded.diagnostics)}`);
     handbook = loaded.handbook;
   });
@@ -396,7 +396,7 @@ describe('the demo handbook, verdict by verdict', () => {
   });
 
   it('gives byte-identical JSON when the handbook is loaded and evaluated twice', () => {
-    const again = loadHandbook(DEMO_ROOT);
+    const again = loadHandbookFolder(DEMO_ROOT);
     if (!again.ok) throw new Error('demo handbook does not load');
     const a = JSON.stringify(evaluateHandbook(handbook));
     const b = JSON.stringify(evaluateHandbook(again.handbook));

@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 import { concentration, marchFill } from '../../src/engines/deposition/fill.ts';
 import {
   aldAspectRatio,
@@ -124,7 +124,7 @@ function loadStructure(yaml: string) {
   const dir = mkdtempSync(join(tmpdir(), 'plumbline-dep-'));
   cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
   writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
-  return loadHandbook(dir);
+  return loadHandbookFolder(dir);
 }
 
 const HOLE = `id: test-pillar
@@ -184,7 +184,7 @@ describe('film steps of a structure', () => {
       join(dir, 'rules', 'rules.yaml'),
       '- id: F-1\n  title: t\n  applies_to: {}\n  quantity: deposition.step_coverage\n  film: dielectrc\n  at_least: 0.5\n- id: F-2\n  title: t\n  applies_to: {}\n  quantity: geometry.aspect_ratio\n  film: dielectric\n  at_most: 50\n',
     );
-    const r = loadHandbook(dir);
+    const r = loadHandbookFolder(dir);
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.diagnostics).toEqual([

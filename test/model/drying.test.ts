@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 
@@ -12,7 +12,7 @@ function load(structureYaml: string) {
   const dir = mkdtempSync(join(tmpdir(), 'plumbline-drying-'));
   cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
   writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), structureYaml);
-  return loadHandbook(dir);
+  return loadHandbookFolder(dir);
 }
 
 const PILLAR = 'id: test-pillar\ntitle: Pillar\nkind: pillar\ngeometry:\n  cd: 40 nm\n  height: 400 nm\n  pitch: 100 nm\n  array: square\n  sidewall_angle: 90 deg\nmaterials:\n  body: silicon\n';

@@ -5,12 +5,12 @@
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import type { Diagnostic } from '../../src/diagnostics/diagnostic.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const FIXTURES = fileURLToPath(new URL('../fixtures/', import.meta.url));
 
 function diagnosticsOf(name: string): Diagnostic[] {
-  const r = loadHandbook(FIXTURES + name);
+  const r = loadHandbookFolder(FIXTURES + name);
   if (r.ok) throw new Error(`${name} loaded without problems`);
   return r.diagnostics;
 }
@@ -143,7 +143,7 @@ describe('all problems of a run are reported together', () => {
 
 describe('a clean fixture', () => {
   it('loads ok_small with its structures, rules and positions', () => {
-    const r = loadHandbook(FIXTURES + 'ok_small');
+    const r = loadHandbookFolder(FIXTURES + 'ok_small');
     if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
     const h = r.handbook;
     expect(h.meta.title).toBe('Fixture handbook, all rules pass');

@@ -4,12 +4,12 @@ import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 
 function builtIn() {
-  const r = loadHandbook(join(ROOT, 'test/fixtures/ok_minimal'));
+  const r = loadHandbookFolder(join(ROOT, 'test/fixtures/ok_minimal'));
   if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
   return r.handbook.materials;
 }
@@ -67,7 +67,7 @@ describe('handbook materials', () => {
     writeFileSync(join(dir, 'materials.yaml'), '- id: lab-silicon\n  title: Lab silicon\n  based_on: silicon\n  source: lab bend test\n  youngs_modulus: 150 GPa ± 10%\n');
     const sFile = join(dir, 'structures', 'test-pillar.yaml');
     writeFileSync(sFile, 'id: test-pillar\ntitle: Test pillar\nkind: pillar\ngeometry:\n  cd: 40 nm\n  height: 200 nm\nmaterials:\n  body: lab-silicon\n');
-    const r = loadHandbook(dir);
+    const r = loadHandbookFolder(dir);
     if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
     const s = r.handbook.structures[0]!;
     const e = s.params.get('materials.body.youngs_modulus')!;
@@ -88,7 +88,7 @@ describe('handbook materials', () => {
       join(dir, 'structures', 'test-via.yaml'),
       'id: test-via\ntitle: Test via\nkind: via\ngeometry:\n  cd: 10 um\n  depth: 50 um\nvia:\n  conductor: { material: copper, expansion: 16.7e-6 /K }\n  liner: { material: silicon-dioxide, thickness: 200 nm }\nmaterials:\n  substrate: { material: silicon, expansion: 2.6 ppm/K }\n',
     );
-    const r = loadHandbook(dir);
+    const r = loadHandbookFolder(dir);
     if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
     const s = r.handbook.structures.find((x) => x.id === 'test-via')!;
     const cu = s.params.get('via.conductor_thermal_expansion')!;
@@ -103,7 +103,7 @@ describe('handbook materials', () => {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-mat-'));
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
     writeFileSync(join(dir, 'materials.yaml'), '- id: lab-silicon\n  title: Lab silicon\n  based_on: silicom\n');
-    const r = loadHandbook(dir);
+    const r = loadHandbookFolder(dir);
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.diagnostics).toEqual([expect.objectContaining({ code: 'unknown-material', file: 'materials.yaml', line: 3, column: 13, field: '[0].based_on', suggestions: ['silicon'] })]);

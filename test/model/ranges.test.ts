@@ -4,7 +4,7 @@ import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadHandbook } from '../../src/model/load.ts';
+import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 import { evaluateRule, PlanCache } from '../../src/checker/evaluate.ts';
 import { makeRule, makeStructure, nm } from '../helpers.ts';
 
@@ -14,7 +14,7 @@ function loadWithGeometry(geometryYaml: string) {
   const dir = mkdtempSync(join(tmpdir(), 'plumbline-range-'));
   cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
   writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), `id: test-pillar\ntitle: Test pillar\nkind: pillar\ngeometry:\n${geometryYaml}`);
-  return loadHandbook(dir);
+  return loadHandbookFolder(dir);
 }
 
 describe('input ranges', () => {
@@ -35,7 +35,7 @@ describe('input ranges', () => {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-range-'));
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
     writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), 'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry:\n  cd: 100 nm\n  height: 20 nm\n  wall: 30 nm\n');
-    const r = loadHandbook(dir);
+    const r = loadHandbookFolder(dir);
     expect(r.ok).toBe(false);
     if (r.ok) return;
     // The wall fails "thinner than half the CD"? No: 2·30 < 100. It fails "thinner than tall": line 7.

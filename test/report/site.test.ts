@@ -6,6 +6,7 @@ import { dirname, join, resolve } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { run } from '../../src/cli/main.ts';
 import { checkHandbook } from '../../src/pipeline.ts';
+import { FolderSource } from '../../src/model/folder-source.ts';
 import { buildSite } from '../../src/report/site.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
@@ -20,14 +21,14 @@ function htmlFiles(dir: string): string[] {
 
 beforeAll(async () => {
   out = join(mkdtempSync(join(tmpdir(), 'plumbline-site-')), 'site');
-  const outcome = checkHandbook(ROOT);
+  const outcome = checkHandbook(new FolderSource(ROOT));
   if (!outcome.ok) throw new Error('demo handbook does not load');
   await buildSite(outcome.handbook, outcome.results, out);
 }, 120_000);
 
 describe('demo site', () => {
   it('has a page per rule, per structure and per in-scope verdict, at the stable URLs', () => {
-    const outcome = checkHandbook(ROOT);
+    const outcome = checkHandbook(new FolderSource(ROOT));
     if (!outcome.ok) throw new Error('unreachable');
     for (const r of outcome.handbook.rules) expect(existsSync(join(out, 'rules', r.id, 'index.html')), r.id).toBe(true);
     for (const s of outcome.handbook.structures) expect(existsSync(join(out, 'structures', s.id, 'index.html')), s.id).toBe(true);
@@ -91,7 +92,7 @@ describe('demo site', () => {
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
     const rulesFile = join(dir, 'rules', 'rules.yaml');
     writeFileSync(rulesFile, readFileSync(rulesFile, 'utf8').replace(/rationale: .*/, 'rationale: "**bold** <script>alert(1)</script>"'));
-    const outcome = checkHandbook(dir);
+    const outcome = checkHandbook(new FolderSource(dir));
     if (!outcome.ok) throw new Error(JSON.stringify(outcome.diagnostics));
     const site = join(dir, 'site');
     await buildSite(outcome.handbook, outcome.results, site);

@@ -1,0 +1,180 @@
+// Publishing never destroys what plumbline does not own, and the published folder is always whole.
+// Regression tests named after the defects of the hostile-input review: each one failed before.
+import { spawn, spawnSync } from 'node:child_process';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { hostname, tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { run } from '../../src/cli/main.ts';
+import { MARKER, Refusal, guardOutput, lockOutput, publish, recoverOutput } from '../../src/report/publish.ts';
+
+const ROOT = resolve(import.meta.dirname, '../..');
+const CHILD = join(import.meta.dirname, 'children', 'publish-and-die.ts');
+const quiet = { out: () => undefined, err: () => undefined };
+
+/** A copy of the minimal handbook in a fresh folder; returns the folder. */
+function handbook(): string {
+  const dir = join(mkdtempSync(join(tmpdir(), 'plumbline-publish-')), 'hb');
+  cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+  return dir;
+}
+
+/** Every file under a folder with its content: a fingerprint to compare before and after. */
+function snapshot(dir: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  const walk = (d: string, rel: string) => {
+    for (const e of readdirSync(d, { withFileTypes: true })) {
+      const p = join(d, e.name);
+      if (e.isDirectory()) walk(p, `${rel}${e.name}/`);
+      else out[`${rel}${e.name}`] = readFileSync(p, 'utf8');
+    }
+  };
+  walk(dir, '');
+  return out;
+}
+
+async function cli(...argv: string[]): Promise<{ code: number; err: string }> {
+  const err: string[] = [];
+  const code = await run(argv, { out: () => undefined, err: (s) => err.push(s) });
+  return { code, err: err.join('\n') };
+}
+
+describe('build --out can delete the handbook (regression)', () => {
+  it('refuses the handbook folder itself, and leaves every handbook file as it was', async () => {
+    const hb = handbook();
+    const before = snapshot(hb);
+    const r = await cli('build', '--root', hb, '--out', '.');
+    expect(r.code).toBe(2);
+    expect(r.err).toContain('handbook folder itself');
+    expect(snapshot(hb)).toEqual(before);
+  });
+
+  it('refuses a folder above the handbook', async () => {
+    const hb = handbook();
+    const before = snapshot(hb);
+    expect((await cli('build', '--root', hb, '--out', '..')).code).toBe(2);
+    expect(snapshot(hb)).toEqual(before);
+  });
+
+  it("refuses a folder inside the handbook's structures/ or rules/", () => {
+    const hb = handbook();
+    expect(() => guardOutput(join(hb, 'structures'), hb)).toThrow(Refusal);
+    expect(() => guardOutput(join(hb, 'rules', 'site'), hb)).toThrow(Refusal);
+  });
+
+  it('refuses an existing folder that is not a report plumbline wrote, and keeps its files', async () => {
+    const hb = handbook();
+    const other = join(hb, '..', 'notes');
+    mkdirSync(other);
+    writeFileSync(join(other, 'thesis.txt'), 'five years of work');
+    const r = await cli('build', '--root', hb, '--out', other);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain(MARKER);
+    expect(readFileSync(join(other, 'thesis.txt'), 'utf8')).toBe('five years of work');
+  });
+
+  it('refuses an output that is a link, even to a report', async () => {
+    const hb = handbook();
+    expect((await cli('build', '--root', hb, '--out', 'site')).code).toBe(0);
+    symlinkSync(join(hb, 'site'), join(hb, 'alias'));
+    expect(() => guardOutput(join(hb, 'alias'), hb)).toThrow(/symbolic link/);
+  });
+
+  it('refuses a handbook reached through a link from the output side (real paths are compared)', () => {
+    const hb = handbook();
+    const link = join(hb, '..', 'hb-link');
+    symlinkSync(hb, link);
+    expect(() => guardOutput(join(link), hb)).toThrow(/handbook folder itself/);
+  });
+
+  it('replaces its own earlier report and an empty folder', async () => {
+    const hb = handbook();
+    mkdirSync(join(hb, 'site'));
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    expect(readFileSync(join(hb, 'site', MARKER), 'utf8')).toContain('plumbline');
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+  });
+});
+
+describe('the swap is not atomic (regression)', () => {
+  function deadChild(out: string, where: string): void {
+    const r = spawnSync(process.execPath, ['--import', 'tsx', CHILD, out, where, join(out, '..', 'hb')], { encoding: 'utf8' });
+    expect(r.signal).toBe('SIGKILL');
+  }
+
+  async function withReport(): Promise<{ hb: string; site: string }> {
+    const hb = handbook();
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    return { hb, site: join(hb, 'site') };
+  }
+
+  it('killed between its two renames, the next run puts the complete new report in place', async () => {
+    const { hb, site } = await withReport();
+    deadChild(site, 'between-renames');
+    // The kill left the folder absent, the new report aside, the old one aside.
+    expect(existsSync(site)).toBe(false);
+    const notes = recoverOutput(site);
+    expect(notes.join('\n')).toMatch(/restored/);
+    expect(readFileSync(join(site, 'index.html'), 'utf8')).toBe('<p>new report</p>');
+    expect(readdirSync(hb).filter((n) => /^\.site-(building|previous)-/.test(n))).toEqual([]);
+    // The dead build's lock is still there; the next build takes it over and removes it.
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    expect(readdirSync(hb).filter((n) => n.startsWith('.site-'))).toEqual([]);
+  }, 60_000);
+
+  it('killed while rendering, the half-written folder is removed by the next build and the old report stays', async () => {
+    const { hb, site } = await withReport();
+    const before = readFileSync(join(site, 'index.html'), 'utf8');
+    deadChild(site, 'rendering');
+    expect(readFileSync(join(site, 'index.html'), 'utf8')).toBe(before);
+    expect(readdirSync(hb).some((n) => n.startsWith('.site-building-'))).toBe(true);
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    expect(readdirSync(hb).filter((n) => n.startsWith('.site-'))).toEqual([]);
+  }, 60_000);
+
+  it('leaves a folder with a build name but without our marker alone', async () => {
+    const { hb, site } = await withReport();
+    const stranger = join(hb, '.site-building-1234-abcd');
+    mkdirSync(stranger);
+    writeFileSync(join(stranger, 'keep.txt'), 'not ours');
+    const notes = recoverOutput(site);
+    expect(notes.join('\n')).toMatch(/left .* alone/);
+    expect(readFileSync(join(stranger, 'keep.txt'), 'utf8')).toBe('not ours');
+  });
+
+  it('two builds into the same folder at once: both succeed one after the other, and one report remains', async () => {
+    const hb = handbook();
+    const bin = join(ROOT, 'bin', 'plumbline.js');
+    const start = () =>
+      new Promise<{ code: number | null; err: string }>((res) => {
+        const c = spawn(process.execPath, [bin, 'build', '--root', hb], { stdio: ['ignore', 'ignore', 'pipe'] });
+        let err = '';
+        c.stderr.on('data', (d) => (err += String(d)));
+        c.on('close', (code) => res({ code, err }));
+      });
+    const [a, b] = await Promise.all([start(), start()]);
+    expect([a.code, b.code]).toEqual([0, 0]);
+    expect(readdirSync(hb).filter((n) => n.startsWith('.site-'))).toEqual([]);
+    expect(existsSync(join(hb, 'site', 'index.html'))).toBe(true);
+  }, 120_000);
+
+  it('a lock left by a build that died is taken over', async () => {
+    const hb = handbook();
+    const dead = spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], { encoding: 'utf8' });
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: Number(dead.stdout), host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'dead' }));
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    expect(existsSync(join(hb, '.site-lock'))).toBe(false);
+  }, 60_000);
+
+  it('a live holder is waited for, then named when the wait runs out', async () => {
+    const hb = handbook();
+    const release = await lockOutput(join(hb, 'site'), { command: 'plumbline build (test holder)' });
+    try {
+      const waited: string[] = [];
+      await expect(publish(join(hb, 'site'), hb, async () => undefined, { waitMs: 300, onWait: (h) => waited.push(h.command) })).rejects.toThrow(/pid \d+ on .*test holder/);
+      expect(waited).toEqual(['plumbline build (test holder)']);
+    } finally {
+      release();
+    }
+  });
+});
