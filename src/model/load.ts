@@ -9,6 +9,7 @@ import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
 import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, THERMOMECH_PARAMS, VIA_CONDUCTOR_MECH, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
 import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
+import { excerpt } from '../diagnostics/messages.ts';
 import {
   KINDS,
   isElongated,
@@ -91,7 +92,7 @@ function jsonType(v: unknown): string {
   if (v === null) return 'null';
   if (Array.isArray(v)) return 'a list';
   if (typeof v === 'object') return 'a mapping';
-  if (typeof v === 'string') return `the text "${v}"`;
+  if (typeof v === 'string') return `the text "${excerpt(v)}"`;
   return `${typeof v} ${String(v)}`;
 }
 
@@ -139,7 +140,26 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
         break;
       }
       case 'type':
-        report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: jsonType(value) });
+        // A value field given .inf or .nan is a number the schema calls no number; readValue says so
+        // once, better ("a finite value"), so the schema's line would only contradict it.
+        if (typeof value === 'number' && !Number.isFinite(value) && allowsNumber(e)) continue;
+        report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: typeof value === 'number' && !Number.isFinite(value) ? (sourceSpelling(report.src, e.instancePath) ?? String(value)) : jsonType(value) });
+        break;
+      case 'maxLength':
+        if (/\/id$|\/tags\/\d+$|\/film$/.test(e.instancePath)) {
+          report.add('id-too-long', e.instancePath, { expected: `at most ${(e.params as { limit: number }).limit} characters (ids are addresses and file names)`, found: `${String(value).length} characters` });
+        } else report.add('bad-value', e.instancePath, { expected: `at most ${(e.params as { limit: number }).limit} characters`, found: `${String(value).length} characters` });
+        break;
+      case 'minLength':
+        report.add('bad-value', e.instancePath, { expected: 'a text that is not empty', found: jsonType(value) });
+        break;
+      case 'minItems': {
+        const n = (e.params as { limit: number }).limit;
+        report.add('bad-value', e.instancePath, { expected: `a list of at least ${n} ${n === 1 ? 'entry' : 'entries'} (or leave the field out)`, found: Array.isArray(value) && value.length === 0 ? 'an empty list' : jsonType(value) });
+        break;
+      }
+      case 'uniqueItems':
+        report.add('bad-value', e.instancePath, { expected: 'a list without repeated entries', found: jsonType(value) });
         break;
       case 'enum': {
         const allowed = (e.params as { allowedValues: unknown[] }).allowedValues.map(String);
@@ -176,6 +196,11 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
     }
     seen.add(key);
   }
+}
+
+function allowsNumber(e: ErrorObject): boolean {
+  const t = (e.params as { type: string | string[] }).type;
+  return (Array.isArray(t) ? t : [t]).includes('number');
 }
 
 function describeType(t: string | string[]): string {

@@ -7,6 +7,8 @@ export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
 export const STRUCTURE_ID_PATTERN = '^[a-z0-9]+(-[a-z0-9]+)*$';
 export const RULE_ID_PATTERN = '^[A-Z0-9]+(-[A-Z0-9]+)*$';
 export const MATERIAL_ID_PATTERN = '^[a-z0-9]+(-[a-z0-9]+)*$';
+/** Ids are URL path segments and file names: short enough for every file system and for a reader. */
+export const MAX_ID_LENGTH = 64;
 
 type JsonSchema = Record<string, unknown>;
 
@@ -28,10 +30,10 @@ export function structureSchema(): JsonSchema {
     additionalProperties: false,
     required: ['id', 'title', 'kind'],
     properties: {
-      id: { type: 'string', pattern: STRUCTURE_ID_PATTERN, description: 'Permanent id, lower-case kebab; equals the file name.' },
+      id: { type: 'string', pattern: STRUCTURE_ID_PATTERN, maxLength: MAX_ID_LENGTH, description: 'Permanent id, lower-case kebab; equals the file name.' },
       title: { type: 'string', minLength: 1 },
       kind: { type: 'string', enum: [...KINDS] },
-      tags: { type: 'array', items: { type: 'string', pattern: MATERIAL_ID_PATTERN } },
+      tags: { type: 'array', items: { type: 'string', pattern: MATERIAL_ID_PATTERN, maxLength: MAX_ID_LENGTH } },
       description: { type: 'string' },
       geometry: {
         type: 'object',
@@ -76,7 +78,7 @@ export function structureSchema(): JsonSchema {
           additionalProperties: false,
           required: ['film', 'method'],
           properties: {
-            film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'Name of the film step (rules select it with `film`).' },
+            film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', maxLength: MAX_ID_LENGTH, description: 'Name of the film step (rules select it with `film`).' },
             method: { type: 'string', enum: ['ald', 'cvd', 'pvd'] },
             ...propertiesFrom(DEPOSITION_PARAMS),
           },
@@ -171,7 +173,7 @@ export function structureSchema(): JsonSchema {
 }
 
 const ruleProperties = (): JsonSchema => ({
-  id: { type: 'string', pattern: RULE_ID_PATTERN, description: 'Permanent id, upper-case with dashes.' },
+  id: { type: 'string', pattern: RULE_ID_PATTERN, maxLength: MAX_ID_LENGTH, description: 'Permanent id, upper-case with dashes.' },
   title: { type: 'string', minLength: 1 },
   applies_to: {
     type: 'object',
@@ -221,7 +223,7 @@ export function materialsSchema(): JsonSchema {
       additionalProperties: false,
       required: ['id', 'title'],
       properties: {
-        id: { type: 'string', pattern: MATERIAL_ID_PATTERN },
+        id: { type: 'string', pattern: MATERIAL_ID_PATTERN, maxLength: MAX_ID_LENGTH },
         title: { type: 'string' },
         based_on: { type: 'string', description: 'A material whose properties this one starts from.' },
         source: { type: 'string', description: 'Where these values come from.' },

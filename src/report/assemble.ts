@@ -1,6 +1,5 @@
 // Results → report data: everything the templates show, already worded and formatted. Templates
 // only lay it out; no physics and no pass/fail logic lives in them.
-import MarkdownIt from 'markdown-it';
 import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict } from '../checker/evaluate.ts';
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
@@ -12,9 +11,11 @@ import { renderCrossSection } from './cross-section.ts';
 import { renderFigure } from './figures.ts';
 import { displayScale, formatMargin, formatValue } from './format.ts';
 import { texToMathml } from './math.ts';
+import { renderMarkdown } from './markdown.ts';
+import { CONTENT_SECURITY_POLICY } from './policy.ts';
+import { describeDiagnostic } from '../diagnostics/messages.ts';
 import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from './words.ts';
 
-const md = new MarkdownIt({ html: false, linkify: true, typographer: true });
 
 export const urls = {
   rule: (id: string) => `/rules/${id}/`,
@@ -152,7 +153,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       severity: rule.severity,
       evaluateAt: rule.evaluateAt,
       scopeText: scopeText(rule),
-      rationaleHtml: md.render(rule.rationale),
+      rationaleHtml: renderMarkdown(rule.rationale),
       references: rule.references,
       file: `${rule.pos.file}:${rule.pos.line}`,
       verdicts: vs.map((v) => row(v, rule, structureById.get(v.structure)!)),
@@ -176,7 +177,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       array: s.array ?? '',
       tags: s.tags,
       file: `${s.pos.file}`,
-      descriptionHtml: s.description ? md.render(s.description) : '',
+      descriptionHtml: s.description ? renderMarkdown(s.description) : '',
       params: [...s.params.values()]
         .filter((x) => x.origin.type === 'handbook')
         .map((x) => ({ name: x.name, label: paramLabel(x.name), written: x.written, valueText: formatValue(x.value, x.unit), rangeText: x.low !== undefined ? `${formatValue(x.low, x.unit)} … ${formatValue(x.high ?? null, x.unit)}` : '', description: GEOMETRY_PARAMS[x.name.split('.')[1] ?? '']?.description ?? '' })),
@@ -263,8 +264,11 @@ export async function assembleReport(h: Handbook, results: Results) {
 
   const blocking = verdictPages.filter((v) => v.status === 'fail' && v.severity === 'blocking');
   return {
-    meta: { title: h.meta.title, organisation: h.meta.organisation ?? '', summaryHtml: h.meta.summary ? md.render(h.meta.summary) : '' },
+    meta: { title: h.meta.title, organisation: h.meta.organisation ?? '', summaryHtml: h.meta.summary ? renderMarkdown(h.meta.summary) : '' },
     caution: CAUTION,
+    contentSecurityPolicy: CONTENT_SECURITY_POLICY,
+    /** Files and entries the handbook's loading left out (warnings), for the overview. */
+    leftOut: h.warnings.map((w) => ({ place: `${w.file}${w.line > 1 || w.column > 1 ? `:${w.line}:${w.column}` : ''}`, text: describeDiagnostic(w) })),
     counts: results.counts,
     scopedCount: scoped.length,
     blockingFailures: results.blockingFailures,

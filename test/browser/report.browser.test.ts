@@ -1,6 +1,6 @@
 // The report in a real browser: chromium (see ./chromium.ts for which), driven by playwright-core. A reviewer opens the
 // matrix, follows a failing cell to its derivation and finds the worst corner there.
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readdirSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -14,7 +14,15 @@ import { CHROMIUM_FLAGS, findChromium } from './chromium.ts';
 const ROOT = resolve(import.meta.dirname, '../..');
 let browser: Browser;
 let site: string;
+let hostileSite: string;
 let keepOutP110: number | null = null;
+
+function htmlFiles(dir: string): string[] {
+  return readdirSync(dir).flatMap((e) => {
+    const p = join(dir, e);
+    return statSync(p).isDirectory() ? htmlFiles(p) : p.endsWith('.html') ? [p] : [];
+  });
+}
 
 beforeAll(async () => {
   site = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-')), 'site');
@@ -22,6 +30,11 @@ beforeAll(async () => {
   if (!outcome.ok) throw new Error('demo handbook does not load');
   keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);
+  // Hostile text: remote and protocol-relative images, raw HTML, long unbroken titles and links.
+  hostileSite = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-hostile-')), 'site');
+  const hostile = checkHandbook(new FolderSource(join(ROOT, 'test/fixtures/ok_hostile')));
+  if (!hostile.ok) throw new Error('hostile fixture does not load');
+  await buildSite(hostile.handbook, hostile.results, hostileSite);
   browser = await chromium.launch({ executablePath: (await findChromium()).path, args: CHROMIUM_FLAGS });
 }, 120_000);
 
@@ -83,6 +96,56 @@ describe('report in chromium', () => {
     await page.waitForURL(/\/structures\/storage-node\/index\.html$/);
     const box = await page.locator('svg.section').boundingBox();
     expect(box?.width ?? 0).toBeGreaterThan(200);
+    await page.close();
+  });
+
+  it('loads nothing from outside the report and is never wider than a 1280 px window, on every page', async () => {
+    // Markdown images that point out of the report and protocol-relative ones were requests to
+    // outside hosts; long unbroken titles and links widened every page (regressions).
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const outside: string[] = [];
+    const refused: string[] = [];
+    const wide: string[] = [];
+    const unstyled: string[] = [];
+    for (const [dir, files] of [[site, htmlFiles(site)], [hostileSite, htmlFiles(hostileSite)]] as const) {
+      const inside = pathToFileURL(dir).href + '/';
+      page.removeAllListeners('request');
+      page.removeAllListeners('console');
+      page.on('request', (r) => {
+        if (!r.url().startsWith(inside)) outside.push(`${r.url()} (from ${page.url()})`);
+      });
+      page.on('console', (m) => {
+        if (/Refused to|Content Security Policy/i.test(m.text())) refused.push(`${page.url()}: ${m.text()}`);
+      });
+      for (const file of files) {
+        await page.goto(pathToFileURL(file).href);
+        const { scroll, masthead } = await page.evaluate(() => ({
+          scroll: document.documentElement.scrollWidth,
+          masthead: getComputedStyle(document.querySelector('.masthead')!).backgroundColor,
+        }));
+        if (scroll > 1280) wide.push(`${file.slice(dir.length)}: ${scroll} px`);
+        // The report's own stylesheet loads under its content security policy (#1d2733).
+        if (masthead !== 'rgb(29, 39, 51)') unstyled.push(file.slice(dir.length));
+      }
+    }
+    expect(outside).toEqual([]);
+    expect(refused).toEqual([]);
+    expect(wide).toEqual([]);
+    expect(unstyled).toEqual([]);
+    await page.close();
+  }, 180_000);
+
+  it('says where a remote image was left out, and runs no script from handbook text', async () => {
+    const page = await browser.newPage();
+    await page.goto(pathToFileURL(join(hostileSite, 'index.html')).href);
+    const notes = await page.locator('.blocked-image').allInnerTexts();
+    expect(notes.join('\n')).toContain('https://images.example.invalid/pixel.png');
+    expect(notes.join('\n')).toContain('//images.example.invalid/p.png');
+    expect(notes.join('\n')).toContain('/etc/passwd');
+    // Three images leave the report; the svg data: address is refused by markdown-it itself and stays text.
+    expect(notes).toHaveLength(3);
+    await page.goto(pathToFileURL(join(hostileSite, 'structures', 'h'.repeat(64), 'index.html')).href);
+    expect(await page.evaluate(() => (window as unknown as { __pwned?: number }).__pwned)).toBeUndefined();
     await page.close();
   });
 });
