@@ -939,7 +939,9 @@ export function loadHandbook(source: HandbookSource): LoadResult {
   const { materials, written: materialIds, unreadable } = loadMaterials(source, out);
   // When materials.yaml has problems, its ids that did not load are broken for their users.
   const materialsFailed = out.some((d) => d.file === 'materials.yaml' && !isWarning(d));
-  const broken: Broken = { structures: new Set(), materials: new Set(materialsFailed ? materialIds : []), films: new Set(), anyStructure: false, anyMaterial: unreadable };
+  // A structures/ that is not a folder may have defined any structure a rule names.
+  const structuresUnreadable = out.some((d) => d.code === 'not-a-folder' && d.file === 'structures');
+  const broken: Broken = { structures: new Set(), materials: new Set(materialsFailed ? materialIds : []), films: new Set(), anyStructure: structuresUnreadable, anyMaterial: unreadable };
   const structures: Structure[] = [];
   const structureIds: IdPlace[] = [];
   const allFilms = new Set<string>();

@@ -70,9 +70,9 @@ export function decodeUtf8(bytes: Uint8Array): Decoded {
   } catch {
     const bad = firstInvalidUtf8(body);
     const before = new TextDecoder('utf-8').decode(body.subarray(0, bad));
-    const lineStart = before.lastIndexOf('\n') + 1;
-    const line = before.split('\n').length;
-    return { ok: false, line, column: before.length - lineStart + 1, found: `byte 0x${(body[bad] ?? 0).toString(16).toUpperCase().padStart(2, '0')}` };
+    // Lines break as YAML breaks them (LF, CRLF, lone CR), as positions elsewhere count them.
+    const lines = before.split(/\r\n|\r|\n/);
+    return { ok: false, line: lines.length, column: lines[lines.length - 1]!.length + 1, found: `byte 0x${(body[bad] ?? 0).toString(16).toUpperCase().padStart(2, '0')}` };
   }
 }
 

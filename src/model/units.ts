@@ -90,8 +90,24 @@ function hasOffset(u: Unit): boolean {
 
 const DIFFERENCE_EXPECTED = 'a temperature difference in K (such as "-250 K"): °C and °F are absolute scales with an offset, so write the change in K';
 
+/**
+ * The report's own spellings, so a value copied from a page reads back as the same value:
+ * "89.7°", "0.24 µm²", "2e17 cm⁻³", "25 °C", "−3 nm" (a typographic minus).
+ */
+function fromDisplay(text: string): string {
+  return text
+    .replace(/^\s*[\u2212\u2013]/, '-')
+    .replace(/\s*°([CF])/g, ' deg$1')
+    .replace(/\s*°/g, ' deg')
+    .replace(/⁻¹/g, '^-1')
+    .replace(/⁻²/g, '^-2')
+    .replace(/⁻³/g, '^-3')
+    .replace(/²/g, '^2')
+    .replace(/³/g, '^3');
+}
+
 function parseNumberWithUnit(text: string, siUnit: string, meaning: Meaning = 'absolute'): number | UnitProblem {
-  const t = text.trim();
+  const t = fromDisplay(text).trim();
   if (t === '') return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
   if (siUnit === '1' && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return Number(t);
   if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*[A-Za-zµμΩ%/]/.test(t)) {
@@ -138,7 +154,7 @@ const TOL = /^(.*?)\s*(?:±|\+\/-|\+-)\s*(.+)$/;
 const ASYM = /^(.*?)\s+\+\s*([0-9.eE+-]+)\s*\/\s*-\s*([0-9.eE+-]+)\s*(%|[A-Za-zµμ][^\s]*)?\s*$/;
 
 function unitOf(text: string): string {
-  const m = /^[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*(.*)$/.exec(text.trim());
+  const m = /^[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*(.*)$/.exec(fromDisplay(text).trim());
   return m?.[1] ?? '';
 }
 

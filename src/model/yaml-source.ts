@@ -24,9 +24,13 @@ export interface YamlFailure {
   reason: string;
 }
 
+/** Offsets where lines start. Line breaks are YAML's: LF, CRLF, or a lone CR (as js-yaml counts them). */
 export function lineStartsOf(text: string): number[] {
   const starts = [0];
-  for (let i = 0; i < text.length; i++) if (text.charCodeAt(i) === 10) starts.push(i + 1);
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) starts.push(i + 1);
+  }
   return starts;
 }
 
@@ -121,7 +125,9 @@ export function positionOf(src: YamlSource, pointer: string, at: 'key' | 'value'
   let p = pointer;
   for (;;) {
     const loc = src.places.get(p);
-    if (loc) return offsetToLineColumn(src.lineStarts, at === 'key' ? loc.keyOffset : loc.valueOffset);
+    const offset = loc ? (at === 'key' ? loc.keyOffset : loc.valueOffset) : -1;
+    // An empty scalar ("-" alone, a bare tag "!") has no offset of its own: use its parent's place.
+    if (offset >= 0) return offsetToLineColumn(src.lineStarts, offset);
     if (p === '') return { line: 1, column: 1 };
     p = p.slice(0, p.lastIndexOf('/'));
   }

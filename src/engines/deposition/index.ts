@@ -50,13 +50,35 @@ function openingInputs(shape: Shape, film?: string): Record<string, string> | nu
 
 /** Depth and narrowest width of the opening left to coat, from the inputs of openingInputs. */
 function opening(a: Record<string, number>): { depth: number; width: number } {
+  const o = openingOrClosed(a);
+  if ('reason' in o) throw new Error(`deposition: opening() on a closed opening (${o.reason}); stepQuantity checks first`);
+  return o;
+}
+
+/**
+ * The opening left to coat, or why there is none: the taper or the earlier films may close it
+ * (a re-entrant cup narrows to nothing at its base; two 10 nm films fill a 20 nm gap). A film step
+ * in a closed opening has no coverage, exposure or margin to give.
+ */
+function openingOrClosed(a: Record<string, number>): { depth: number; width: number } | { reason: string } {
   let narrowed = 0;
   for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
-  if (a.depth !== undefined) return { depth: a.depth, width: Math.min(a.cd!, a.bottom!) - narrowed };
-  // Inside a cup: the cavity of the geometry engine (its floor one wall above the base).
-  const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
-  if ('reason' in c) return { depth: 0, width: 0 };
-  return { depth: c.depth, width: Math.min(c.top, c.bottom) - narrowed };
+  let depth: number;
+  let narrowest: number;
+  if (a.depth !== undefined) {
+    depth = a.depth;
+    narrowest = Math.min(a.cd!, a.bottom!);
+  } else {
+    // Inside a cup: the cavity of the geometry engine (its floor one wall above the base).
+    const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
+    if ('reason' in c) return { reason: c.reason };
+    depth = c.depth;
+    narrowest = Math.min(c.top, c.bottom);
+  }
+  if (!(narrowest > 0)) return { reason: 'the opening closes before its bottom (its narrowest width is not above zero), so there is nothing below to coat' };
+  if (!(narrowest - narrowed > 0)) return { reason: `the earlier films (${Number((narrowed / 2 * 1e9).toPrecision(3))} nm on each wall) close the opening at its narrowest width, so this film has nowhere to go` };
+  if (!(depth > 0)) return { reason: 'the opening has no depth left to coat' };
+  return { depth, width: narrowest - narrowed };
 }
 
 const SYMBOLS: Record<string, string> = {
@@ -95,7 +117,10 @@ function stepQuantity(
         inputs: { ...geo, ...inputs(step.film, step.method) },
         symbols: SYMBOLS,
         formula: formula(step.method, elongated),
-        compute: (a: Record<string, number>) => compute(a, step.method, elongated),
+        compute: (a: Record<string, number>) => {
+          const o = openingOrClosed(a);
+          return 'reason' in o ? noValue(o.reason) : compute(a, step.method, elongated);
+        },
       });
     },
   };
