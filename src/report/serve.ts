@@ -5,7 +5,7 @@
 // segment (a malformed escape is a 400, an encoded slash or a dot segment too), resolved through
 // links, and served only if its real path lies inside the report and is a regular file. Every
 // failure is an answer (400, 404, 405), never a crash.
-import { createReadStream, realpathSync, statSync, watch, type FSWatcher } from 'node:fs';
+import { createReadStream, mkdirSync, realpathSync, statSync, watch, type FSWatcher } from 'node:fs';
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { extname, join, resolve } from 'node:path';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
@@ -116,6 +116,9 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
       }
     }));
   await rebuild();
+  // A handbook that does not load on the first build leaves no report yet: serve an empty folder
+  // (404s) until a change makes it load.
+  mkdirSync(out, { recursive: true });
   const rootReal = realpathSync(out);
 
   const server = createServer((req: IncomingMessage, res: ServerResponse) => {

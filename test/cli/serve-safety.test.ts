@@ -2,7 +2,7 @@
 // crash. Regression tests for the hostile-input review: an encoded "../" reached a sibling folder
 // whose name starts like the report's (the containment check lacked a separator), one malformed
 // escape stopped the server, and a bad or busy --port exited 3 with a stack trace.
-import { cpSync, mkdirSync, mkdtempSync, symlinkSync, writeFileSync } from 'node:fs';
+import { cpSync, mkdirSync, mkdtempSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { createServer, request } from 'node:http';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -109,6 +109,31 @@ describe('an invalid or busy --port exits 3 with a stack trace (regression)', ()
       expect(r.err).not.toMatch(/\n\s+at /);
     } finally {
       blocker.close();
+    }
+  }, 60_000);
+});
+
+describe('serve on a handbook that does not load yet', () => {
+  it('keeps running with nothing to serve, then serves the report once the handbook is fixed', async () => {
+    const dir = join(mkdtempSync(join(tmpdir(), 'plumbline-serve-broken-')), 'hb');
+    cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+    const file = join(dir, 'structures', 'test-pillar.yaml');
+    const good = readFileSync(file, 'utf8');
+    writeFileSync(file, good.replace('kind: pillar', 'kind: pilar'));
+    const errors: string[] = [];
+    const s = await serveSite(dir, join(dir, 'site'), 0, { out: () => undefined, err: (e) => errors.push(e) });
+    try {
+      expect(errors.join('\n')).toContain('unknown structure kind');
+      expect((await fetch(`http://127.0.0.1:${s.port}/`)).status).toBe(404);
+      writeFileSync(file, good);
+      let status = 0;
+      for (let i = 0; i < 80 && status !== 200; i++) {
+        await new Promise((r) => setTimeout(r, 250));
+        status = (await fetch(`http://127.0.0.1:${s.port}/`)).status;
+      }
+      expect(status).toBe(200);
+    } finally {
+      await s.close();
     }
   }, 60_000);
 });
