@@ -56,13 +56,25 @@ function getValidators(): NonNullable<typeof validators> {
 
 /** Collects diagnostics for one file, placing each at the field it concerns. */
 class FileReport {
+  /** Problems already reported, by code and field: one field's problem is said once, however many
+   * readers meet it (a via conductor's material is looked up for four properties). */
+  private readonly said = new Set<string>();
+  /** Fields whose value the schema found of the wrong type: nothing further is said about them. */
+  readonly mistyped = new Set<string>();
   constructor(
     readonly src: YamlSource,
     private readonly out: Diagnostic[],
   ) {}
   add(code: DiagnosticCode, pointer: string, extra: Partial<Diagnostic> = {}, at: 'key' | 'value' = 'value'): void {
+    const key = `${code}\u0000${pointer}`;
+    if (this.said.has(key)) return;
+    this.said.add(key);
     const { line, column } = positionOf(this.src, pointer, at);
     this.out.push({ code, file: this.src.file, line, column, field: pointerToField(pointer), ...extra });
+  }
+  /** Any error reported in this file. */
+  get failed(): boolean {
+    return this.out.some((d) => d.file === this.src.file && !isWarning(d));
   }
   /** A diagnostic about `fieldPointer`, placed at `placePointer` (for fields not written). */
   addAt(code: DiagnosticCode, placePointer: string, fieldPointer: string, extra: Partial<Diagnostic> = {}): void {
@@ -82,9 +94,14 @@ function isMapping(v: unknown): v is Record<string, unknown> {
 const PROPERTY_ALIASES: Record<string, string> = { thermal_expansion: 'expansion' };
 
 /** A material property as written in a block, under its own name or its alias, with the key used. */
-function writtenProperty(block: Record<string, unknown>, prop: string): { key: string; raw: unknown } | undefined {
-  if (block[prop] !== undefined) return { key: prop, raw: block[prop] };
+function writtenProperty(block: Record<string, unknown>, prop: string, conflict?: { report: FileReport; base: string }): { key: string; raw: unknown } | undefined {
   const alias = PROPERTY_ALIASES[prop];
+  if (alias !== undefined && block[prop] !== undefined && block[alias] !== undefined && conflict) {
+    // Both names at once: neither is silently preferred.
+    conflict.report.add('bad-value', `${conflict.base}/${alias}`, { expected: `one of ${prop} and ${alias} (the same property under two names), not both`, found: 'both' }, 'key');
+    return undefined;
+  }
+  if (block[prop] !== undefined) return { key: prop, raw: block[prop] };
   return alias !== undefined && block[alias] !== undefined ? { key: alias, raw: block[alias] } : undefined;
 }
 
@@ -118,9 +135,13 @@ function suggest(word: string, options: readonly string[], max = 3): string[] {
 /** Translate ajv's errors into diagnostics: unknown and missing fields, types, enums, ids. */
 function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt: (pointer: string) => string[]): void {
   const seen = new Set<string>();
+  // A value of the wrong type is one problem: its enum, pattern or length are not judged as well
+  // (`orientation: 001` is the number 1, not also an orientation outside the list).
+  const mistyped = new Set(errors.filter((e) => e.keyword === 'type').map((e) => e.instancePath));
   for (const e of errors) {
     const value = valueAt(report.src.value, e.instancePath);
     let key = `${e.keyword}:${e.instancePath}`;
+    if (e.keyword !== 'type' && mistyped.has(e.instancePath)) continue;
     switch (e.keyword) {
       case 'additionalProperties': {
         const name = (e.params as { additionalProperty: string }).additionalProperty;
@@ -140,9 +161,13 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
         break;
       }
       case 'type':
-        // A value field given .inf or .nan is a number the schema calls no number; readValue says so
-        // once, better ("a finite value"), so the schema's line would only contradict it.
-        if (typeof value === 'number' && !Number.isFinite(value) && allowsNumber(e)) continue;
+        report.mistyped.add(e.instancePath);
+        // .inf and .nan are numbers the schema calls no number: where a number belongs, the problem
+        // is that the value is not finite (said the same way readValue says it, so said once).
+        if (typeof value === 'number' && !Number.isFinite(value) && allowsNumber(e)) {
+          report.add('bad-value', e.instancePath, { expected: 'a finite value', found: sourceSpelling(report.src, e.instancePath) ?? String(value) });
+          break;
+        }
         report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: typeof value === 'number' && !Number.isFinite(value) ? (sourceSpelling(report.src, e.instancePath) ?? String(value)) : jsonType(value) });
         break;
       case 'maxLength':
@@ -241,8 +266,7 @@ function readAndParse(source: HandbookSource, path: string, out: Diagnostic[]): 
 }
 
 const isYamlName = (path: string) => ['.yaml', '.yml'].includes(extName(path).toLowerCase());
-/** Editor and system litter (.DS_Store, .x.yaml.swp, emacs lock links): skipped without a word. */
-const isHidden = (path: string) => baseName(path).startsWith('.') && !isYamlName(path);
+const isHidden = (path: string) => baseName(path).startsWith('.');
 /** Deep enough for any sensible grouping; deeper is a link loop. */
 const MAX_FOLDER_DEPTH = 8;
 
@@ -261,7 +285,12 @@ function discover(source: HandbookSource, dir: string, out: Diagnostic[]): strin
   const files: string[] = [];
   const walk = (folder: string, depth: number): void => {
     for (const e of source.list(folder)) {
-      if (isHidden(e.path)) continue;
+      if (isHidden(e.path)) {
+        // Hidden entries are not read. Editor and system litter (.DS_Store, .x.yaml.swp) passes
+        // without a word; a hidden YAML file (.draft.yaml, an editor's .#x.yaml lock) is named.
+        if (isYamlName(e.path)) out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: 'hidden files (names starting with a dot) are not read' });
+        continue;
+      }
       if (e.kind === 'folder') {
         if (depth < MAX_FOLDER_DEPTH) walk(e.path, depth + 1);
         else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `folders nested more than ${MAX_FOLDER_DEPTH} deep are not read (a link loop?)` });
@@ -318,6 +347,7 @@ function readValue(
   spec: ParamSpec,
 ): { value: number; low?: number; high?: number; written: string } | null {
   if (typeof raw !== 'string' && typeof raw !== 'number') return null; // the schema reported it
+  if (report.mistyped.has(pointer)) return null;
   const parsed = parseValue(raw, spec.unit, spec.meaning ?? 'absolute');
   if (isUnitProblem(parsed)) {
     report.add(parsed.code, pointer, { expected: parsed.expected, found: writtenText(report.src, pointer, raw) });
@@ -372,15 +402,18 @@ function loadMaterials(source: HandbookSource, out: Diagnostic[]): MaterialsLoad
   const loaded = readAndParse(source, path, out);
   if (!loaded) return { materials, written, unreadable: true };
   const { src, report } = loaded;
-  const entries = Array.isArray(src.value) ? (src.value as unknown[]) : [];
-  for (const e of entries) if (isMapping(e) && typeof e.id === 'string') written.add(e.id);
   const v = getValidators().materials;
-  if (!v(src.value)) {
-    reportSchemaErrors(v.errors ?? [], report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES)]);
-    return { materials, written, unreadable: false };
-  }
+  const valid = v(src.value);
+  const errors = v.errors ?? [];
+  if (!valid) reportSchemaErrors(errors, report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES)]);
+  // Not a list at all: any id a structure names might have been meant here.
+  if (!Array.isArray(src.value)) return { materials, written, unreadable: true };
+  const entries = src.value as unknown[];
+  for (const e of entries) if (isMapping(e) && typeof e.id === 'string') written.add(e.id);
   const ids: IdPlace[] = [];
-  (src.value as Array<Record<string, unknown>>).forEach((entry, i) => {
+  entries.forEach((entry, i) => {
+    // Each entry on its own: one bad entry does not take the others with it.
+    if (!isMapping(entry) || errors.some((e) => e.instancePath === `/${i}` || e.instancePath.startsWith(`/${i}/`))) return;
     const id = String(entry.id);
     ids.push({ id, at: report.pos(`/${i}/id`), field: `[${i}].id` });
     if (ids.some((x, k) => k < ids.length - 1 && x.id === id)) return; // reported below; the first one stands
@@ -531,7 +564,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
     }
     if (isInline) {
       for (const [prop, spec] of Object.entries(MATERIAL_PROPERTIES)) {
-        const w = writtenProperty(use as Record<string, unknown>, prop);
+        const w = writtenProperty(use as Record<string, unknown>, prop, { report, base: `/materials/${role}` });
         if (!w) continue;
         const pointer = `/materials/${role}/${w.key}`;
         const r = readValue(report, pointer, w.raw, spec);
@@ -915,12 +948,12 @@ function finish(out: Diagnostic[], broken: Broken): Diagnostic[] {
 }
 
 /** What a structure file says it defines, read from its raw value even when it fails to load. */
-function writtenDefinitions(raw: unknown, path: string): { id: string; films: string[] } {
+function writtenDefinitions(raw: unknown, path: string): { id: string; stem: string; films: string[] } {
   const name = baseName(path);
   const stem = name.slice(0, name.length - extName(name).length);
-  if (!isMapping(raw)) return { id: stem, films: [] };
+  if (!isMapping(raw)) return { id: stem, stem, films: [] };
   const films = Array.isArray(raw.deposition) ? raw.deposition.flatMap((s) => (isMapping(s) && typeof s.film === 'string' ? [s.film] : [])) : [];
-  return { id: typeof raw.id === 'string' ? raw.id : stem, films };
+  return { id: typeof raw.id === 'string' ? raw.id : stem, stem, films };
 }
 
 /**
@@ -957,8 +990,12 @@ export function loadHandbook(source: HandbookSource): LoadResult {
     if (s) {
       structures.push(s);
       structureIds.push({ id: s.id, at: loaded.report.pos('/id'), field: 'id' });
-    } else {
+    }
+    if (!s || loaded.report.failed) {
+      // A structure file with a problem: a rule may name it by the id written or by the file's
+      // name (which the id must equal); either reference is a consequence of that problem.
       broken.structures.add(written.id);
+      broken.structures.add(written.stem);
       written.films.forEach((f) => broken.films.add(f));
     }
   }

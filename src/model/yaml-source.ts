@@ -1,6 +1,6 @@
 // YAML with positions: js-yaml's parser events carry source offsets, so one pass over them maps
 // every field path to the place it was written, and the same events build the value.
-import { parseEvents, constructFromEvents, YAMLException, EVENT_ID, type Event } from 'js-yaml';
+import { parseEvents, constructFromEvents, getScalarValue, YAMLException, EVENT_ID, SCALAR_STYLE, type Event } from 'js-yaml';
 
 export interface Located {
   /** Offset of the key (for mapping members) or of the value. */
@@ -50,13 +50,15 @@ type Frame =
   | { type: 'seq'; path: string; index: number };
 
 function startOf(e: Event): number {
-  if (e.type === EVENT_ID.SCALAR) return e.valueStart;
+  // A quoted scalar's value starts after its quote; the place a reader looks for is the quote.
+  if (e.type === EVENT_ID.SCALAR) return e.valueStart >= 0 && (e.style === SCALAR_STYLE.SINGLE_QUOTED || e.style === SCALAR_STYLE.DOUBLE_QUOTED) ? e.valueStart - 1 : e.valueStart;
   if (e.type === EVENT_ID.MAPPING || e.type === EVENT_ID.SEQUENCE) return e.start;
   if (e.type === EVENT_ID.ALIAS) return e.anchorStart;
   return 0;
 }
 
 function mapPlaces(text: string, events: Event[]): Map<string, Located> {
+  let documents = 0;
   const places = new Map<string, Located>();
   const stack: Frame[] = [];
   const childPath = (): { path: string; keyOffset: number } | null => {
@@ -69,7 +71,10 @@ function mapPlaces(text: string, events: Event[]): Map<string, Located> {
     return p;
   };
   for (const e of events) {
-    if (e.type === EVENT_ID.DOCUMENT) continue;
+    if (e.type === EVENT_ID.DOCUMENT) {
+      if (++documents > 1) break; // only one document is read (a second is reported apart)
+      continue;
+    }
     if (e.type === EVENT_ID.POP) {
       stack.pop();
       continue;
@@ -78,7 +83,8 @@ function mapPlaces(text: string, events: Event[]): Map<string, Located> {
     const where = childPath();
     if (where === null && top && top.type === 'map') {
       // A key: remember it for the value that follows.
-      const key = e.type === EVENT_ID.SCALAR ? text.slice(e.valueStart, e.valueEnd).replace(/^["']|["']$/g, '') : '?';
+      // The key as the value holds it (quotes and escapes decoded), so paths match the parsed value.
+      const key = e.type === EVENT_ID.SCALAR ? getScalarValue(text, e) : '?';
       top.pendingKey = key;
       top.keyOffset = startOf(e);
       if (e.type === EVENT_ID.MAPPING || e.type === EVENT_ID.SEQUENCE) stack.push({ type: 'seq', path: '/?', index: 0 });
@@ -104,16 +110,42 @@ export function parseYamlSource(file: string, text: string): YamlSource | YamlFa
     const events = parseEvents(text, { filename: file });
     const docs = constructFromEvents(events, { source: text, filename: file });
     if (docs.length > 1) {
-      return { file, line: 1, column: 1, reason: 'a handbook file holds one YAML document; found several' };
+      const at = secondDocument(text, events, lineStarts);
+      return { file, ...at, reason: 'a handbook file holds one YAML document; a second one starts here' };
     }
     return { file, text, value: docs[0] ?? null, places: mapPlaces(text, events), lineStarts };
   } catch (err) {
     if (err instanceof YAMLException) {
       const mark = err.mark;
-      return { file, line: (mark?.line ?? 0) + 1, column: (mark?.column ?? 0) + 1, reason: err.reason };
+      const line = (mark?.line ?? 0) + 1;
+      // A tab in a line's indentation is the usual cause of a failure on that line, though the
+      // parser's own reason rarely says so ("end of the stream or a document separator is expected").
+      const text0 = text.slice(lineStarts[line - 1] ?? 0, lineStarts[line] ?? text.length);
+      const tab = /^[ ]*\t/.exec(text0);
+      if (tab) return { file, line, column: tab[0].length, reason: 'a tab in the indentation: YAML indents with spaces only' };
+      return { file, line, column: (mark?.column ?? 0) + 1, reason: err.reason };
     }
     throw err;
   }
+}
+
+/** Where the second document of a stream starts: its "---" line, or its first node. */
+function secondDocument(text: string, events: Event[], lineStarts: number[]): { line: number; column: number } {
+  let documents = 0;
+  for (const e of events) {
+    if (e.type === EVENT_ID.DOCUMENT) {
+      documents++;
+      continue;
+    }
+    if (documents < 2 || e.type === EVENT_ID.POP) continue;
+    const node = startOf(e);
+    if (node < 0) break;
+    const separator = text.lastIndexOf('\n---', node);
+    const at = separator >= 0 ? separator + 1 : node;
+    return offsetToLineColumn(lineStarts, at);
+  }
+  const separator = text.indexOf('\n---');
+  return separator >= 0 ? offsetToLineColumn(lineStarts, separator + 1) : { line: 1, column: 1 };
 }
 
 export function isYamlFailure(x: YamlSource | YamlFailure): x is YamlFailure {
@@ -125,8 +157,10 @@ export function positionOf(src: YamlSource, pointer: string, at: 'key' | 'value'
   let p = pointer;
   for (;;) {
     const loc = src.places.get(p);
-    const offset = loc ? (at === 'key' ? loc.keyOffset : loc.valueOffset) : -1;
-    // An empty scalar ("-" alone, a bare tag "!") has no offset of its own: use its parent's place.
+    // An empty value ("pitch:" with nothing after it) has no offset of its own: use its key's place,
+    // and for an item with neither ("-" alone, a bare tag "!"), the parent's.
+    const own = loc ? (at === 'key' ? loc.keyOffset : loc.valueOffset) : -1;
+    const offset = own >= 0 ? own : (loc?.keyOffset ?? -1);
     if (offset >= 0) return offsetToLineColumn(src.lineStarts, offset);
     if (p === '') return { line: 1, column: 1 };
     p = p.slice(0, p.lastIndexOf('/'));
