@@ -106,7 +106,7 @@ function fromDisplay(text: string): string {
     .replace(/³/g, '^3');
 }
 
-function parseNumberWithUnit(text: string, siUnit: string, meaning: Meaning = 'absolute'): number | UnitProblem {
+function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem {
   const t = fromDisplay(text).trim();
   if (t === '') return { code: 'malformed-quantity', expected: describeDimension(siUnit) };
   if (siUnit === '1' && /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return Number(t);
@@ -125,7 +125,6 @@ function parseNumberWithUnit(text: string, siUnit: string, meaning: Meaning = 'a
   }
   const ref = referenceUnit(siUnit);
   if (!u.equalBase(ref)) return { code: 'wrong-dimension', expected: describeDimension(siUnit) };
-  if (meaning === 'difference' && hasOffset(u)) return { code: 'offset-unit', expected: DIFFERENCE_EXPECTED };
   const si = u.toSI().toNumeric();
   return typeof si === 'number' ? clean(si) : clean(Number(si));
 }

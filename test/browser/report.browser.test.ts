@@ -148,4 +148,20 @@ describe('report in chromium', () => {
     expect(await page.evaluate('typeof window.__pwned')).toBe('undefined');
     await page.close();
   });
+
+  it("enforces the pages' content security policy: an image from outside is blocked even if one got in", async () => {
+    // Second line of defence behind the markdown renderer: put a remote image into a page by hand.
+    const page = await browser.newPage();
+    await page.goto(pathToFileURL(join(site, 'index.html')).href);
+    const blocked = new Promise<string>((res) => {
+      page.on('requestfailed', (r) => res(r.failure()?.errorText ?? ''));
+      page.on('console', (m) => {
+        if (/Content Security Policy/i.test(m.text())) res('csp');
+      });
+      setTimeout(() => res('not blocked'), 5000);
+    });
+    await page.evaluate(`(() => { const i = new Image(); i.src = 'https://images.example.invalid/probe.png'; document.body.append(i); })()`);
+    expect(await blocked).toBe('csp');
+    await page.close();
+  });
 });

@@ -56,6 +56,14 @@ describe('build --out can delete the handbook (regression)', () => {
     expect(snapshot(hb)).toEqual(before);
   });
 
+  it('refuses a folder holding the handbook even when it carries our marker', () => {
+    const hb = handbook();
+    const above = join(hb, '..');
+    // The marker of a report (publish.ts writes exactly this line).
+    writeFileSync(join(above, MARKER), '{"generator":"plumbline","format":1}\n');
+    expect(() => guardOutput(above, hb)).toThrow(/contains the handbook/);
+  });
+
   it("refuses a folder inside the handbook's structures/ or rules/", () => {
     const hb = handbook();
     expect(() => guardOutput(join(hb, 'structures'), hb)).toThrow(Refusal);

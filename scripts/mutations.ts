@@ -1,0 +1,88 @@
+// Mutation check: does the suite bite? Each entry is a deliberately wrong edit to the safety and
+// loading code; applying it must make at least one of the named test files fail. Run it with
+// `npm run mutations` (a few minutes: one vitest run per mutation). The source is restored after
+// each run, also when interrupted.
+//
+//   node --import tsx scripts/mutations.ts [filter]
+import { execFileSync } from 'node:child_process';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+
+interface Mutation {
+  name: string;
+  file: string;
+  from: string;
+  to: string;
+  /** A second edit in the same file, for checks that stand in two layers. */
+  also?: [string, string];
+  tests: string[];
+}
+
+const M: Mutation[] = [
+  { name: 'build may replace the handbook folder itself', file: 'src/report/publish.ts', from: 'if (realOut === realRoot) throw', to: 'if (false) throw', tests: ['test/report/publish.test.ts'] },
+  { name: 'build may replace a folder above the handbook', file: 'src/report/publish.ts', from: 'if (isInside(realOut, realRoot)) throw', to: 'if (false) throw', tests: ['test/report/publish.test.ts'] },
+  { name: 'any non-empty folder counts as ours', file: 'src/report/publish.ts', from: "if (readdirSync(absOut).length === 0) return;", to: 'return;', tests: ['test/report/publish.test.ts'] },
+  { name: 'links are followed as output folders', file: 'src/report/publish.ts', from: 'if (st.isSymbolicLink()) throw', to: 'if (false) throw', tests: ['test/report/publish.test.ts'] },
+  { name: 'recovery prefers the old report to the complete new one', file: 'src/report/publish.ts', from: "found.filter((f) => f.kind === 'building' && f.state === 'complete')", to: "found.filter((f) => f.kind === 'previous' && f.state === 'complete')", tests: ['test/report/publish.test.ts'] },
+  { name: 'leftovers without our marker are deleted too', file: 'src/report/publish.ts', from: "if (f.state !== 'none') {", to: 'if (true) {', tests: ['test/report/publish.test.ts'] },
+  { name: 'a live lock holder is taken over', file: 'src/report/publish.ts', from: '&& !alive(holder.pid)', to: '', tests: ['test/report/publish.test.ts'] },
+  { name: 'serve accepts dot segments', file: 'src/report/serve.ts', from: "if (seg === '.' || seg === '..') return { status: 400 };", to: '', tests: ['test/cli/serve-safety.test.ts'] },
+  { name: 'serve accepts encoded slashes', file: 'src/report/serve.ts', from: "if (seg.includes('/') || seg.includes('\\\\') || seg.includes('\\0')) return { status: 400 };", to: '', tests: ['test/cli/serve-safety.test.ts'] },
+  { name: 'serve follows links out of the report', file: 'src/report/serve.ts', from: 'if (!isInside(rootReal, real)) return { status: 404 };\n    if (statSync', to: 'if (statSync', tests: ['test/cli/serve-safety.test.ts'] },
+  { name: 'serve lets a malformed escape throw', file: 'src/report/serve.ts', from: 'return { status: 400 }; // a malformed escape', to: 'throw new URIError("x"); // a malformed escape', tests: ['test/cli/serve-safety.test.ts'] },
+  { name: 'serve gives out dotfiles', file: 'src/report/serve.ts', from: "if (seg.startsWith('.')) return { status: 404 };", to: '', tests: ['test/cli/serve-safety.test.ts'] },
+  { name: 'loading follows links out of the handbook', file: 'src/model/folder-source.ts', from: "if (!isInside(this.realRoot, real)) return { kind: 'other'", to: "if (false) return { kind: 'other'", tests: ['test/corpus/corpus.test.ts'] },
+  { name: 'loading reads FIFOs and devices (both the listing check and the check on the open file)', file: 'src/model/folder-source.ts', from: "return { kind: 'other', what: describeStat(st) };", to: "return { kind: 'file', real };", also: ["if (!st.isFile()) return { ok: false, problem: { code: 'not-a-regular-file'", "if (false) return { ok: false, problem: { code: 'not-a-regular-file'"], tests: ['test/corpus/corpus.test.ts', 'test/cli/refusals.test.ts'] },
+  { name: 'no size limit (neither before nor while reading)', file: 'src/model/folder-source.ts', from: 'if (st.size > MAX_FILE_BYTES)', to: 'if (false)', also: ['if (n > MAX_FILE_BYTES)', 'if (false)'], tests: ['test/corpus/corpus.test.ts'] },
+  { name: 'bytes that are not UTF-8 become U+FFFD', file: 'src/model/source.ts', from: "fatal: true, ignoreBOM: true", to: "fatal: false, ignoreBOM: true", tests: ['test/model/regressions.test.ts', 'test/corpus/corpus.test.ts'] },
+  { name: 'a byte-order mark is kept', file: 'src/model/source.ts', from: 'bytes[2] === 0xbf ? 3 : 0', to: 'bytes[2] === 0xbf ? 0 : 0', tests: ['test/model/regressions.test.ts'] },
+  { name: 'offset units allowed for a difference', file: 'src/model/units.ts', from: "if (offsetScale(nominalText)) return { code: 'offset-unit'", to: "if (false) return { code: 'offset-unit'", tests: ['test/model/regressions.test.ts'] },
+  { name: 'a tolerance in degC converted as an absolute temperature', file: 'src/model/units.ts', from: 'return clean(v - Number(zero));', to: 'return v;', tests: ['test/model/regressions.test.ts'] },
+  { name: 'a reversed tolerance is read as something else', file: 'src/model/units.ts', from: 'const reversed = REVERSED.exec(text);', to: 'const reversed = null as RegExpExecArray | null;', tests: ['test/model/regressions.test.ts'] },
+  { name: 'a material property loses its tolerance where used', file: 'src/model/load.ts', from: '...(mp.low !== undefined && mp.high !== undefined ? { low: mp.low, high: mp.high } : {}),', to: '', tests: ['test/model/regressions.test.ts'] },
+  { name: 'relations checked at nominal only', file: 'src/model/relations.ts', from: 'for (let mask = 0; mask < 1 << tol.length; mask++) {', to: 'for (let mask = 0; mask < 0; mask++) {', tests: ['test/model/regressions.test.ts', 'test/corpus/corpus.test.ts'] },
+  { name: 'duplicate material ids accepted', file: 'src/model/load.ts', from: '  checkDuplicates(ids, out);\n  return { materials', to: '  return { materials', tests: ['test/model/regressions.test.ts'] },
+  { name: 'follow-on errors reported', file: 'src/model/load.ts', from: 'return sortDiagnostics(out.filter((d) => !isConsequence(d, broken)));', to: 'return sortDiagnostics(out);', tests: ['test/model/regressions.test.ts', 'test/corpus/corpus.test.ts'] },
+  { name: 'a field’s problem said as often as it is met', file: 'src/model/load.ts', from: 'if (this.said.has(key)) return;', to: '', tests: ['test/corpus/corpus.test.ts'] },
+  { name: 'non-YAML files in structures/ ignored without a word', file: 'src/model/load.ts', from: "else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: e.kind === 'file'", to: "else void ({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: e.kind === 'file'", tests: ['test/model/regressions.test.ts', 'test/corpus/corpus.test.ts'] },
+  { name: 'ids of any length', file: 'src/model/schema.ts', from: 'export const MAX_ID_LENGTH = 64;', to: 'export const MAX_ID_LENGTH = 6400;', tests: ['test/model/regressions.test.ts'] },
+  { name: 'messages quote whole values', file: 'src/diagnostics/messages.ts', from: 'export const MAX_QUOTE = 80;', to: 'export const MAX_QUOTE = 1e9;', tests: ['test/corpus/corpus.test.ts'] },
+  { name: 'remote markdown images rendered as images', file: 'src/report/markdown.ts', from: 'if (isInsideReport(src)) return self.renderToken', to: 'if (true) return self.renderToken', tests: ['test/browser/report.browser.test.ts'] },
+  { name: 'protocol-relative images count as inside the report', file: 'src/report/markdown.ts', from: "if (s.startsWith('//') || s.startsWith('/') || s.startsWith('\\\\')) return false;", to: '', tests: ['test/browser/report.browser.test.ts'] },
+  { name: 'pages without a content security policy', file: 'templates/_layouts/base.njk', from: '<meta http-equiv="Content-Security-Policy" content="{{ report.contentSecurityPolicy }}">', to: '', tests: ['test/browser/report.browser.test.ts'] },
+  { name: 'long words widen the page', file: 'templates/style.css.njk', from: 'body { margin: 0; overflow-wrap: anywhere; }', to: 'body { margin: 0; }', tests: ['test/browser/report.browser.test.ts'] },
+  { name: 'a closed opening gives an infinite ALD exposure', file: 'src/engines/deposition/index.ts', from: "return 'reason' in o ? noValue(o.reason) : compute(a, step.method, elongated);", to: "return 'reason' in o ? Infinity : compute(a, step.method, elongated);", tests: ['test/property/engines.property.test.ts'] },
+];
+
+const ROOT = resolve(import.meta.dirname, '..');
+const filter = process.argv[2];
+const survivors: string[] = [];
+for (const m of M.filter((x) => !filter || x.name.includes(filter))) {
+  const path = resolve(ROOT, m.file);
+  const original = readFileSync(path, 'utf8');
+  if (!original.includes(m.from) || (m.also && !original.includes(m.also[0]))) {
+    survivors.push(`${m.name}: the text to mutate is no longer in ${m.file} (update the mutation)`);
+    continue;
+  }
+  const restore = () => writeFileSync(path, original);
+  const onInterrupt = () => (restore(), process.exit(130));
+  process.once('SIGINT', onInterrupt);
+  let mutated = original.replace(m.from, m.to);
+  if (m.also) mutated = mutated.replace(m.also[0], m.also[1]);
+  writeFileSync(path, mutated);
+  let killed = false;
+  try {
+    execFileSync('npx', ['vitest', 'run', ...m.tests], { cwd: ROOT, stdio: 'ignore' });
+  } catch {
+    killed = true;
+  } finally {
+    restore();
+    process.off('SIGINT', onInterrupt);
+  }
+  console.log(`${killed ? 'killed  ' : 'SURVIVED'} ${m.name}`);
+  if (!killed) survivors.push(m.name);
+}
+if (survivors.length) {
+  console.log(`\n${survivors.length} mutation(s) survived:\n- ${survivors.join('\n- ')}`);
+  process.exitCode = 1;
+} else console.log('\nevery mutation was caught');
