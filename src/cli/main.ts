@@ -10,15 +10,13 @@ import { FolderSource, SingleFileSource } from '../model/folder-source.ts';
 import { loadHandbook, loadStructure } from '../model/load.ts';
 import type { Structure } from '../model/types.ts';
 import { checkHandbook, exitCodeFor } from '../pipeline.ts';
+import { Refusal } from '../diagnostics/refusal.ts';
 import { renderCheckSummary, renderExplain, renderStructureQuantities } from './text.ts';
 
 interface Io {
   out: (s: string) => void;
   err: (s: string) => void;
 }
-
-/** Stops the command, says why on stderr and exits 2; nothing was changed (see report/publish.ts). */
-class Refused extends Error {}
 
 function rootOf(cmd: Command): string {
   return resolve(String(cmd.optsWithGlobals().root ?? '.'));
@@ -28,26 +26,6 @@ function rootOf(cmd: Command): string {
 export function parsePort(text: string): number {
   if (!/^\d{1,5}$/.test(text.trim()) || Number(text) > 65535) throw new InvalidArgumentError('expected a port number from 0 to 65535 (0 picks a free one)');
   return Number(text);
-}
-
-/** File-system failures while writing a report are the machine's, not ours: say which, exit 2. */
-const WRITE_PROBLEMS: Record<string, string> = {
-  ENOSPC: 'the disk is full',
-  EDQUOT: 'the disk quota is exhausted',
-  EACCES: 'permission denied',
-  EPERM: 'permission denied',
-  EROFS: 'the file system is read-only',
-  ENAMETOOLONG: 'a path is too long for the file system',
-  EMFILE: 'too many open files',
-};
-
-function writeProblem(err: unknown): string | undefined {
-  // Eleventy wraps the system error; follow the chain of causes to it.
-  for (let e = err as (NodeJS.ErrnoException & { originalError?: unknown }) | undefined, depth = 0; e && depth < 8; e = (e.cause ?? e.originalError) as typeof e, depth++) {
-    const what = typeof e.code === 'string' ? WRITE_PROBLEMS[e.code] : undefined;
-    if (what) return `the report could not be written: ${what} (${e.code}${e.path ? ` at ${e.path}` : ''}); the previous report, if any, is untouched`;
-  }
-  return undefined;
 }
 
 function printWarnings(io: Io, warnings: Diagnostic[]): void {
@@ -151,7 +129,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       }
       printWarnings(io, outcome.handbook.warnings);
       const { buildSite } = await import('../report/site.ts');
-      const { Refusal } = await import('../report/publish.ts');
+      const { writeFailure } = await import('../report/publish.ts');
       const out = resolve(root, opts.out);
       try {
         const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline build', onWait: (h) => io.err(`waiting for another build of ${out} (pid ${h.pid}, started ${h.started}) to finish`) });
@@ -159,9 +137,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         io.out(`wrote ${stats.pages} pages to ${out}\nopen ${resolve(out, 'index.html')}`);
         setExit(0);
       } catch (err) {
-        const problem = err instanceof Refusal ? err.message : writeProblem(err);
-        if (problem === undefined) throw err;
-        throw new Refused(problem);
+        throw writeFailure(err) ?? err;
       }
     });
 
@@ -172,13 +148,12 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .option('--port <n>', 'port (0 picks a free one)', parsePort, 8084)
     .action(async (opts: { out: string; port: number }, cmd: Command) => {
       const { serveSite } = await import('../report/serve.ts');
-      const { Refusal } = await import('../report/publish.ts');
+      const { writeFailure } = await import('../report/publish.ts');
       let serving;
       try {
         serving = await serveSite(rootOf(cmd), resolve(rootOf(cmd), opts.out), opts.port, io);
       } catch (err) {
-        if (err instanceof Refusal) throw new Refused(err.message);
-        throw err;
+        throw writeFailure(err) ?? err;
       }
       await new Promise<void>((done) => {
         const stop = () => void serving.close().then(done);
@@ -201,7 +176,7 @@ export async function run(argv: string[], io: Io): Promise<number> {
     if (typeof e.code === 'string' && e.code.startsWith('commander.')) {
       return e.code === 'commander.helpDisplayed' || e.code === 'commander.version' || e.code === 'commander.help' ? 0 : 2;
     }
-    if (err instanceof Refused) {
+    if (err instanceof Refusal) {
       io.err(`plumbline: ${err.message}`);
       return exitCodeFor({ refused: true });
     }

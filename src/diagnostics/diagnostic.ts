@@ -56,7 +56,11 @@ export interface Diagnostic {
   /** For a reference to another item (a material, a structure, a film step): which. A reference to
    * an item that was written but failed to load is a consequence of that failure and is dropped. */
   refersTo?: { kind: 'material' | 'structure' | 'film'; id: string };
+  /** For `not-loaded`: why the entry was left out (worded in messages.ts). */
+  reason?: NotLoadedReason;
 }
+
+export type NotLoadedReason = 'not-yaml' | 'hidden' | 'special' | 'revisited' | 'too-deep' | 'misnamed-file' | 'misnamed-folder';
 
 /** Locale-independent string order, so output is byte-identical on every machine. */
 export function byCodePoint(a: string, b: string): number {

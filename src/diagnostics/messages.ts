@@ -1,6 +1,7 @@
 // The one catalogue of sentences about handbook problems. Tests assert codes and fields, so
 // rewording here never breaks a test.
-import { isWarning, type Diagnostic } from './diagnostic.ts';
+import { isWarning, type Diagnostic, type NotLoadedReason } from './diagnostic.ts';
+import type { RefusalCode, RefusalFacts } from './refusal.ts';
 
 const headline: Record<Diagnostic['code'], (d: Diagnostic) => string> = {
   'yaml-syntax': (d) => `YAML syntax error: ${d.found ?? ''}`,
@@ -27,7 +28,18 @@ const headline: Record<Diagnostic['code'], (d: Diagnostic) => string> = {
   'outside-handbook': (d) => `not read: ${d.found ?? 'outside the handbook'}`,
   'file-too-large': (d) => `not read: the file is too large (${d.found ?? ''})`,
   'not-utf8': (d) => `not UTF-8 text (${d.found ?? ''}); save the file as UTF-8`,
-  'not-loaded': (d) => `not loaded: ${d.found ?? ''}`,
+  'not-loaded': (d) => `not loaded: ${NOT_LOADED[d.reason ?? 'special'](d.found ?? '')}`,
+};
+
+/** Why an entry of the handbook folders was left out; `found` holds the fact (a kind, a name). */
+const NOT_LOADED: Record<NotLoadedReason, (found: string) => string> = {
+  'not-yaml': (f) => `only .yaml and .yml files are read in ${f}`,
+  hidden: () => 'hidden files (names starting with a dot) are not read',
+  special: (f) => `${f || 'not a regular file'}, which is not read`,
+  revisited: () => 'a link to a folder that is read already (through another path)',
+  'too-deep': (f) => `folders nested more than ${f} deep are not read`,
+  'misnamed-file': (f) => `the file is read only when named ${f}`,
+  'misnamed-folder': (f) => `the folder is read only when named ${f}`,
 };
 
 /** Longest text quoted back from a handbook file: enough to recognise it, never the whole file. */
@@ -79,4 +91,28 @@ export function formatDiagnostics(list: Diagnostic[]): string {
 /** Warnings of a handbook that loaded (printed on stderr before a command's own output). */
 export function formatWarnings(list: Diagnostic[]): string {
   return `${list.map(formatDiagnostic).join('\n')}\n${plural(list.length, 'warning')}: the handbook loaded without ${list.length === 1 ? 'it' : 'them'}.`;
+}
+
+const MARKER_NAME = '.plumbline-report';
+
+/** Why a command stopped without changing anything (see refusal.ts). */
+const refusal: Record<RefusalCode, (f: RefusalFacts) => string> = {
+  'output-is-handbook': (f) => `the output folder ${f.path} is the handbook folder itself; building there would replace the handbook. Choose another --out (the default is site/ inside the handbook).`,
+  'output-holds-handbook': (f) => `the output folder ${f.path} contains the handbook (${f.root}); building there would replace it. Choose a folder beside or inside the handbook, such as site/.`,
+  'output-inside-inputs': (f) => `the output folder ${f.path} lies inside the handbook's ${f.input}; the report would be mixed with the handbook's files. Choose another --out, such as site/.`,
+  'output-is-link': (f) => `the output folder ${f.path} is a symbolic link; plumbline replaces only real folders it wrote. Give the folder the link points to, or remove the link.`,
+  'output-is-file': (f) => `the output path ${f.path} is a file, not a report folder; plumbline will not replace it.`,
+  'output-not-ours': (f) => `the folder ${f.path} exists and is not a report plumbline wrote (it has no ${MARKER_NAME} file); plumbline will not replace it. Choose an empty or new --out, or remove the folder yourself if it is an old report.`,
+  'output-has-foreign-files': (f) => `the report folder ${f.path} holds ${f.fileCount === 1 ? 'a file' : `${f.fileCount} files`} plumbline did not write (${(f.files ?? []).join(', ')}${(f.fileCount ?? 0) > (f.files ?? []).length ? ', …' : ''}); a new build would delete ${f.fileCount === 1 ? 'it' : 'them'}. Move ${f.fileCount === 1 ? 'it' : 'them'} out of the report folder, or build into another --out.`,
+  'output-changed': (f) => `the output folder ${f.path} changed while the report was being built (it is no longer empty or a report plumbline wrote); it was left as it is. Build again, or choose another --out.`,
+  'lock-held': (f) => `another build holds ${f.lock}: ${f.holder}. If no such build is running, delete that file and try again.`,
+  'lock-unavailable': (f) => `cannot create the lock ${f.lock}: ${f.reason ?? ''}`,
+  'port-in-use': (f) => `port ${f.port} is already in use on 127.0.0.1; stop what is using it or choose another with --port`,
+  'port-forbidden': (f) => `port ${f.port} may not be used by this user; choose one above 1023 with --port`,
+  'port-unavailable': (f) => `cannot listen on 127.0.0.1:${f.port}: ${f.reason ?? ''}`,
+  'write-failed': (f) => `the report could not be written: ${f.reason} (${f.errno}${f.path ? ` at ${f.path}` : ''}); the previous report, if any, is untouched`,
+};
+
+export function describeRefusal(code: RefusalCode, facts: RefusalFacts): string {
+  return refusal[code](facts);
 }

@@ -2,7 +2,8 @@
 // handbook's real path (a link may point elsewhere inside it, never out), and at most
 // MAX_FILE_BYTES of each: a link to /etc/passwd, a FIFO or /dev/zero is a diagnostic, not a read.
 import { closeSync, constants, fstatSync, lstatSync, openSync, readdirSync, readSync, realpathSync, statSync } from 'node:fs';
-import { isAbsolute, join, relative, sep } from 'node:path';
+import { basename, dirname, isAbsolute, join, relative, sep } from 'node:path';
+import process from 'node:process';
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { loadHandbook, type LoadResult } from './load.ts';
 import { MAX_FILE_BYTES, type EntryKind, type HandbookSource, type ReadOutcome, type SourceEntry } from './source.ts';
@@ -20,7 +21,7 @@ function describeStat(st: { isFIFO(): boolean; isSocket(): boolean; isCharacterD
   return 'neither a file nor a folder';
 }
 
-type Resolved = { kind: EntryKind; real?: string; what?: string } | { kind: 'missing' };
+type Resolved = { kind: 'file' | 'folder'; real: string } | { kind: 'other'; what: string; problem: 'outside-handbook' | 'not-a-regular-file' } | { kind: 'missing' };
 
 export class FolderSource implements HandbookSource {
   readonly label = '';
@@ -50,43 +51,51 @@ export class FolderSource implements HandbookSource {
     try {
       real = realpathSync(abs);
     } catch {
-      return { kind: 'other', what: 'a link to nothing' };
+      return { kind: 'other', what: 'a link to nothing', problem: 'not-a-regular-file' };
     }
-    if (!isInside(this.realRoot, real)) return { kind: 'other', what: linked ? 'a link to outside the handbook' : 'outside the handbook' };
-    const st = statSync(real);
+    if (!isInside(this.realRoot, real)) return { kind: 'other', what: linked ? 'a link to outside the handbook' : 'outside the handbook', problem: 'outside-handbook' };
+    let st;
+    try {
+      st = statSync(real);
+    } catch {
+      return { kind: 'missing' }; // gone between the two looks (an editor saving by rename)
+    }
     if (st.isFile()) return { kind: 'file', real };
     if (st.isDirectory()) return { kind: 'folder', real };
-    return { kind: 'other', what: describeStat(st) };
+    return { kind: 'other', what: describeStat(st), problem: 'not-a-regular-file' };
   }
 
   kindOf(path: string): EntryKind | 'missing' {
     return this.resolve(path).kind;
   }
 
+  identity(path: string): string | undefined {
+    const r = this.resolve(path);
+    return r.kind === 'folder' ? r.real : undefined;
+  }
+
   list(path: string): SourceEntry[] {
     const r = this.resolve(path);
-    if (r.kind !== 'folder' || !('real' in r) || !r.real) return [];
+    if (r.kind !== 'folder') return [];
     let names: string[];
     try {
       names = readdirSync(r.real);
     } catch {
       return [];
     }
-    return names.sort(byCodePoint).map((name) => {
+    return names.sort(byCodePoint).flatMap((name): SourceEntry[] => {
       const child = path === '' ? name : `${path}/${name}`;
       const c = this.resolve(child);
-      return { path: child, kind: c.kind === 'missing' ? 'other' : c.kind, ...('what' in c && c.what ? { what: c.what } : c.kind === 'missing' ? { what: 'gone while listing' } : {}) };
+      if (c.kind === 'missing') return []; // gone while listing
+      return [c.kind === 'other' ? { path: child, kind: 'other', what: c.what, problem: c.problem } : { path: child, kind: c.kind }];
     });
   }
 
   read(path: string): ReadOutcome {
     const r = this.resolve(path);
     if (r.kind === 'missing') return { ok: false, problem: { code: 'file-unreadable', found: 'no such file' } };
-    if (r.kind === 'other') {
-      const code = r.what?.includes('outside') ? 'outside-handbook' : 'not-a-regular-file';
-      return { ok: false, problem: { code, found: r.what ?? 'not a regular file' } };
-    }
-    if (r.kind === 'folder' || !r.real) return { ok: false, problem: { code: 'not-a-regular-file', found: 'a folder' } };
+    if (r.kind === 'other') return { ok: false, problem: { code: r.problem, found: r.what } };
+    if (r.kind === 'folder') return { ok: false, problem: { code: 'not-a-regular-file', found: 'a folder' } };
     // O_NONBLOCK: should a FIFO be swapped in after the check above, opening it must not hang;
     // fstat on the open descriptor then decides what was actually opened.
     let fd: number;
@@ -118,26 +127,32 @@ export class FolderSource implements HandbookSource {
   }
 }
 
-/** One file named on the command line (`eval FILE`): that file and nothing else, under the same limits. */
+/**
+ * One file named on the command line (`eval FILE`): that file and nothing else, under the same
+ * limits. Its path in messages is as the user gave it, relative to the working folder, so a
+ * terminal or editor can open `sub/slot.yaml:3:7`.
+ */
 export class SingleFileSource implements HandbookSource {
   readonly label = '';
-  private readonly inner: FolderSource;
-  readonly file: string;
-  constructor(absPath: string) {
-    const dir = join(absPath, '..');
-    this.inner = new FolderSource(dir);
-    this.root = dir;
-    this.file = relative(dir, absPath);
-  }
   readonly root: string;
+  /** The file's path in messages. */
+  readonly file: string;
+  private readonly inner: FolderSource;
+  private readonly name: string;
+  constructor(absPath: string, shownAs = relative(process.cwd(), absPath).split(sep).join('/')) {
+    this.root = dirname(absPath);
+    this.inner = new FolderSource(this.root);
+    this.name = basename(absPath);
+    this.file = shownAs;
+  }
   kindOf(path: string): EntryKind | 'missing' {
-    return path === this.file ? this.inner.kindOf(path) : 'missing';
+    return path === this.file ? this.inner.kindOf(this.name) : 'missing';
   }
   list(): SourceEntry[] {
     return [];
   }
   read(path: string): ReadOutcome {
-    return path === this.file ? this.inner.read(path) : { ok: false, problem: { code: 'file-unreadable', found: 'no such file' } };
+    return path === this.file ? this.inner.read(this.name) : { ok: false, problem: { code: 'file-unreadable', found: 'no such file' } };
   }
 }
 

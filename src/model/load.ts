@@ -3,7 +3,7 @@
 // and loading carries on, so one run reports them all.
 import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
 import { closest, distance } from 'fastest-levenshtein';
-import type { Diagnostic, DiagnosticCode } from '../diagnostics/diagnostic.ts';
+import type { Diagnostic, DiagnosticCode, NotLoadedReason } from '../diagnostics/diagnostic.ts';
 import { byCodePoint, isWarning, sortDiagnostics } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
@@ -35,7 +35,7 @@ import { formatValue } from '../report/format.ts';
 import { isUnitProblem, parseValue } from './units.ts';
 import { checkRelation, describeCorner, structureRelations, type Relation } from './relations.ts';
 import { isYamlFailure, parseYamlSource, pointerToField, positionOf, type YamlSource } from './yaml-source.ts';
-import { baseName, decodeUtf8, extName, type HandbookSource } from './source.ts';
+import { HANDBOOK_INPUTS, baseName, decodeUtf8, extName, type HandbookSource } from './source.ts';
 
 /** A handbook (with the warnings of its loading in `handbook.warnings`), or every problem found. */
 export type LoadResult = { ok: true; handbook: Handbook } | { ok: false; diagnostics: Diagnostic[] };
@@ -283,19 +283,29 @@ function discover(source: HandbookSource, dir: string, out: Diagnostic[]): strin
     return [];
   }
   const files: string[] = [];
+  const leftOut = (path: string, reason: NotLoadedReason, found: string): void => void out.push({ code: 'not-loaded', file: path, line: 1, column: 1, field: '', reason, found });
+  // Folders already walked, by identity: a link back to one (a loop, or a second way in) is not
+  // walked again, or every file below it would load twice.
+  const seen = new Set<string>();
   const walk = (folder: string, depth: number): void => {
+    const id = source.identity?.(folder);
+    if (id !== undefined) {
+      if (seen.has(id)) return leftOut(folder, 'revisited', '');
+      seen.add(id);
+    }
     for (const e of source.list(folder)) {
       if (isHidden(e.path)) {
         // Hidden entries are not read. Editor and system litter (.DS_Store, .x.yaml.swp) passes
         // without a word; a hidden YAML file (.draft.yaml, an editor's .#x.yaml lock) is named.
-        if (isYamlName(e.path)) out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: 'hidden files (names starting with a dot) are not read' });
+        if (isYamlName(e.path)) leftOut(e.path, 'hidden', '');
         continue;
       }
       if (e.kind === 'folder') {
         if (depth < MAX_FOLDER_DEPTH) walk(e.path, depth + 1);
-        else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `folders nested more than ${MAX_FOLDER_DEPTH} deep are not read (a link loop?)` });
+        else leftOut(e.path, 'too-deep', String(MAX_FOLDER_DEPTH));
       } else if (isYamlName(e.path)) files.push(e.path);
-      else out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: e.kind === 'file' ? `only .yaml and .yml files are read in ${dir}/` : (e.what ?? 'not a regular file') });
+      else if (e.kind === 'file') leftOut(e.path, 'not-yaml', `${dir}/`);
+      else leftOut(e.path, 'special', e.what ?? '');
     }
   };
   walk(dir, 1);
@@ -304,16 +314,16 @@ function discover(source: HandbookSource, dir: string, out: Diagnostic[]): strin
 
 /** Top-level entries that look meant for us under another spelling (`materials.yml`, `Rules/`). */
 function misnamedTopLevel(source: HandbookSource, out: Diagnostic[]): void {
-  const files = ['handbook.yaml', 'materials.yaml'];
-  const folders = ['structures', 'rules'];
+  const files: string[] = HANDBOOK_INPUTS.filter((n) => n.endsWith('.yaml'));
+  const folders: string[] = HANDBOOK_INPUTS.filter((n) => !n.endsWith('.yaml'));
   for (const e of source.list('')) {
     const name = baseName(e.path);
     const lower = name.toLowerCase();
     if (files.includes(name) || folders.includes(name)) continue;
     const file = files.find((w) => lower === w || lower === w.replace(/\.yaml$/, '.yml'));
     const folder = folders.find((w) => lower === w || lower === w.replace(/s$/, ''));
-    if (file) out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `the file is read only when named ${file}` });
-    else if (folder && e.kind === 'folder') out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', found: `the folder is read only when named ${folder}/` });
+    if (file) out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', reason: 'misnamed-file', found: file });
+    else if (folder && e.kind === 'folder') out.push({ code: 'not-loaded', file: e.path, line: 1, column: 1, field: '', reason: 'misnamed-folder', found: `${folder}/` });
   }
 }
 
@@ -387,7 +397,7 @@ function builtInMaterials(): Map<string, Material> {
       if (!spec) throw new Error(`built-in material ${m.id} has unknown property ${name}`);
       const p = parseValue(tv.value, spec.unit);
       if (isUnitProblem(p)) throw new Error(`built-in material ${m.id}.${name}: ${p.code}`);
-      properties[name] = { value: p.value, unit: spec.unit, written: tv.value, source: tv.source };
+      properties[name] = { value: p.value, ...(p.low !== undefined && p.high !== undefined ? { low: p.low, high: p.high } : {}), unit: spec.unit, written: tv.value, source: tv.source };
     }
     materials.set(m.id, { id: m.id, title: m.title, properties, origin: 'built-in' });
   }

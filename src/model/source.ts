@@ -2,6 +2,10 @@
 // nothing of the file system (the same loader runs over a folder, a git revision or files held in
 // memory). Paths are relative to the handbook, '/'-separated, and never leave it.
 
+/** The handbook's own files and folders at its root: what loading reads and serve watches, and
+ * what no report may be written into. */
+export const HANDBOOK_INPUTS = ['handbook.yaml', 'materials.yaml', 'structures', 'rules'] as const;
+
 /** What a path holds. `other` is anything that is not a regular file or a folder (a FIFO, a
  * device, a socket, a link that leads out of the handbook or nowhere). */
 export type EntryKind = 'file' | 'folder' | 'other';
@@ -12,6 +16,8 @@ export interface SourceEntry {
   kind: EntryKind;
   /** Why an entry is `other` (for messages): "a FIFO", "a link to outside the handbook", ... */
   what?: string;
+  /** For `other`: which problem reading it would meet. */
+  problem?: 'outside-handbook' | 'not-a-regular-file';
 }
 
 export type ReadProblem =
@@ -31,6 +37,9 @@ export interface HandbookSource {
   kindOf(path: string): EntryKind | 'missing';
   /** The entries of a folder, sorted by name (code-point order). */
   list(path: string): SourceEntry[];
+  /** What a folder is, whatever path leads to it (its real path on disk), so a walk through
+   * links visits each folder once. Sources without links need not say. */
+  identity?(path: string): string | undefined;
   /** The bytes of a regular file inside the handbook, at most MAX_FILE_BYTES of them. */
   read(path: string): ReadOutcome;
 }

@@ -1,56 +1,87 @@
 // Publishing a report folder without ever destroying what plumbline does not own.
 //
 //   guardOutput   the output folder may be replaced only if it is absent, empty, or a report we
-//                 wrote (it holds our marker file), and never if it is, holds or lies inside the
-//                 handbook's inputs; links are refused.
+//                 wrote: its marker file lists every file plumbline put there, and the folder holds
+//                 nothing else (a gh-pages checkout's .git, a CNAME added by hand: refused, not
+//                 deleted). Never the handbook, a folder holding it, its inputs, or a link.
 //   lock          one build per output folder at a time: `.<name>-lock` beside it names its holder
-//                 (pid, host, start, command); a holder that died is taken over, a live one waited for.
+//                 (pid, host, start, command) and is touched while the build runs; a holder that
+//                 died on this host, or whose lock has not been touched for LOCK_STALE_MS on any
+//                 host, is taken over; a live one is waited for.
 //   recover       leftovers of a build that was killed (`.<name>-building-*`, `.<name>-previous-*`,
 //                 each marked) are put back or removed, so the published folder is whole again.
-//   swap          render into `.<name>-building-<token>`, mark it complete, then two renames. Between
-//                 them (microseconds) the folder is absent; a kill there is repaired by `recover` on
-//                 the next run, which puts the complete new build in place.
-import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readdirSync, readFileSync, realpathSync, renameSync, rmSync, rmdirSync, writeFileSync, writeSync } from 'node:fs';
+//   swap          render into `.<name>-building-<token>`, mark it complete (with its file list),
+//                 check the output once more, then two renames. Between them (microseconds) the
+//                 folder is absent; a kill there is repaired by `recover` on the next run, which puts
+//                 the complete new build in place. What was moved aside is deleted only if it is
+//                 still ours; if anything else appeared there meanwhile, it is put back.
+import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readdirSync, readFileSync, realpathSync, renameSync, rmSync, rmdirSync, statSync, utimesSync, writeFileSync, writeSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { basename, dirname, join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
+import { Refusal } from '../diagnostics/refusal.ts';
 import { isInside } from '../model/folder-source.ts';
+import { HANDBOOK_INPUTS } from '../model/source.ts';
 
-/** The file that marks a folder as a report plumbline wrote (published with the report). */
+export { Refusal };
+
+/** The file that marks a folder as a report plumbline wrote, and lists what it wrote there. */
 export const MARKER = '.plumbline-report';
-const MARKER_TEXT = `${JSON.stringify({ generator: 'plumbline', format: 1 })}\n`;
-const BUILDING_TEXT = `${JSON.stringify({ generator: 'plumbline', format: 1, state: 'building' })}\n`;
+const FORMAT = 1;
 
-/** A refusal: the command stops, says why, and exits 2; nothing was changed. */
-export class Refusal extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = 'Refusal';
+interface MarkerData {
+  generator: 'plumbline';
+  format: number;
+  state?: 'building';
+  /** Every file of the report, relative, '/'-separated, sorted (the marker itself excluded). */
+  files?: string[];
+}
+
+type Marked = { state: 'complete'; files: Set<string> } | { state: 'building' } | { state: 'none' };
+
+function readMarker(dir: string): Marked {
+  const p = join(dir, MARKER);
+  try {
+    if (!lstatSync(p).isFile()) return { state: 'none' };
+    const m = JSON.parse(readFileSync(p, 'utf8')) as MarkerData;
+    if (m.generator !== 'plumbline' || m.format !== FORMAT) return { state: 'none' };
+    if (m.state === 'building') return { state: 'building' };
+    return Array.isArray(m.files) ? { state: 'complete', files: new Set(m.files) } : { state: 'none' };
+  } catch {
+    return { state: 'none' };
   }
 }
 
-type MarkerState = 'complete' | 'building' | 'none';
+/** Every entry under `dir`, relative and '/'-separated: files, and folders that hold no file. */
+function entriesOf(dir: string): string[] {
+  const out: string[] = [];
+  const walk = (d: string, rel: string) => {
+    const names = readdirSync(d);
+    if (names.length === 0 && rel) out.push(`${rel}/`);
+    for (const name of names) {
+      const p = join(d, name);
+      const r = rel ? `${rel}/${name}` : name;
+      const st = lstatSync(p);
+      if (st.isDirectory()) walk(p, r);
+      else out.push(r);
+    }
+  };
+  walk(dir, '');
+  return out.filter((e) => e !== MARKER).sort();
+}
 
-function markerState(dir: string): MarkerState {
-  const p = join(dir, MARKER);
-  try {
-    if (!lstatSync(p).isFile()) return 'none';
-    const text = readFileSync(p, 'utf8');
-    if (text === MARKER_TEXT) return 'complete';
-    if (text === BUILDING_TEXT) return 'building';
-    return 'none';
-  } catch {
-    return 'none';
-  }
+/** What a folder holds beyond the report its marker lists (nothing, for a folder that is ours). */
+function foreignEntries(dir: string, m: Extract<Marked, { state: 'complete' }>): string[] {
+  return entriesOf(dir).filter((e) => !m.files.has(e));
 }
 
 /** Real path of a path that may not exist yet: the nearest existing ancestor, resolved, plus the rest. */
-function realish(p: string): string {
+export function realish(p: string): string {
   const rest: string[] = [];
   let cur = resolve(p);
   for (;;) {
     try {
-      return join(realpathSync(cur), ...rest.reverse());
+      return join(realpathSync.native(cur), ...rest.reverse());
     } catch {
       const parent = dirname(cur);
       if (parent === cur) return resolve(p);
@@ -62,16 +93,16 @@ function realish(p: string): string {
 
 /**
  * May `out` be replaced by a report of the handbook at `root`? Throws a Refusal naming the reason.
- * Called before anything is written.
+ * Called before anything is written, again after waiting for the lock, and again before the swap.
  */
 export function guardOutput(out: string, root: string): void {
   const absOut = resolve(out);
   const realOut = realish(absOut);
   const realRoot = realish(root);
-  if (realOut === realRoot) throw new Refusal(`the output folder ${absOut} is the handbook folder itself; building there would replace the handbook. Choose another --out (the default is site/ inside the handbook).`);
-  if (isInside(realOut, realRoot)) throw new Refusal(`the output folder ${absOut} contains the handbook (${root}); building there would replace it. Choose a folder beside or inside the handbook, such as site/.`);
-  for (const input of ['structures', 'rules', 'handbook.yaml', 'materials.yaml', '.git']) {
-    if (isInside(join(realRoot, input), realOut)) throw new Refusal(`the output folder ${absOut} lies inside the handbook's ${input}; the report would be mixed with the handbook's files. Choose another --out, such as site/.`);
+  if (realOut === realRoot) throw new Refusal('output-is-handbook', { path: absOut });
+  if (isInside(realOut, realRoot)) throw new Refusal('output-holds-handbook', { path: absOut, root });
+  for (const input of [...HANDBOOK_INPUTS, '.git']) {
+    if (isInside(join(realRoot, input), realOut)) throw new Refusal('output-inside-inputs', { path: absOut, input });
   }
   let st;
   try {
@@ -79,11 +110,16 @@ export function guardOutput(out: string, root: string): void {
   } catch {
     return; // absent: it will be created
   }
-  if (st.isSymbolicLink()) throw new Refusal(`the output folder ${absOut} is a symbolic link; plumbline replaces only real folders it wrote. Give the folder the link points to, or remove the link.`);
-  if (!st.isDirectory()) throw new Refusal(`the output path ${absOut} is a file, not a report folder; plumbline will not replace it.`);
-  if (markerState(absOut) === 'complete') return;
+  if (st.isSymbolicLink()) throw new Refusal('output-is-link', { path: absOut });
+  if (!st.isDirectory()) throw new Refusal('output-is-file', { path: absOut });
+  const m = readMarker(absOut);
+  if (m.state === 'complete') {
+    const foreign = foreignEntries(absOut, m);
+    if (foreign.length) throw new Refusal('output-has-foreign-files', { path: absOut, files: foreign.slice(0, 5), fileCount: foreign.length });
+    return;
+  }
   if (readdirSync(absOut).length === 0) return;
-  throw new Refusal(`the folder ${absOut} exists and is not a report plumbline wrote (it has no ${MARKER} file); plumbline will not replace it. Choose an empty or new --out, or remove the folder yourself if it is an old report.`);
+  throw new Refusal('output-not-ours', { path: absOut });
 }
 
 // ── the lock ──────────────────────────────────────────────────────────────────────────────────
@@ -95,6 +131,12 @@ export interface Holder {
   command: string;
   token: string;
 }
+
+/** A lock not touched for this long is stale on any host (the holder touches it every few seconds). */
+export const LOCK_STALE_MS = 10 * 60_000;
+const HEARTBEAT_MS = 5_000;
+/** Locks this process holds (several builds of one process, such as serve's, may wait on each other). */
+const heldHere = new Set<string>();
 
 function alive(pid: number): boolean {
   try {
@@ -108,7 +150,7 @@ function alive(pid: number): boolean {
 function readHolder(path: string): Holder | null {
   try {
     const h = JSON.parse(readFileSync(path, 'utf8')) as Holder;
-    return typeof h.pid === 'number' && typeof h.host === 'string' ? h : null;
+    return typeof h.pid === 'number' && typeof h.host === 'string' && typeof h.token === 'string' ? h : null;
   } catch {
     return null;
   }
@@ -116,6 +158,23 @@ function readHolder(path: string): Holder | null {
 
 export function describeHolder(h: Holder): string {
   return `pid ${h.pid} on ${h.host}, started ${h.started} (${h.command})`;
+}
+
+/** Is the lock's holder gone? Only then may the lock be taken over. */
+function isStale(path: string, h: Holder | null, me: Holder): boolean {
+  let age = 0;
+  try {
+    age = Date.now() - statSync(path).mtimeMs;
+  } catch {
+    return false; // gone already: the next attempt creates it
+  }
+  if (age > LOCK_STALE_MS) return true; // not touched for ten minutes: no build is running it
+  if (!h) return age > 30_000; // unreadable and not fresh: not one of ours being written
+  if (h.host !== me.host) return false; // another machine's build, touched recently
+  // Our own pid but not a lock this process holds: left by an earlier life of this pid (a restarted
+  // container runs every build as pid 1).
+  if (h.pid === process.pid) return !heldHere.has(h.token);
+  return !alive(h.pid);
 }
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -128,65 +187,98 @@ export interface LockOptions {
   command?: string;
   /** Test seam: runs between the two renames of the swap (where a kill leaves the folder absent). */
   betweenRenames?: () => void;
+  /** Test seam: runs after rendering, before the swap's final checks. */
+  afterRender?: () => void;
+}
+
+/** The lock file of an output folder: beside it, named from its real path. */
+export function lockPathOf(out: string): string {
+  const real = realish(out);
+  return join(dirname(real), `.${basename(real)}-lock`);
 }
 
 /** Take the lock of an output folder; resolves to a release function. */
 export async function lockOutput(out: string, opts: LockOptions = {}): Promise<() => void> {
-  const path = join(dirname(resolve(out)), `.${basename(out)}-lock`);
-  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(6).toString('hex') };
+  const path = lockPathOf(out);
+  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(8).toString('hex') };
   const deadline = Date.now() + (opts.waitMs ?? 15 * 60_000);
   let told = false;
   for (;;) {
+    // Written whole to a private file, then linked into place: the lock is never seen empty, and
+    // link() fails if a lock exists, so two builds cannot both create it.
+    const mine = `${path}.${me.token}`;
     try {
-      const fd = openSync(path, 'wx');
+      const fd = openSync(mine, 'wx');
       writeSync(fd, `${JSON.stringify(me)}\n`);
       closeSync(fd);
+    } catch (err) {
+      throw new Refusal('lock-unavailable', { lock: path, reason: (err as Error).message });
+    }
+    try {
+      linkSync(mine, path);
+      rmSync(mine, { force: true });
+      heldHere.add(me.token);
+      const beat = setInterval(() => {
+        try {
+          const now = new Date();
+          if (readHolder(path)?.token === me.token) utimesSync(path, now, now);
+        } catch {
+          // the folder went away; the build will fail on its own
+        }
+      }, HEARTBEAT_MS);
+      beat.unref();
       return () => {
-        // Release only our own lock (a holder that took it over from us, believing us dead, keeps it).
+        clearInterval(beat);
+        heldHere.delete(me.token);
+        // Release only our own lock (a build that took it over from us, believing us gone, keeps it).
         if (readHolder(path)?.token === me.token) rmSync(path, { force: true });
       };
     } catch (err) {
-      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw new Refusal(`cannot create the lock ${path}: ${(err as Error).message}`);
+      rmSync(mine, { force: true });
+      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw new Refusal('lock-unavailable', { lock: path, reason: (err as Error).message });
     }
     const holder = readHolder(path);
-    if (holder && holder.host === me.host && !alive(holder.pid)) {
+    if (isStale(path, holder, me)) {
       takeOverStale(path, holder);
       continue;
     }
-    if (!holder) {
-      // Being written this instant, or not ours: wait a moment, then treat an unreadable lock as stale.
-      await sleep(100);
-      const again = readHolder(path);
-      if (!again && existsSync(path) && Date.now() - lstatSync(path).mtimeMs > 5_000) takeOverStale(path, null);
-      continue;
-    }
-    if (Date.now() > deadline) {
-      throw new Refusal(`another build holds ${path}: ${describeHolder(holder)}. If no such build is running, delete that file and try again.`);
-    }
-    if (!told) opts.onWait?.(holder);
+    if (Date.now() > deadline) throw new Refusal('lock-held', { lock: path, holder: holder ? describeHolder(holder) : 'an unreadable lock' });
+    if (!told && holder) opts.onWait?.(holder);
     told = true;
     await sleep(150);
   }
 }
 
 /**
- * Remove a dead holder's lock without removing a live one that replaced it meanwhile: move the
- * lock aside under a unique name, and if what was moved is not the dead holder's, link it back.
+ * Remove a stale lock without removing a live one that replaced it meanwhile: move it aside under
+ * a unique name; if what was moved is not the lock judged stale (another token, or other bytes),
+ * link it back. Only three builds racing for one stale lock can still interleave badly here.
  */
-function takeOverStale(path: string, dead: Holder | null): void {
+function takeOverStale(path: string, stale: Holder | null): void {
+  let before: string;
+  try {
+    before = readFileSync(path, 'utf8');
+  } catch {
+    return;
+  }
   const aside = `${path}.stale-${process.pid}-${randomBytes(4).toString('hex')}`;
   try {
     renameSync(path, aside);
   } catch {
     return; // someone else moved it first
   }
-  const moved = readHolder(aside);
-  if (dead && moved && moved.token !== dead.token) {
+  let moved = '';
+  try {
+    moved = readFileSync(aside, 'utf8');
+  } catch {
+    // unreadable now: treat as what we judged
+  }
+  const same = stale ? readHolder(aside)?.token === stale.token : moved === before;
+  if (!same) {
     try {
       linkSync(aside, path);
     } catch {
-      // A third build took the lock in between; both now believe they hold it only if the two
-      // renames and the link interleave exactly, which the per-build token then reveals on release.
+      // a new lock exists already; the moved one's holder will find its token gone on release
     }
   }
   rmSync(aside, { force: true });
@@ -195,12 +287,14 @@ function takeOverStale(path: string, dead: Holder | null): void {
 // ── recovery and swap ─────────────────────────────────────────────────────────────────────────
 
 export interface PublishNotes {
-  /** What recovery did, for the user (a restored folder, removed leftovers). */
+  /** What recovery and clean-up did, for the user (a restored folder, removed leftovers). */
   recovered: string[];
 }
 
+type Leftover = { path: string; kind: 'building' | 'previous'; marked: Marked; empty: boolean };
+
 /** Leftovers of earlier builds of `out` (its parent holds them), with their state. */
-function leftovers(out: string): Array<{ path: string; kind: 'building' | 'previous'; state: MarkerState; empty: boolean }> {
+function leftovers(out: string): Leftover[] {
   const parent = dirname(out);
   const name = basename(out);
   let entries: string[];
@@ -209,76 +303,126 @@ function leftovers(out: string): Array<{ path: string; kind: 'building' | 'previ
   } catch {
     return [];
   }
+  const pattern = new RegExp(`^\\.${name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}-(building|previous)-[0-9a-f]+-[0-9a-f]+$`);
   return entries.flatMap((e) => {
-    const m = new RegExp(`^\\.${name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}-(building|previous)-[0-9a-z-]+$`).exec(e);
+    const m = pattern.exec(e);
     if (!m) return [];
     const path = join(parent, e);
     try {
       if (!lstatSync(path).isDirectory()) return [];
+      return [{ path, kind: m[1] as Leftover['kind'], marked: readMarker(path), empty: readdirSync(path).length === 0 }];
     } catch {
       return [];
     }
-    return [{ path, kind: m[1] as 'building' | 'previous', state: markerState(path), empty: readdirSync(path).length === 0 }];
   });
+}
+
+/** A leftover is ours to delete: marked as a build in progress, or a complete report holding only its files. */
+function isOurs(f: Leftover): boolean {
+  if (f.marked.state === 'building') return true;
+  return f.marked.state === 'complete' && foreignEntries(f.path, f.marked).length === 0;
 }
 
 /** Put back a folder that an interrupted swap left missing, and clear what earlier builds left. */
 export function recoverOutput(out: string): string[] {
+  const target = realish(out);
   const notes: string[] = [];
-  const found = leftovers(out);
-  if (!existsSync(out)) {
+  const found = leftovers(target);
+  if (!existsSync(target)) {
     // The newest complete build wins (the swap had reached its renames); else the previous report.
-    const byAge = (a: { path: string }, b: { path: string }) => lstatSync(b.path).mtimeMs - lstatSync(a.path).mtimeMs;
-    const pick = found.filter((f) => f.kind === 'building' && f.state === 'complete').sort(byAge)[0] ?? found.filter((f) => f.kind === 'previous' && f.state === 'complete').sort(byAge)[0];
+    const byAge = (a: Leftover, b: Leftover) => lstatSync(b.path).mtimeMs - lstatSync(a.path).mtimeMs;
+    const complete = (k: Leftover['kind']) => found.filter((f) => f.kind === k && f.marked.state === 'complete' && isOurs(f)).sort(byAge)[0];
+    const pick = complete('building') ?? complete('previous');
     if (pick) {
-      renameSync(pick.path, out);
-      notes.push(`restored ${out} from ${basename(pick.path)}, left by a build that was interrupted`);
+      renameSync(pick.path, target);
+      notes.push(`restored ${target} from ${basename(pick.path)}, left by a build that was interrupted`);
     }
   }
-  for (const f of leftovers(out)) {
-    if (f.state !== 'none') {
+  for (const f of leftovers(target)) {
+    if (isOurs(f)) {
       rmSync(f.path, { recursive: true, force: true });
       notes.push(`removed ${basename(f.path)}, left by an earlier build`);
     } else if (f.empty) {
       rmdirSync(f.path);
     } else {
-      notes.push(`left ${f.path} alone: it has a build folder's name but no ${MARKER} file`);
+      notes.push(`left ${f.path} alone: it has a build folder's name but is not a report plumbline wrote`);
     }
   }
   return notes;
 }
 
+/** A system error while writing a report, worded; undefined for anything else (our bug). */
+const WRITE_PROBLEMS: Record<string, string> = {
+  ENOSPC: 'the disk is full',
+  EDQUOT: 'the disk quota is exhausted',
+  EACCES: 'permission denied',
+  EPERM: 'permission denied',
+  EROFS: 'the file system is read-only',
+  ENAMETOOLONG: 'a path is too long for the file system',
+  EMFILE: 'too many open files',
+  EIO: 'an input/output error',
+};
+
+export function writeFailure(err: unknown): Refusal | undefined {
+  if (err instanceof Refusal) return err;
+  // Eleventy wraps the system error; follow the chain of causes to it.
+  for (let e = err as (NodeJS.ErrnoException & { originalError?: unknown }) | undefined, depth = 0; e && depth < 8; e = (e.cause ?? e.originalError) as typeof e, depth++) {
+    const reason = typeof e.code === 'string' ? WRITE_PROBLEMS[e.code] : undefined;
+    if (reason) return new Refusal('write-failed', { reason, errno: e.code, ...(e.path ? { path: e.path } : {}) });
+  }
+  return undefined;
+}
+
 /**
  * Render a report into `out`: guarded, locked, recovered, rendered aside and swapped in. `render`
- * writes into the folder it is given. Resolves to what recovery did.
+ * writes into the folder it is given. Resolves to what recovery and clean-up did.
  */
 export async function publish(out: string, root: string, render: (dir: string) => Promise<void>, opts: LockOptions = {}): Promise<PublishNotes> {
-  const target = resolve(out);
-  guardOutput(target, root);
-  mkdirSync(dirname(target), { recursive: true });
-  const release = await lockOutput(target, opts);
+  guardOutput(out, root);
+  mkdirSync(dirname(resolve(out)), { recursive: true });
+  const release = await lockOutput(out, opts);
   try {
+    const target = realish(out);
     const recovered = recoverOutput(target);
     guardOutput(target, root); // the folder may have changed while we waited
-    const token = `${process.pid}-${randomBytes(4).toString('hex')}`;
+    const token = `${process.pid.toString(16)}-${randomBytes(4).toString('hex')}`;
     const building = join(dirname(target), `.${basename(target)}-building-${token}`);
     const previous = join(dirname(target), `.${basename(target)}-previous-${token}`);
     mkdirSync(building);
-    writeFileSync(join(building, MARKER), BUILDING_TEXT);
+    writeFileSync(join(building, MARKER), `${JSON.stringify({ generator: 'plumbline', format: FORMAT, state: 'building' } satisfies MarkerData)}\n`);
     try {
       await render(building);
+      const tmpMarker = join(building, `${MARKER}.tmp`);
+      writeFileSync(tmpMarker, `${JSON.stringify({ generator: 'plumbline', format: FORMAT, files: entriesOf(building).filter((e) => e !== `${MARKER}.tmp`) } satisfies MarkerData)}\n`);
+      renameSync(tmpMarker, join(building, MARKER));
+      opts.afterRender?.();
+      guardOutput(target, root); // and again: the render may have taken minutes
     } catch (err) {
       rmSync(building, { recursive: true, force: true });
       throw err;
     }
-    const tmpMarker = join(building, `${MARKER}.tmp`);
-    writeFileSync(tmpMarker, MARKER_TEXT);
-    renameSync(tmpMarker, join(building, MARKER));
     const had = existsSync(target);
-    if (had) renameSync(target, previous);
+    if (had) {
+      renameSync(target, previous);
+      // Between the last check and the rename something may have been put there: keep it.
+      const moved = readMarker(previous);
+      const ours = moved.state === 'complete' ? foreignEntries(previous, moved).length === 0 : readdirSync(previous).length === 0;
+      if (!ours) {
+        renameSync(previous, target);
+        rmSync(building, { recursive: true, force: true });
+        throw new Refusal('output-changed', { path: target });
+      }
+    }
     opts.betweenRenames?.();
     renameSync(building, target);
-    if (had) rmSync(previous, { recursive: true, force: true });
+    if (had) {
+      try {
+        rmSync(previous, { recursive: true, force: true });
+      } catch (err) {
+        // The new report is in place; the old one is removed by the next build.
+        recovered.push(`could not remove ${basename(previous)} (${(err as NodeJS.ErrnoException).code ?? 'error'}); the next build removes it`);
+      }
+    }
     return { recovered };
   } finally {
     release();

@@ -11,7 +11,9 @@ import { extname, join, resolve } from 'node:path';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
 import { FolderSource, isInside } from '../model/folder-source.ts';
 import { checkHandbook } from '../pipeline.ts';
-import { Refusal, guardOutput } from './publish.ts';
+import { guardOutput, writeFailure } from './publish.ts';
+import { Refusal } from '../diagnostics/refusal.ts';
+import { HANDBOOK_INPUTS } from '../model/source.ts';
 import { buildSite } from './site.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 
@@ -79,9 +81,9 @@ function listen(server: Server, port: number): Promise<number> {
   return new Promise((res, rej) => {
     const onError = (err: NodeJS.ErrnoException) => {
       server.off('listening', onListening);
-      if (err.code === 'EADDRINUSE') rej(new Refusal(`port ${port} is already in use on 127.0.0.1; stop what is using it or choose another with --port`));
-      else if (err.code === 'EACCES') rej(new Refusal(`port ${port} may not be used by this user; choose one above 1023 with --port`));
-      else rej(new Refusal(`cannot listen on 127.0.0.1:${port}: ${err.message}`));
+      if (err.code === 'EADDRINUSE') rej(new Refusal('port-in-use', { port }));
+      else if (err.code === 'EACCES') rej(new Refusal('port-forbidden', { port }));
+      else rej(new Refusal('port-unavailable', { port, reason: err.message }));
     };
     const onListening = () => {
       server.off('error', onError);
@@ -97,23 +99,25 @@ function listen(server: Server, port: number): Promise<number> {
 export async function serveSite(root: string, outDir: string, port: number, io: ServeIo): Promise<Serving> {
   const out = resolve(outDir);
   guardOutput(out, root);
-  // Rebuilds run one after another; a change during a build queues one more.
+  // Rebuilds run one after another; a change during a build queues one more. Whatever one rebuild
+  // meets (a refusal, a full disk, our own bug) is printed and the server keeps serving the last
+  // good report: a rejected step never stops the chain.
   let chain: Promise<void> = Promise.resolve();
+  const once = async (): Promise<void> => {
+    const outcome = checkHandbook(new FolderSource(root));
+    if (!outcome.ok) {
+      io.err(formatDiagnostics(outcome.diagnostics));
+      return;
+    }
+    if (outcome.handbook.warnings.length) io.err(formatWarnings(outcome.handbook.warnings));
+    const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline serve', onWait: () => io.out('waiting for another build of this folder to finish') });
+    stats.recovered.forEach((n) => io.out(n));
+    io.out(`rebuilt ${stats.pages} pages`);
+  };
   const rebuild = (): Promise<void> =>
-    (chain = chain.then(async () => {
-      const outcome = checkHandbook(new FolderSource(root));
-      if (!outcome.ok) {
-        io.err(formatDiagnostics(outcome.diagnostics));
-        return;
-      }
-      if (outcome.handbook.warnings.length) io.err(formatWarnings(outcome.handbook.warnings));
-      try {
-        const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline serve', onWait: () => io.out('waiting for another build of this folder to finish') });
-        stats.recovered.forEach((n) => io.out(n));
-        io.out(`rebuilt ${stats.pages} pages`);
-      } catch (e) {
-        io.err(e instanceof Refusal ? `plumbline: ${e.message}` : `plumbline: the report could not be rebuilt: ${(e as Error).message}`);
-      }
+    (chain = chain.then(once).catch((e: unknown) => {
+      const refusal = writeFailure(e);
+      io.err(refusal ? `plumbline: ${refusal.message}` : `plumbline: internal error while rebuilding (please report it): ${(e as Error)?.stack ?? String(e)}`);
     }));
   await rebuild();
   // A handbook that does not load on the first build leaves no report yet: serve an empty folder
@@ -121,7 +125,11 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   mkdirSync(out, { recursive: true });
   const rootReal = realpathSync(out);
 
+  let allowedHosts = new Set<string>();
   const server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    // A page elsewhere could point a name it controls at 127.0.0.1 (DNS rebinding) and read the
+    // report: answer only requests addressed to this server by its loopback name.
+    if (!allowedHosts.has((req.headers.host ?? '').toLowerCase())) return answer(res, 421, 'misdirected request: use http://127.0.0.1 or http://localhost with this port');
     if (req.method !== 'GET' && req.method !== 'HEAD') return answer(res, 405, 'only GET and HEAD');
     const r = resolveRequest(rootReal, req.url ?? '/');
     if ('status' in r) return answer(res, r.status, r.status === 400 ? 'bad request' : 'not found');
@@ -146,21 +154,45 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   });
   server.on('clientError', (_err, socket) => socket.destroy());
   const actual = await listen(server, port);
+  allowedHosts = new Set([`127.0.0.1:${actual}`, `localhost:${actual}`]);
   io.out(`serving ${out} at http://127.0.0.1:${actual}/ (Ctrl-C to stop)`);
 
-  const watchers: FSWatcher[] = [];
+  // The handbook folder itself is watched (not recursively: the report lies in it) for its files,
+  // which editors often save by renaming a new file over the old, and for structures/ or rules/
+  // appearing; those two are watched recursively while they exist.
+  const watchers = new Map<string, FSWatcher>();
   let timer: NodeJS.Timeout | undefined;
   const soon = () => {
     clearTimeout(timer);
-    timer = setTimeout(() => void rebuild(), 150);
+    timer = setTimeout(() => {
+      watchFolders();
+      void rebuild();
+    }, 150);
   };
-  for (const p of ['structures', 'rules', 'handbook.yaml', 'materials.yaml']) {
-    try {
-      watchers.push(watch(join(root, p), { recursive: true }, soon));
-    } catch {
-      // absent (or the system's watch limit reached): nothing to watch there
+  const watchFolders = () => {
+    for (const dir of ['structures', 'rules']) {
+      if (watchers.has(dir)) continue;
+      try {
+        const w = watch(join(root, dir), { recursive: true }, soon);
+        w.on('error', () => {
+          w.close();
+          watchers.delete(dir);
+        });
+        watchers.set(dir, w);
+      } catch {
+        // absent for now (or the system's watch limit reached)
+      }
     }
+  };
+  const inputs = new Set<string>(HANDBOOK_INPUTS);
+  try {
+    watchers.set('', watch(root, (_event, name) => {
+      if (name === null || inputs.has(String(name))) soon();
+    }));
+  } catch {
+    io.err('plumbline: cannot watch the handbook folder; changes will not rebuild the report');
   }
+  watchFolders();
   return {
     port: actual,
     close: async () => {

@@ -1,9 +1,9 @@
 // The command line refuses what it cannot do safely with exit 2 and a sentence, never a stack
 // trace; warnings go to stderr and into --json without changing the exit code.
 import { execFileSync } from 'node:child_process';
-import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join, relative, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { run } from '../../src/cli/main.ts';
 
@@ -51,5 +51,16 @@ describe('refusals', () => {
     expect(r.err).toContain('structures/notes.txt');
     const j = JSON.parse(r.out) as { warnings: Array<{ code: string; file: string }> };
     expect(j.warnings.map((w) => [w.code, w.file])).toEqual([['not-loaded', 'structures/notes.txt']]);
+  });
+
+  it('eval FILE names the file as it was given, so an editor can open the place', async () => {
+    const dir = handbook();
+    const file = join(dir, 'structures', 'test-pillar.yaml');
+    writeFileSync(file, readFileSync(file, 'utf8').replace('kind: pillar', 'kind: pilar'));
+    const shown = relative(process.cwd(), file);
+    const r = await cli('eval', shown, '--root', dir);
+    expect(r.code).toBe(2);
+    // line 3: "kind: pilar", the value at column 7.
+    expect(r.err).toContain(`${shown}:3:7 kind:`);
   });
 });

@@ -16,9 +16,9 @@ let base: string;
 let hb: string;
 
 /** A raw request: fetch would normalise "../" away before sending it. */
-function raw(path: string, method = 'GET'): Promise<number> {
+function raw(path: string, method = 'GET', headers: Record<string, string> = {}): Promise<number> {
   return new Promise((res, rej) => {
-    const r = request({ host: '127.0.0.1', port: serving.port, path, method }, (resp) => {
+    const r = request({ host: '127.0.0.1', port: serving.port, path, method, headers }, (resp) => {
       resp.resume();
       resp.on('end', () => res(resp.statusCode ?? 0));
     });
@@ -37,8 +37,10 @@ beforeAll(async () => {
   writeFileSync(join(dir, 'outside.txt'), 'outside');
   serving = await serveSite(hb, join(hb, 'site'), 0, { out: () => undefined, err: () => undefined });
   base = `http://127.0.0.1:${serving.port}`;
-  // A link planted inside the report that points out of it.
+  // Links planted inside the report that point out of it: to a file beside the handbook, and into
+  // the sibling folder whose name starts like the report's (a prefix check would let it through).
   symlinkSync(join(dir, 'outside.txt'), join(hb, 'site', 'leak.txt'));
+  symlinkSync(join(hb, 'site-secret', 'secret.txt'), join(hb, 'site', 'sibling.txt'));
 }, 120_000);
 
 afterAll(async () => {
@@ -58,6 +60,12 @@ describe('serve gives out files outside the site (regression)', () => {
 
   it('does not follow a link inside the report to a file outside it', async () => {
     expect((await fetch(`${base}/leak.txt`)).status).toBe(404);
+    expect((await fetch(`${base}/sibling.txt`)).status).toBe(404);
+  });
+
+  it('answers only requests addressed to it by its loopback name (no DNS rebinding)', async () => {
+    expect(await raw('/', 'GET', { host: 'rebound.example.invalid' })).toBe(421);
+    expect(await raw('/', 'GET', { host: `localhost:${serving.port}` })).toBe(200);
   });
 
   it("keeps the report's marker and other dotfiles private", async () => {

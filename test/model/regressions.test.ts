@@ -30,7 +30,16 @@ function handbook(files: Record<string, string | Buffer | null>): string {
   return dir;
 }
 
-const base = (path: string) => readFileSync(join(BASE, path), 'utf8');
+/** A base file as text with edits applied; an edit whose text is not there throws, so a test
+ * whose edit no longer applies fails instead of quietly testing the unchanged file. */
+function base(path: string, ...edits: Array<[string, string]>): string {
+  let text = readFileSync(join(BASE, path), 'utf8');
+  for (const [from, to] of edits) {
+    if (!text.includes(from)) throw new Error(`${path} no longer contains ${JSON.stringify(from)}`);
+    text = text.replace(from, to);
+  }
+  return text;
+}
 
 function loaded(dir: string): Handbook {
   const r = loadHandbookFolder(dir);
@@ -46,21 +55,20 @@ function problems(dir: string): Array<Pick<Diagnostic, 'code' | 'file' | 'line' 
 
 describe('offset temperature units (regression: -250 degC was read as +23.15 K)', () => {
   it('refuses a temperature difference in degC, at the field', () => {
-    const via = base('structures/via.yaml').replace('temperature_change: -250 K', 'temperature_change: -250 degC');
+    const via = base('structures/via.yaml', ['temperature_change: -250 K', 'temperature_change: -250 degC']);
     // line 13: "anneal: { temperature_change: -250 degC }", the value at column 31.
     expect(problems(handbook({ 'structures/via.yaml': via }))).toEqual([{ code: 'offset-unit', file: 'structures/via.yaml', line: 13, column: 31, field: 'anneal.temperature_change' }]);
   });
 
   it('refuses degF for a difference too, and reads kelvin as written', () => {
-    const via = base('structures/via.yaml');
-    expect(problems(handbook({ 'structures/via.yaml': via.replace('-250 K', '-450 degF') }))[0]?.code).toBe('offset-unit');
+    expect(problems(handbook({ 'structures/via.yaml': base('structures/via.yaml', ['-250 K', '-450 degF']) }))[0]?.code).toBe('offset-unit');
     // −250 K is a change of −250 K (no offset applies to a difference in kelvin).
     expect(loaded(handbook({})).structures.find((s) => s.id === 'via')!.params.get('anneal.temperature_change')!.value).toBe(-250);
   });
 
   it('converts an absolute temperature in degC with the offset, and its tolerance without it', () => {
     // 0 °C = 273.15 K (definition of the Celsius scale); a tolerance is a difference, so ±5 °C = ±5 K.
-    const slot = base('structures/slot.yaml').replace('  - film: liner\n    method: cvd', '  - film: liner\n    method: ald\n    exposure: 1 Pa*s\n    molar_mass: 200 g/mol\n    temperature: 280 degC ± 5 degC\n    site_density: 3e18 /m^2').replace('    sticking_probability: 0.0008\n', '');
+    const slot = base('structures/slot.yaml', ['  - film: liner\n    method: cvd', '  - film: liner\n    method: ald\n    exposure: 1 Pa*s\n    molar_mass: 200 g/mol\n    temperature: 280 degC ± 5 degC\n    site_density: 3e18 /m^2'], ['    sticking_probability: 0.0008\n', '']);
     const t = loaded(handbook({ 'structures/slot.yaml': slot })).structures.find((s) => s.id === 'slot')!.params.get('deposition.liner.temperature')!;
     expectRel(t.value, 553.15, 12);
     expectRel(t.low!, 548.15, 12);
@@ -79,7 +87,7 @@ describe('tolerances from materials.yaml are dropped (regression: only the nomin
 
   it('gives the same worst-case verdict as the same tolerance written inline', () => {
     const fromTable = evaluateHandbook(loaded(handbook({}))).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
-    const inline = base('structures/via.yaml').replace('conductor: { material: bench-copper }', 'conductor: { material: copper, resistivity: 2.0 µΩ·cm ± 0.1 }');
+    const inline = base('structures/via.yaml', ['conductor: { material: bench-copper }', 'conductor: { material: copper, resistivity: 2.0 µΩ·cm ± 0.1 }']);
     const written = evaluateHandbook(loaded(handbook({ 'structures/via.yaml': inline }))).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
     expect(fromTable.value).not.toBeNull();
     expect(fromTable.value).toBe(written.value);
@@ -88,7 +96,7 @@ describe('tolerances from materials.yaml are dropped (regression: only the nomin
 
   it('keeps the tolerance of a liquid’s surface tension and of a dielectric’s permittivity', () => {
     const materials = `${base('materials.yaml')}- id: bench-rinse\n  title: Bench rinse\n  surface_tension: 30 mN/m ± 2 mN/m\n- id: bench-high-k\n  title: Bench high-k\n  dielectric_constant: 38 ± 3\n`;
-    const cup = base('structures/cup.yaml').replace('liquid: water', 'liquid: bench-rinse') + 'cell:\n  dielectric: { material: bench-high-k, thickness: 5 nm }\n  electrode_surfaces: [inner, outer]\n';
+    const cup = base('structures/cup.yaml', ['liquid: water', 'liquid: bench-rinse']) + 'cell:\n  dielectric: { material: bench-high-k, thickness: 5 nm }\n  electrode_surfaces: [inner, outer]\n';
     const s = loaded(handbook({ 'materials.yaml': materials, 'structures/cup.yaml': cup })).structures.find((x) => x.id === 'cup')!;
     expect([s.params.get('drying.surface_tension')!.low, s.params.get('drying.surface_tension')!.high]).toEqual([0.028, 0.032]);
     expect([s.params.get('cell.dielectric_dielectric_constant')!.low, s.params.get('cell.dielectric_dielectric_constant')!.high]).toEqual([35, 41]);
@@ -99,19 +107,19 @@ describe('cross-field checks look at nominal values only (regression)', () => {
   it('refuses a support that the tolerances can put above the top', () => {
     // 1.89 µm + 60 nm = 1.95 µm > 1.9 µm − 40 nm = 1.86 µm. Line 17: "  supports: [0.9 um, 1.89 um ± 60 nm]";
     // the second entry starts at column 22.
-    const cup = base('structures/cup.yaml').replace('supports: [0.9 um, 1.7 um]', 'supports: [0.9 um, 1.89 um ± 60 nm]');
+    const cup = base('structures/cup.yaml', ['supports: [0.9 um, 1.7 um]', 'supports: [0.9 um, 1.89 um ± 60 nm]']);
     expect(problems(handbook({ 'structures/cup.yaml': cup }))).toEqual([{ code: 'relation-at-tolerance', file: 'structures/cup.yaml', line: 17, column: 22, field: 'drying.supports[1]' }]);
   });
 
   it('refuses a wall that one corner makes thicker than the radius', () => {
     // 2 × (16.5 + 1) nm = 35 nm > 34 − 1.5 = 32.5 nm; nominal 2 × 16.5 = 33 < 34 holds. Line 11, column 9.
-    const cup = base('structures/cup.yaml').replace('wall: 7 nm ± 0.5 nm', 'wall: 16.5 nm ± 1 nm');
+    const cup = base('structures/cup.yaml', ['wall: 7 nm ± 0.5 nm', 'wall: 16.5 nm ± 1 nm']);
     expect(problems(handbook({ 'structures/cup.yaml': cup }))).toEqual([{ code: 'relation-at-tolerance', file: 'structures/cup.yaml', line: 11, column: 9, field: 'geometry.wall' }]);
   });
 
   it('accepts relations that hold at every corner', () => {
     // 1.8 µm + 20 nm = 1.82 µm ≤ 1.86 µm.
-    const cup = base('structures/cup.yaml').replace('1.7 um]', '1.8 um ± 20 nm]');
+    const cup = base('structures/cup.yaml', ['1.7 um]', '1.8 um ± 20 nm]']);
     expect(loaded(handbook({ 'structures/cup.yaml': cup })).structures).toHaveLength(3);
   });
 });
@@ -152,7 +160,7 @@ describe('files dropped without a word (regression)', () => {
 describe('messages that misled (regressions)', () => {
   it('a structure that fails to load is the only problem, not every rule that names it', () => {
     // rules/array.yaml names slot in applies_to.structures; slot.yaml now has an unknown kind (line 3, column 7).
-    const slot = base('structures/slot.yaml').replace('kind: trench', 'kind: trenhc');
+    const slot = base('structures/slot.yaml', ['kind: trench', 'kind: trenhc']);
     expect(problems(handbook({ 'structures/slot.yaml': slot }))).toEqual([{ code: 'unknown-kind', file: 'structures/slot.yaml', line: 3, column: 7, field: 'kind' }]);
   });
 
@@ -162,12 +170,12 @@ describe('messages that misled (regressions)', () => {
   });
 
   it('a 300-character rule id is refused at load (it made build exit 3 with ENAMETOOLONG)', () => {
-    const rule = base('rules/via.yaml').replace('id: VIA-R-1', `id: ${'V'.repeat(300)}`);
+    const rule = base('rules/via.yaml', ['id: VIA-R-1', `id: ${'V'.repeat(300)}`]);
     expect(problems(handbook({ 'rules/via.yaml': rule }))).toEqual([{ code: 'id-too-long', file: 'rules/via.yaml', line: 1, column: 5, field: 'id' }]);
   });
 
   it('.inf is one problem, not a second contradictory "found number Infinity"', () => {
-    const cup = base('structures/cup.yaml').replace('pitch: 52 nm', 'pitch: .inf');
+    const cup = base('structures/cup.yaml', ['pitch: 52 nm', 'pitch: .inf']);
     const r = loadHandbookFolder(handbook({ 'structures/cup.yaml': cup }));
     expect(r.ok).toBe(false);
     if (r.ok) return;
@@ -175,7 +183,7 @@ describe('messages that misled (regressions)', () => {
   });
 
   it('calibration: [] says what a calibration needs, in our words', () => {
-    const slot = base('structures/slot.yaml').replace('  time_budget: 4 min\n', '  time_budget: 4 min\n  calibration: []\n');
+    const slot = base('structures/slot.yaml', ['  time_budget: 4 min\n', '  time_budget: 4 min\n  calibration: []\n']);
     const r = loadHandbookFolder(handbook({ 'structures/slot.yaml': slot }));
     expect(r.ok).toBe(false);
     if (r.ok) return;
@@ -186,19 +194,19 @@ describe('messages that misled (regressions)', () => {
   });
 
   it('a byte-order mark does not shift the columns of line 1', () => {
-    const cup = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(base('structures/cup.yaml').replace('id: cup', 'idd: cup'))]);
+    const cup = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(base('structures/cup.yaml', ['id: cup', 'idd: cup']))]);
     // "idd: cup" on line 1: the unknown key at column 1 (the mark is not a character of the text).
     expect(problems(handbook({ 'structures/cup.yaml': cup }))).toContainEqual({ code: 'unknown-field', file: 'structures/cup.yaml', line: 1, column: 1, field: 'idd' });
   });
 
   it('a reversed tolerance is a malformed tolerance, not an unknown unit', () => {
-    const cup = base('structures/cup.yaml').replace('cd: 34 nm ± 1.5 nm', 'cd: 34 nm -1/+2 nm');
+    const cup = base('structures/cup.yaml', ['cd: 34 nm ± 1.5 nm', 'cd: 34 nm -1/+2 nm']);
     expect(problems(handbook({ 'structures/cup.yaml': cup }))).toEqual([{ code: 'malformed-tolerance', file: 'structures/cup.yaml', line: 6, column: 7, field: 'geometry.cd' }]);
   });
 
   it('Latin-1 bytes are reported at their place, not turned into U+FFFD', () => {
     // "  height: 1.9 \xB5m" (Latin-1 micro sign) on line 7; the byte is the 15th character.
-    const cup = Buffer.from(base('structures/cup.yaml').replace('  height: 1.9 um ± 40 nm', '  height: 1.9 \u0000m'), 'utf8');
+    const cup = Buffer.from(base('structures/cup.yaml', ['  height: 1.9 um ± 40 nm', '  height: 1.9 \u0000m']), 'utf8');
     cup[cup.indexOf(0)] = 0xb5;
     expect(problems(handbook({ 'structures/cup.yaml': cup }))).toEqual([{ code: 'not-utf8', file: 'structures/cup.yaml', line: 7, column: 15, field: '' }]);
   });

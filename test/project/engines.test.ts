@@ -25,7 +25,7 @@ describe('Node version', () => {
     expect(refusing).toEqual([]);
   });
 
-  it('the README states the same major version', () => {
+  it('the README states the same oldest version (major and minor)', () => {
     const readme = readFileSync(resolve(ROOT, 'README.md'), 'utf8');
     expect(readme).toContain(`Node.js ${oldest.major}.${oldest.minor}`);
   });

@@ -62,8 +62,8 @@ describe('unit parser', () => {
         const text = formatValue(v, unit);
         const back = parseValue(text, unit);
         if (isUnitProblem(back)) throw new Error(`${text} (${unit}) does not read back: ${back.code}`);
-        // Half a unit of the last printed digit, relative (the leading digit may be 1).
-        expect(rel(back.value, v), `${v} ${unit} printed as ${text}`).toBeLessThan(tol * 10);
+        // Half a unit of the last printed digit, relative to a leading digit of 1 at worst.
+        expect(rel(back.value, v), `${v} ${unit} printed as ${text}`).toBeLessThan(tol);
       }),
       { numRuns: RUNS },
     );

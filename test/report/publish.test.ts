@@ -1,7 +1,7 @@
 // Publishing never destroys what plumbline does not own, and the published folder is always whole.
 // Regression tests named after the defects of the hostile-input review: each one failed before.
 import { spawn, spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -59,8 +59,8 @@ describe('build --out can delete the handbook (regression)', () => {
   it('refuses a folder holding the handbook even when it carries our marker', () => {
     const hb = handbook();
     const above = join(hb, '..');
-    // The marker of a report (publish.ts writes exactly this line).
-    writeFileSync(join(above, MARKER), '{"generator":"plumbline","format":1}\n');
+    // A marker listing the folder's whole content, as publish.ts writes it.
+    writeFileSync(join(above, MARKER), JSON.stringify({ generator: 'plumbline', format: 1, files: readdirSync(above) }));
     expect(() => guardOutput(above, hb)).toThrow(/contains the handbook/);
   });
 
@@ -95,6 +95,28 @@ describe('build --out can delete the handbook (regression)', () => {
     expect(() => guardOutput(join(link), hb)).toThrow(/handbook folder itself/);
   });
 
+  it("refuses a report folder holding files plumbline did not write (a pages checkout's .git, a CNAME), and keeps them", async () => {
+    const hb = handbook();
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+    mkdirSync(join(hb, 'site', '.git'));
+    writeFileSync(join(hb, 'site', '.git', 'HEAD'), 'ref: refs/heads/pages\n');
+    writeFileSync(join(hb, 'site', 'CNAME'), 'rules.example.invalid\n');
+    const r = await cli('build', '--root', hb);
+    expect(r.code).toBe(2);
+    expect(r.err).toContain('2 files plumbline did not write (.git/HEAD, CNAME)');
+    expect(readFileSync(join(hb, 'site', '.git', 'HEAD'), 'utf8')).toBe('ref: refs/heads/pages\n');
+    expect(readFileSync(join(hb, 'site', 'CNAME'), 'utf8')).toBe('rules.example.invalid\n');
+  });
+
+  it('keeps what is put into the output folder while the report renders, and stops', async () => {
+    const hb = handbook();
+    const site = join(hb, 'site');
+    const render = async (dir: string) => writeFileSync(join(dir, 'index.html'), 'x');
+    await expect(publish(site, hb, render, { afterRender: () => (mkdirSync(site), writeFileSync(join(site, 'thesis.txt'), 'keep me')) })).rejects.toThrow(Refusal);
+    expect(readFileSync(join(site, 'thesis.txt'), 'utf8')).toBe('keep me');
+    expect(readdirSync(hb).filter((n) => /^\.site-(building|previous)-/.test(n))).toEqual([]);
+  });
+
   it('replaces its own earlier report and an empty folder', async () => {
     const hb = handbook();
     mkdirSync(join(hb, 'site'));
@@ -106,7 +128,7 @@ describe('build --out can delete the handbook (regression)', () => {
 
 describe('the swap is not atomic (regression)', () => {
   function deadChild(out: string, where: string): void {
-    const r = spawnSync(process.execPath, ['--import', 'tsx', CHILD, out, where, join(out, '..', 'hb')], { encoding: 'utf8' });
+    const r = spawnSync(process.execPath, ['--import', 'tsx', CHILD, out, where, join(out, '..')], { encoding: 'utf8' });
     expect(r.signal).toBe('SIGKILL');
   }
 
@@ -172,6 +194,37 @@ describe('the swap is not atomic (regression)', () => {
     writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: Number(dead.stdout), host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'dead' }));
     expect((await cli('build', '--root', hb)).code).toBe(0);
     expect(existsSync(join(hb, '.site-lock'))).toBe(false);
+  }, 60_000);
+
+  it('a second build waits for the one holding the lock, then publishes after it', async () => {
+    const hb = handbook();
+    const site = join(hb, 'site');
+    const child = spawn(process.execPath, ['--import', 'tsx', CHILD, site, 'slow', hb], { stdio: 'ignore' });
+    const childDone = new Promise<number | null>((res) => child.on('close', (code) => res(code)));
+    for (let i = 0; i < 200 && !existsSync(`${site}.started`); i++) await new Promise((r) => setTimeout(r, 50));
+    expect(existsSync(`${site}.started`)).toBe(true);
+    // The child is rendering now, holding the lock: the build must wait for it.
+    const r = await cli('build', '--root', hb);
+    expect(r.code).toBe(0);
+    expect(r.err).toMatch(/waiting for another build/);
+    expect(await childDone).toBe(0);
+    // The waiting build published last: its report, not the child's, is in place.
+    expect(readFileSync(join(site, 'index.html'), 'utf8')).not.toBe('<p>new report</p>');
+  }, 60_000);
+
+  it('a lock left with our own pid by an earlier life of it (a restarted container) is taken over', async () => {
+    const hb = handbook();
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: process.pid, host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'earlier-life' }));
+    expect((await cli('build', '--root', hb)).code).toBe(0);
+  }, 60_000);
+
+  it('a lock not touched for ten minutes is taken over, even one of another host', async () => {
+    const hb = handbook();
+    const lock = join(hb, '.site-lock');
+    writeFileSync(lock, JSON.stringify({ pid: 1, host: 'another-container', started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'gone' }));
+    const old = new Date(Date.now() - 11 * 60_000);
+    utimesSync(lock, old, old);
+    expect((await cli('build', '--root', hb)).code).toBe(0);
   }, 60_000);
 
   it('a live holder is waited for, then named when the wait runs out', async () => {
