@@ -124,7 +124,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       const root = rootOf(cmd);
       const outcome = checkHandbook(new FolderSource(root));
       if (!outcome.ok) {
-        io.err(formatDiagnostics(outcome.diagnostics));
+        io.err(formatDiagnostics(outcome.diagnostics, 'nothing was written'));
         return setExit(2);
       }
       printWarnings(io, outcome.handbook.warnings);

@@ -81,11 +81,14 @@ export function formatDiagnostic(d: Diagnostic): string {
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
 
+/** What a command did not do because the handbook did not load. */
+export type Consequence = 'nothing was checked' | 'nothing was written' | 'the last good report is still served';
+
 /** A handbook that did not load: every problem, then what happened. */
-export function formatDiagnostics(list: Diagnostic[]): string {
+export function formatDiagnostics(list: Diagnostic[], consequence: Consequence = 'nothing was checked'): string {
   const errors = list.filter((d) => !isWarning(d)).length;
   const warnings = list.length - errors;
-  return `${list.map(formatDiagnostic).join('\n')}\n${plural(errors, 'problem')}${warnings ? ` and ${plural(warnings, 'warning')}` : ''} in the handbook; nothing was written.`;
+  return `${list.map(formatDiagnostic).join('\n')}\n${plural(errors, 'problem')}${warnings ? ` and ${plural(warnings, 'warning')}` : ''} in the handbook; ${consequence}.`;
 }
 
 /** Warnings of a handbook that loaded (printed on stderr before a command's own output). */
@@ -105,6 +108,8 @@ const refusal: Record<RefusalCode, (f: RefusalFacts) => string> = {
   'output-not-ours': (f) => `the folder ${f.path} exists and is not a report plumbline wrote (it has no ${MARKER_NAME} file); plumbline will not replace it. Choose an empty or new --out, or remove the folder yourself if it is an old report.`,
   'output-has-foreign-files': (f) => `the report folder ${f.path} holds ${f.fileCount === 1 ? 'a file' : `${f.fileCount} files`} plumbline did not write (${(f.files ?? []).join(', ')}${(f.fileCount ?? 0) > (f.files ?? []).length ? ', …' : ''}); a new build would delete ${f.fileCount === 1 ? 'it' : 'them'}. Move ${f.fileCount === 1 ? 'it' : 'them'} out of the report folder, or build into another --out.`,
   'output-changed': (f) => `the output folder ${f.path} changed while the report was being built (it is no longer empty or a report plumbline wrote); it was left as it is. Build again, or choose another --out.`,
+  'output-is-mount': (f) => `the output folder ${f.path} cannot be replaced by renaming it (${f.errno === 'a mount point' ? 'it is a mount point, such as a container volume' : `${f.errno}: a mount point, such as a container volume?`}); build into a folder inside it instead, such as ${f.path}/site.`,
+  'lock-foreign': (f) => `${f.lock} exists and is not a lock plumbline wrote; remove it (or rename it) and build again.`,
   'lock-held': (f) => `another build holds ${f.lock}: ${f.holder}. If no such build is running, delete that file and try again.`,
   'lock-unavailable': (f) => `cannot create the lock ${f.lock}: ${f.reason ?? ''}`,
   'port-in-use': (f) => `port ${f.port} is already in use on 127.0.0.1; stop what is using it or choose another with --port`,

@@ -415,7 +415,7 @@ function loadMaterials(source: HandbookSource, out: Diagnostic[]): MaterialsLoad
   const v = getValidators().materials;
   const valid = v(src.value);
   const errors = v.errors ?? [];
-  if (!valid) reportSchemaErrors(errors, report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES)]);
+  if (!valid) reportSchemaErrors(errors, report, () => ['id', 'title', 'based_on', 'source', ...Object.keys(MATERIAL_PROPERTIES), 'expansion']);
   // Not a list at all: any id a structure names might have been meant here.
   if (!Array.isArray(src.value)) return { materials, written, unreadable: true };
   const entries = src.value as unknown[];
@@ -434,8 +434,9 @@ function loadMaterials(source: HandbookSource, out: Diagnostic[]): MaterialsLoad
     const properties: Record<string, MaterialProperty> = { ...(base?.properties ?? {}) };
     const source = typeof entry.source === 'string' ? entry.source : `handbook materials file (${src.file})`;
     for (const [name, spec] of Object.entries(MATERIAL_PROPERTIES)) {
-      if (entry[name] === undefined) continue;
-      const r = readValue(report, `/${i}/${name}`, entry[name], spec);
+      const w = writtenProperty(entry, name, { report, base: `/${i}` });
+      if (!w) continue;
+      const r = readValue(report, `/${i}/${w.key}`, w.raw, spec);
       if (r) properties[name] = { ...r, unit: spec.unit, source };
     }
     materials.set(id, { id, title: String(entry.title), properties, origin: 'handbook', file: src.file });
@@ -512,7 +513,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
                         : ptr === '/via'
                           ? ['conductor', 'liner']
                           : ptr === '/via/conductor'
-                            ? ['material', 'resistivity', 'youngs_modulus', 'poisson_ratio', 'expansion']
+                            ? ['material', 'resistivity', 'youngs_modulus', 'poisson_ratio', 'thermal_expansion', 'expansion']
                             : ptr === '/via/liner'
                               ? ['material', 'thickness', 'dielectric_constant']
                               : ptr === '/isolation'
@@ -820,7 +821,7 @@ function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | un
     inline('/via/conductor/resistivity', v.conductor.resistivity, 'via.conductor_resistivity');
     for (const prop of Object.keys(VIA_CONDUCTOR_MECH)) {
       fromMaterial('/via/conductor/material', v.conductor.material, prop, `via.conductor_${prop}`);
-      const w = writtenProperty(v.conductor, prop);
+      const w = writtenProperty(v.conductor, prop, { report, base: '/via/conductor' });
       if (!w) continue;
       const spec = VIA_CONDUCTOR_MECH[prop]!;
       const pointer = `/via/conductor/${w.key}`;

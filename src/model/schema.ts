@@ -99,7 +99,8 @@ export function structureSchema(): JsonSchema {
               resistivity: valueWithUnit('Resistivity override.'),
               youngs_modulus: valueWithUnit("Young's modulus override."),
               poisson_ratio: valueWithUnit("Poisson's ratio override."),
-              expansion: valueWithUnit('Expansion coefficient override.'),
+              expansion: valueWithUnit('Expansion coefficient override (alias of thermal_expansion).'),
+              thermal_expansion: valueWithUnit('Expansion coefficient override.'),
             },
           },
           liner: { type: 'object', additionalProperties: false, required: ['material', 'thickness'], properties: { material: { type: 'string' }, thickness: valueWithUnit('Liner thickness.'), dielectric_constant: valueWithUnit('Permittivity override.') } },
@@ -228,6 +229,7 @@ export function materialsSchema(): JsonSchema {
         based_on: { type: 'string', description: 'A material whose properties this one starts from.' },
         source: { type: 'string', description: 'Where these values come from.' },
         ...propertiesFrom(MATERIAL_PROPERTIES),
+        expansion: valueWithUnit('Alias of thermal_expansion.'),
       },
     },
   };

@@ -164,6 +164,8 @@ function parseTolerancePart(part: string, nominalText: string, nominal: number, 
     // A percentage of a temperature on an offset scale has no single meaning (1 % of 400 °C is
     // 4 K, of 673.15 K it is 6.7 K): ask for the tolerance in a unit.
     if (offsetScale(nominalText)) return { code: 'malformed-tolerance', expected: 'a tolerance in K or °C (a percentage of a °C or °F value is ambiguous)' };
+    // Nor has a percentage of a percentage (50% ± 10% reads as 45–55 % or as 40–60 %).
+    if (/%\s*$/.test(nominalText.trim())) return { code: 'malformed-tolerance', expected: 'a tolerance in percentage points, without the % sign (as in "50% ± 10", which means 40 % to 60 %): a percentage of a percentage is ambiguous' };
     return Math.abs(nominal) * Number(pct[1]) / 100;
   }
   if (/^[0-9.]+(?:[eE][-+]?\d+)?$/.test(p)) {

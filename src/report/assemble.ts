@@ -38,6 +38,8 @@ export interface VerdictRow {
   /** A failing advisory rule: shown apart from blocking failures. */
   advisory: boolean;
   valueText: string;
+  /** The value cell holds a sentence (what is missing, why there is no value), not a number: it wraps. */
+  valueIsText: boolean;
   limitText: string;
   marginText: string;
   url: string;
@@ -56,6 +58,7 @@ function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
     severity: v.severity,
     advisory: v.status === 'fail' && v.severity === 'advisory',
     valueText: v.status === 'incomplete' ? `needs ${v.missing?.join(', ')}` : v.status === 'not-applicable' ? (v.reason ?? '') : valuePhrase(v),
+    valueIsText: v.status === 'incomplete' || v.status === 'not-applicable' || v.value === null,
     limitText: limitPhrase(rule, v.unit),
     marginText: formatMargin(v.margin),
     url: urls.verdict(rule.id, s.id),
@@ -198,6 +201,7 @@ export async function assembleReport(h: Handbook, results: Results) {
         title: QUANTITIES.get(baseName(name))!.title,
         url: urls.quantity(baseName(name)),
         valueText: q.value === null ? valuePhrase({ value: null, unit: q.unit, ...(q.reason ? { reason: q.reason } : {}), ...(q.unbounded ? { unbounded: q.unbounded } : {}) }) : formatValue(q.value, q.unit),
+        valueIsText: q.value === null,
       })),
       incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(baseName(name))!.title, missing: missing.join(', ') })),
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),

@@ -104,6 +104,17 @@ export function guardOutput(out: string, root: string): void {
   for (const input of [...HANDBOOK_INPUTS, '.git']) {
     if (isInside(join(realRoot, input), realOut)) throw new Refusal('output-inside-inputs', { path: absOut, input });
   }
+  // Every existing ancestor must be a folder (`--out notes.txt/site` cannot be made).
+  for (let up = dirname(absOut); ; up = dirname(up)) {
+    try {
+      if (!statSync(up).isDirectory()) throw new Refusal('output-is-file', { path: up });
+      break;
+    } catch (err) {
+      if (err instanceof Refusal) throw err;
+      if ((err as NodeJS.ErrnoException).code === 'ENOTDIR') throw new Refusal('output-is-file', { path: up });
+      if (dirname(up) === up) break;
+    }
+  }
   let st;
   try {
     st = lstatSync(absOut);
@@ -112,6 +123,8 @@ export function guardOutput(out: string, root: string): void {
   }
   if (st.isSymbolicLink()) throw new Refusal('output-is-link', { path: absOut });
   if (!st.isDirectory()) throw new Refusal('output-is-file', { path: absOut });
+  // A mount point (a container volume) cannot be renamed away: say so before rendering.
+  if (st.dev !== statSync(dirname(absOut)).dev) throw new Refusal('output-is-mount', { path: absOut, errno: 'a mount point' });
   const m = readMarker(absOut);
   if (m.state === 'complete') {
     const foreign = foreignEntries(absOut, m);
@@ -130,6 +143,28 @@ export interface Holder {
   started: string;
   command: string;
   token: string;
+  /** The holder process's start, as the system counts it (Linux: clock ticks since boot), and the
+   * boot it belongs to: a live process that merely reuses a dead holder's pid has another. */
+  processStart?: string;
+  boot?: string;
+}
+
+/** Start of a process and the current boot, where the system tells them (Linux's /proc). */
+function processStartOf(pid: number): string | undefined {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    return stat.slice(stat.lastIndexOf(')') + 2).split(' ')[19];
+  } catch {
+    return undefined;
+  }
+}
+
+function bootId(): string | undefined {
+  try {
+    return readFileSync('/proc/sys/kernel/random/boot_id', 'utf8').trim();
+  } catch {
+    return undefined;
+  }
 }
 
 /** A lock not touched for this long is stale on any host (the holder touches it every few seconds). */
@@ -161,7 +196,7 @@ export function describeHolder(h: Holder): string {
 }
 
 /** Is the lock's holder gone? Only then may the lock be taken over. */
-function isStale(path: string, h: Holder | null, me: Holder): boolean {
+function isStale(path: string, h: Holder, me: Holder): boolean {
   let age = 0;
   try {
     age = Date.now() - statSync(path).mtimeMs;
@@ -169,12 +204,15 @@ function isStale(path: string, h: Holder | null, me: Holder): boolean {
     return false; // gone already: the next attempt creates it
   }
   if (age > LOCK_STALE_MS) return true; // not touched for ten minutes: no build is running it
-  if (!h) return age > 30_000; // unreadable and not fresh: not one of ours being written
   if (h.host !== me.host) return false; // another machine's build, touched recently
+  if (h.boot && me.boot && h.boot !== me.boot) return true; // written before the machine restarted
   // Our own pid but not a lock this process holds: left by an earlier life of this pid (a restarted
   // container runs every build as pid 1).
   if (h.pid === process.pid) return !heldHere.has(h.token);
-  return !alive(h.pid);
+  if (!alive(h.pid)) return true;
+  // Alive, but another process than the one that wrote the lock (its pid was reused).
+  const start = processStartOf(h.pid);
+  return h.processStart !== undefined && start !== undefined && start !== h.processStart;
 }
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -200,7 +238,9 @@ export function lockPathOf(out: string): string {
 /** Take the lock of an output folder; resolves to a release function. */
 export async function lockOutput(out: string, opts: LockOptions = {}): Promise<() => void> {
   const path = lockPathOf(out);
-  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(8).toString('hex') };
+  const start = processStartOf(process.pid);
+  const boot = bootId();
+  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(8).toString('hex'), ...(start ? { processStart: start } : {}), ...(boot ? { boot } : {}) };
   const deadline = Date.now() + (opts.waitMs ?? 15 * 60_000);
   let told = false;
   for (;;) {
@@ -237,13 +277,22 @@ export async function lockOutput(out: string, opts: LockOptions = {}): Promise<(
       rmSync(mine, { force: true });
       if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw new Refusal('lock-unavailable', { lock: path, reason: (err as Error).message });
     }
-    const holder = readHolder(path);
+    // Only a lock plumbline wrote is ever moved: a folder or a file of another kind by that name is
+    // someone else's, and the build stops rather than touch it.
+    let st;
+    try {
+      st = lstatSync(path);
+    } catch {
+      continue; // released meanwhile
+    }
+    const holder = st.isFile() ? readHolder(path) : null;
+    if (!holder) throw new Refusal('lock-foreign', { lock: path });
     if (isStale(path, holder, me)) {
       takeOverStale(path, holder);
       continue;
     }
-    if (Date.now() > deadline) throw new Refusal('lock-held', { lock: path, holder: holder ? describeHolder(holder) : 'an unreadable lock' });
-    if (!told && holder) opts.onWait?.(holder);
+    if (Date.now() > deadline) throw new Refusal('lock-held', { lock: path, holder: describeHolder(holder) });
+    if (!told) opts.onWait?.(holder);
     told = true;
     await sleep(150);
   }
@@ -254,27 +303,14 @@ export async function lockOutput(out: string, opts: LockOptions = {}): Promise<(
  * a unique name; if what was moved is not the lock judged stale (another token, or other bytes),
  * link it back. Only three builds racing for one stale lock can still interleave badly here.
  */
-function takeOverStale(path: string, stale: Holder | null): void {
-  let before: string;
-  try {
-    before = readFileSync(path, 'utf8');
-  } catch {
-    return;
-  }
+function takeOverStale(path: string, stale: Holder): void {
   const aside = `${path}.stale-${process.pid}-${randomBytes(4).toString('hex')}`;
   try {
     renameSync(path, aside);
   } catch {
     return; // someone else moved it first
   }
-  let moved = '';
-  try {
-    moved = readFileSync(aside, 'utf8');
-  } catch {
-    // unreadable now: treat as what we judged
-  }
-  const same = stale ? readHolder(aside)?.token === stale.token : moved === before;
-  if (!same) {
+  if (readHolder(aside)?.token !== stale.token) {
     try {
       linkSync(aside, path);
     } catch {
@@ -317,6 +353,16 @@ function leftovers(out: string): Leftover[] {
   });
 }
 
+/**
+ * Delete a report folder, its marker last: a kill part-way leaves a folder still marked as ours
+ * (with fewer files, which is still only ours), so the next build can finish the job.
+ */
+function removeReport(dir: string): void {
+  for (const name of readdirSync(dir)) if (name !== MARKER) rmSync(join(dir, name), { recursive: true, force: true });
+  rmSync(join(dir, MARKER), { force: true });
+  rmdirSync(dir);
+}
+
 /** A leftover is ours to delete: marked as a build in progress, or a complete report holding only its files. */
 function isOurs(f: Leftover): boolean {
   if (f.marked.state === 'building') return true;
@@ -340,7 +386,7 @@ export function recoverOutput(out: string): string[] {
   }
   for (const f of leftovers(target)) {
     if (isOurs(f)) {
-      rmSync(f.path, { recursive: true, force: true });
+      removeReport(f.path);
       notes.push(`removed ${basename(f.path)}, left by an earlier build`);
     } else if (f.empty) {
       rmdirSync(f.path);
@@ -377,9 +423,30 @@ export function writeFailure(err: unknown): Refusal | undefined {
  * Render a report into `out`: guarded, locked, recovered, rendered aside and swapped in. `render`
  * writes into the folder it is given. Resolves to what recovery and clean-up did.
  */
+/**
+ * Create the missing ancestors of `dir` one level at a time. (Node's recursive mkdir loops forever
+ * on some pseudo file systems such as /proc; one level at a time, a failure is an answer.)
+ */
+function makeParents(dir: string): void {
+  const missing: string[] = [];
+  for (let p = resolve(dir); !existsSync(p); p = dirname(p)) {
+    missing.push(p);
+    if (dirname(p) === p) break;
+  }
+  for (const p of missing.reverse()) {
+    try {
+      mkdirSync(p);
+    } catch (err) {
+      const code = (err as NodeJS.ErrnoException).code;
+      if (code === 'EEXIST') continue;
+      throw writeFailure(err) ?? new Refusal('write-failed', { reason: 'the folder cannot be created there', errno: code ?? 'error', path: p });
+    }
+  }
+}
+
 export async function publish(out: string, root: string, render: (dir: string) => Promise<void>, opts: LockOptions = {}): Promise<PublishNotes> {
   guardOutput(out, root);
-  mkdirSync(dirname(resolve(out)), { recursive: true });
+  makeParents(dirname(resolve(out)));
   const release = await lockOutput(out, opts);
   try {
     const target = realish(out);
@@ -398,18 +465,26 @@ export async function publish(out: string, root: string, render: (dir: string) =
       opts.afterRender?.();
       guardOutput(target, root); // and again: the render may have taken minutes
     } catch (err) {
-      rmSync(building, { recursive: true, force: true });
+      removeReport(building);
       throw err;
     }
     const had = existsSync(target);
     if (had) {
-      renameSync(target, previous);
+      try {
+        renameSync(target, previous);
+      } catch (err) {
+        removeReport(building);
+        const code = (err as NodeJS.ErrnoException).code;
+        // A mount point (a container volume) cannot be renamed: the report goes into a folder inside it.
+        if (code === 'EBUSY' || code === 'EXDEV') throw new Refusal('output-is-mount', { path: target, errno: code });
+        throw err;
+      }
       // Between the last check and the rename something may have been put there: keep it.
       const moved = readMarker(previous);
       const ours = moved.state === 'complete' ? foreignEntries(previous, moved).length === 0 : readdirSync(previous).length === 0;
       if (!ours) {
         renameSync(previous, target);
-        rmSync(building, { recursive: true, force: true });
+        removeReport(building);
         throw new Refusal('output-changed', { path: target });
       }
     }
@@ -417,7 +492,7 @@ export async function publish(out: string, root: string, render: (dir: string) =
     renameSync(building, target);
     if (had) {
       try {
-        rmSync(previous, { recursive: true, force: true });
+        removeReport(previous);
       } catch (err) {
         // The new report is in place; the old one is removed by the next build.
         recovered.push(`could not remove ${basename(previous)} (${(err as NodeJS.ErrnoException).code ?? 'error'}); the next build removes it`);

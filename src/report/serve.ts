@@ -106,7 +106,7 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   const once = async (): Promise<void> => {
     const outcome = checkHandbook(new FolderSource(root));
     if (!outcome.ok) {
-      io.err(formatDiagnostics(outcome.diagnostics));
+      io.err(formatDiagnostics(outcome.diagnostics, 'the last good report is still served'));
       return;
     }
     if (outcome.handbook.warnings.length) io.err(formatWarnings(outcome.handbook.warnings));

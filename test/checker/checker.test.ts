@@ -230,13 +230,6 @@ describe('the demo handbook, verdict by verdict', () => {
     const cs = (2 * Math.PI * e0k * 1.86e-6) / Math.log(21.55 / 16.25) + (2 * Math.PI * e0k * 1.8525e-6) / Math.log(8.75 / 3.45);
     return (0.55 * cs - 2e-15 * 0.064) / (cs + 90e-15);
   };
-  const snDielectric = () => {
-    const base = 34 - 2 * 1900 * tanDeg(0.2);
-    const floor = base + ((34 - base) * 7) / 1900 - 14;
-    const a = 1893 / floor;
-    const flat = 2.5e18 * Math.sqrt(2 * Math.PI * (0.33 / 6.02214076e23) * 1.380649e-23 * 553.15);
-    return 40 / (flat * (1 + (19 / 4) * a + 1.5 * a * a));
-  };
   const WATER = 0.07197; // IAPWS R1-76 at 25 °C
   const IPA = 0.0209; // CRC Handbook, 25 °C (from memory)
   const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number]]> = [
@@ -300,9 +293,11 @@ describe('the demo handbook, verdict by verdict', () => {
     ['ISO-DEPTH-1', 'cell-isolation-trench', 'pass', [250 * nm, 600 * nm]],
     // Storage-node dielectric (ALD, Gordon et al. 2003) inside the cup at nominal: the re-entrant
     // node's base is 34 − 2·1900·tan 0.2° = 20.7354 nm; the cup floor, one wall (7 nm) up, is
-    // 20.7354 + (34 − 20.7354)·7/1900 − 14 = 6.7843 nm wide, 1893 nm down: a = 279.03.
-    // Flat dose S·√(2πmkT) with S = 2.5e18, M = 330 g/mol, T = 553.15 K; margin = 40 Pa·s / required.
-    ['SN-DIEL-1', 'storage-node', 'fail', snDielectric()],
+    // The cup's floor is 20.7354 + (34 − 20.7354)·7/1900 − 14 = 6.7843 nm wide, less than twice the
+    // 5 nm dielectric: the film fills the bottom of the cup, so the lined-opening dose model has no
+    // value there and the verdict fails.
+    ['SN-DIEL-1', 'storage-node', 'fail', null],
+    // (and the value is indeed absent, with the reason: asserted below the table.)
     // Trench liner (CVD, s = 0.0008), worst corner: bottom 22 − 2·240·tan 1.8° = 6.915 nm, d = 2w:
     // φ = √(3s)·L/(2w); coverage 1/(cosh φ + (√(3s)/4)·sinh φ).
     ['ISO-LINER-1', 'cell-isolation-trench', 'pass', cvd(0.0008, 240, 2 * (22 - 2 * 240 * tanDeg(1.8)))],
@@ -374,6 +369,13 @@ describe('the demo handbook, verdict by verdict', () => {
         if (status === 'incomplete') expect(v.value).toBeNull();
       } else expectRel(v.value, value, 9);
     }
+  });
+
+  it('the storage-node dielectric fills the floor of its cup: no value, and the reason says where', () => {
+    // Floor 6.7843 nm < 2 × 5 nm (worked out beside SN-DIEL-1 above).
+    const v = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-DIEL-1' && x.structure === 'storage-node')!;
+    expect(v.value).toBeNull();
+    expect(v.reason).toMatch(/closes the opening at its bottom \(6\.78 nm wide there\)/);
   });
 
   it('counts 38 pass, 14 fail (10 blocking), 1 incomplete, 453 not applicable', () => {

@@ -213,6 +213,36 @@ describe('film steps of a structure', () => {
   });
 });
 
+describe('a film that closes the opening it coats (regression: a 30 nm film in a 22 nm hole had coverage 1)', () => {
+  const hole = (films: string) => `id: test-pillar\ntitle: Narrow hole\nkind: hole\ngeometry: { cd: 22 nm, depth: 180 nm, sidewall_angle: 90 deg }\ndeposition:\n${films}`;
+  const ald = (t: string) => `  - { film: liner, method: ald, thickness: ${t}, exposure: 40 Pa*s, molar_mass: 330 g/mol, temperature: 280 degC, site_density: 2.5e18 /m^2 }\n`;
+  const quantities = (yaml: string) => {
+    const r = loadStructure(yaml);
+    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+    return evaluateStructure(r.handbook.structures[0]!).quantities;
+  };
+
+  it('has no coverage, exposure or margin when twice the film is not less than the width', () => {
+    // 2 × 15 nm = 30 nm ≥ 22 nm, and 2 × 11 nm = 22 nm closes it exactly.
+    for (const t of ['15 nm', '11 nm']) {
+      const q = quantities(hole(ald(t)));
+      for (const name of ['deposition.step_coverage', 'deposition.ald_required_exposure', 'deposition.ald_exposure_margin']) {
+        expect(q[name]?.value, `${name} at ${t}`).toBeNull();
+        expect(q[name]?.reason).toMatch(/closes the opening at its mouth/);
+      }
+    }
+    // 2 × 10 nm = 20 nm < 22 nm: a lined opening, with a value.
+    expect(quantities(hole(ald('10 nm')))['deposition.step_coverage']?.value).toBe(1);
+  });
+
+  it('counts the earlier films: a 9 nm barrier in the 12 nm a 5 nm liner leaves has no value', () => {
+    const cvd = (film: string, t: string) => `  - { film: ${film}, method: cvd, thickness: ${t}, sticking_probability: 0.001 }\n`;
+    // 22 − 2 × 5 = 12 nm left; 2 × 9 = 18 nm ≥ 12; 2 × 5 = 10 < 12 leaves room.
+    expect(quantities(hole(cvd('liner', '5 nm') + cvd('barrier', '9 nm')))['deposition.step_coverage[barrier]']?.value).toBeNull();
+    expect(quantities(hole(cvd('liner', '5 nm') + cvd('barrier', '5 nm')))['deposition.step_coverage[barrier]']?.value).toBeGreaterThan(0);
+  });
+});
+
 // ── Gap fill: geometric truths and the transport inside the march ─────────────────────────────
 
 describe('gap fill marched in time', () => {

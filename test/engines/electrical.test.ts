@@ -53,7 +53,7 @@ describe('charge sharing with the bit line', () => {
 
 /** A storage node with a cell block, in SI. */
 function cellNode(height: number): Structure {
-  const s = makeStructure('cylinder', { cd: 36 * nm, wall: 5 * nm, height, sidewall_angle: Math.PI / 2 }, { array: 'hexagonal' });
+  const s = makeStructure('cylinder', { cd: 36 * nm, wall: 5 * nm, height, pitch: 56 * nm, sidewall_angle: Math.PI / 2 }, { array: 'hexagonal' });
   const pos = { file: 'test', line: 1, column: 1 };
   const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
   set('cell.dielectric_thickness', 5 * nm);
@@ -67,6 +67,29 @@ function cellNode(height: number): Structure {
   s.cell = { surfaces: ['inner', 'outer'] };
   return s;
 }
+
+describe('a dielectric that leaves no room for the plate electrode (regression: it passed)', () => {
+  // 36 nm CD at a 56 nm pitch: a 20 nm gap between neighbours; inner radius 18 − 5 = 13 nm.
+  const cs = (thickness: number, surfaces: Array<'inner' | 'outer' | 'bottom'>) => {
+    const s = cellNode(1.5 * um);
+    s.params.set('cell.dielectric_thickness', { ...s.params.get('cell.dielectric_thickness')!, value: thickness });
+    s.cell = { surfaces };
+    return evaluateStructure(s).quantities['electrical.storage_capacitance']!;
+  };
+
+  it('outside: films of neighbours meeting across the gap (2 × 10 nm = 20 nm) give no capacitance', () => {
+    expect(cs(10 * nm, ['outer']).value).toBeNull();
+    expect(cs(10 * nm, ['outer']).reason).toMatch(/neighbouring cylinders meet/);
+    expect(cs(9 * nm, ['outer']).value).toBeGreaterThan(0);
+  });
+
+  it('inside: a dielectric as thick as the inner radius (13 nm) fills the cup; the outer wall alone does not care', () => {
+    expect(cs(13 * nm, ['inner']).reason).toMatch(/fills the cup/);
+    expect(cs(13 * nm, ['bottom']).value).toBeNull();
+    // Outer only, 13 nm: but 2 × 13 = 26 nm > 20 nm, so the neighbours' films meet instead.
+    expect(cs(13 * nm, ['outer']).reason).toMatch(/neighbouring cylinders meet/);
+  });
+});
 
 describe('the cell of a structure (format example: 36 nm, 5 nm wall, 1.5 µm, ZrO₂ k = 40, 5 nm)', () => {
   const q = evaluateStructure(cellNode(1.5 * um)).quantities;

@@ -66,6 +66,15 @@ describe('parseValue: nominal values in SI', () => {
 });
 
 describe('parseValue: tolerances', () => {
+  it('reads a tolerance on a percentage in points, and refuses a percentage of a percentage', () => {
+    // "50% ± 10": the tolerance borrows the nominal's unit, 10 % = 0.1 absolute: 0.4 … 0.6.
+    const r = ok('50% ± 10', '1');
+    expect([r.value, r.low, r.high]).toEqual([0.5, 0.4, 0.6]);
+    // "50% ± 10%" could be 45–55 % (relative) or 40–60 % (points): refused, as for °C.
+    expect(problem('50% ± 10%', '1')).toBe('malformed-tolerance');
+    expect(problem('50% +5/-2%', '1')).toBe('malformed-tolerance');
+  });
+
   it('reads a symmetric ± tolerance with its own unit', () => {
     // 32 nm ± 1.5 nm → [30.5 nm, 33.5 nm] (hand).
     const v = ok('32 nm ± 1.5 nm', 'm');

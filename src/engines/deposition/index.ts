@@ -43,10 +43,14 @@ function openingInputs(shape: Shape, film?: string): Record<string, string> | nu
   const films = shape.deposition?.films ?? [];
   const upTo = film === undefined ? films.length : films.findIndex((f) => f.film === film);
   films.slice(0, Math.max(0, upTo)).forEach((f, i) => (earlier[`prior_${i + 1}`] = `deposition.${f.film}.thickness`));
+  // The step's own thickness: a film as thick as half the opening closes it (pinches off).
+  if (film !== undefined && upTo >= 0) earlier.own = `deposition.${film}.thickness`;
   if (isOpening(shape.kind)) return { depth: 'geometry.depth', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', ...earlier };
   if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', wall: 'geometry.wall', ...earlier };
   return null;
 }
+
+const nmText = (m: number) => `${Number((m * 1e9).toPrecision(3))} nm`;
 
 /** Depth and narrowest width of the opening left to coat, from the inputs of openingInputs. */
 function opening(a: Record<string, number>): { depth: number; width: number } {
@@ -64,26 +68,38 @@ function openingOrClosed(a: Record<string, number>): { depth: number; width: num
   let narrowed = 0;
   for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
   let depth: number;
-  let narrowest: number;
+  let top: number;
+  let bottom: number;
   if (a.depth !== undefined) {
     depth = a.depth;
-    narrowest = Math.min(a.cd!, a.bottom!);
+    top = a.cd!;
+    bottom = a.bottom!;
   } else {
     // Inside a cup: the cavity of the geometry engine (its floor one wall above the base).
     const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
     if ('reason' in c) return { reason: c.reason };
     depth = c.depth;
-    narrowest = Math.min(c.top, c.bottom);
+    top = c.top;
+    bottom = c.bottom;
   }
+  const narrowest = Math.min(top, bottom);
   if (!(narrowest > 0)) return { reason: 'the opening closes before its bottom (its narrowest width is not above zero), so there is nothing below to coat' };
-  if (!(narrowest - narrowed > 0)) return { reason: `the earlier films (${Number((narrowed / 2 * 1e9).toPrecision(3))} nm on each wall) close the opening at its narrowest width, so this film has nowhere to go` };
+  if (!(narrowest - narrowed > 0)) return { reason: `the earlier films (${nmText(narrowed / 2)} on each wall) close the opening at its narrowest width, so this film has nowhere to go` };
   if (!(depth > 0)) return { reason: 'the opening has no depth left to coat' };
+  const own = a.own ?? 0;
+  if (!(narrowest - narrowed - 2 * own > 1e-9 * narrowest)) {
+    // The film closes the opening where it is narrowest: at the mouth it pinches off over what lies
+    // below; at the bottom it fills it. Either way this is no longer a lined opening.
+    const where = top <= bottom ? `its mouth (${nmText(top - narrowed)} wide there): it pinches off, closing over the opening below` : `its bottom (${nmText(bottom - narrowed)} wide there): it fills the opening where it is narrower than twice the film`;
+    return { reason: `this film (${nmText(own)} on each wall) closes the opening at ${where}; the models of a lined opening do not apply` };
+  }
   return { depth, width: narrowest - narrowed };
 }
 
 const SYMBOLS: Record<string, string> = {
   depth: 'L',
   width: 'd',
+  own: 't',
   height: 'H',
   cd: '\\mathrm{CD}',
   wall: 't_w',

@@ -62,6 +62,7 @@ const SYMBOLS: Record<string, string> = {
   height: 'H',
   thickness: 't_d',
   k: 'k',
+  space: 's',
   cs: 'C_s',
   cbl: 'C_{BL}',
   v: 'V_{DD}',
@@ -83,6 +84,25 @@ function capacitanceOf(shape: Shape, a: Record<string, number>): number {
   return shape.cell!.surfaces.reduce((sum, s) => sum + c[s], 0);
 }
 
+/**
+ * Why the dielectric leaves no room for the plate electrode on a surface it is written on, if it
+ * does not: inside, it fills the cup (r_i ≤ t_d); outside, the films of neighbouring cylinders
+ * meet across the gap (s ≤ 2·t_d). A capacitor without a plate has no capacitance to give.
+ */
+function noRoomForPlate(shape: Shape, a: Record<string, number>): string | null {
+  const surfaces = shape.cell!.surfaces;
+  const ri = a.cd! / 2 - a.wall!;
+  // A gap of a billionth of the radius is no gap (and floating-point noise must not open one).
+  const room = (gap: number, of: number) => gap > 1e-9 * of;
+  if ((surfaces.includes('inner') || surfaces.includes('bottom')) && !room(ri - a.thickness!, ri)) {
+    return 'the dielectric fills the cup (it is at least as thick as the inner radius): there is no room for a plate electrode inside';
+  }
+  if (surfaces.includes('outer') && !room(a.space! - 2 * a.thickness!, a.space!)) {
+    return 'the dielectric films of neighbouring cylinders meet across the gap (the space is not more than twice the dielectric thickness): there is no room for a plate electrode between them';
+  }
+  return null;
+}
+
 const storageCapacitance: QuantityDef = {
   name: 'electrical.storage_capacitance',
   title: 'Storage capacitance',
@@ -91,7 +111,6 @@ const storageCapacitance: QuantityDef = {
   description: 'Capacitance of the cylinder electrode over the surfaces that carry the dielectric: each wall as a coaxial capacitor, the floor as a parallel plate.',
   source: COAX_SOURCE,
   assumptions: ['Vertical walls at the top CD; the outer wall faces the plate over the full height, the inner one from the floor (one wall thick) up; fringe fields at the rim ignored.'],
-  validity: [{ holds: ({ cd, wall, thickness }) => cd! / 2 - wall! > thickness!, why: 'the dielectric fills the cup: there is no room for a plate electrode inside.' }],
   better: 'higher',
   sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   variant: (shape) => {
@@ -105,10 +124,13 @@ const storageCapacitance: QuantityDef = {
     };
     return variant({
       label: `electrode surfaces: ${surfaces.join(', ')}`,
-      inputs: cellInputs,
+      // The gap to the neighbours bounds the dielectric on the outer wall.
+      inputs: surfaces.includes('outer') ? { ...cellInputs, space: 'geometry.space' } : cellInputs,
       symbols: SYMBOLS,
       formula: `C_s = ${surfaces.map((s) => terms[s]).join(' + ')},\\;\\; r_o = \\tfrac{\\mathrm{CD}}{2},\\; r_i = r_o - t_w`,
       compute: (a: Record<string, number>) => {
+        const full = noRoomForPlate(shape, a);
+        if (full) return noValue(full);
         const coax = capacitanceOf(shape, a);
         const g = { cd: a.cd!, wall: a.wall!, height: a.height!, thickness: a.thickness!, k: a.k! };
         const pp = parallelPlateCapacitances(g);
@@ -193,10 +215,12 @@ const requiredHeight: QuantityDef = {
     const no = cellOnly(shape);
     if (no) return no;
     return variant({
-      inputs: { ...cellInputs, creq: 'electrical.required_capacitance' },
+      inputs: { ...cellInputs, ...(shape.cell!.surfaces.includes('outer') ? { space: 'geometry.space' } : {}), creq: 'electrical.required_capacitance' },
       symbols: SYMBOLS,
       formula: 'C_s(H_{req}) = C_{req},\\;\\; C_s(H) = \\alpha H + \\beta',
       compute: (a: Record<string, number>) => {
+        const full = noRoomForPlate(shape, a);
+        if (full) return noValue(full);
         // C_s(H) is affine in H: two evaluations give slope and intercept.
         const at = (h: number) => capacitanceOf(shape, { ...a, height: h });
         const beta = at(0);
