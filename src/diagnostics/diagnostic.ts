@@ -28,6 +28,7 @@ export type DiagnosticCode =
   | 'outside-handbook'
   | 'file-too-large'
   | 'not-utf8'
+  | 'name-not-utf8'
   // Warnings: loading goes on, the problem is named.
   | 'not-loaded';
 

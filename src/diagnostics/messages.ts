@@ -28,6 +28,7 @@ const headline: Record<Diagnostic['code'], (d: Diagnostic) => string> = {
   'outside-handbook': (d) => `not read: ${d.found ?? 'outside the handbook'}`,
   'file-too-large': (d) => `not read: the file is too large (${d.found ?? ''})`,
   'not-utf8': (d) => `not UTF-8 text (${d.found ?? ''}); save the file as UTF-8`,
+  'name-not-utf8': () => `not read: its name is not UTF-8 (shown with \\x escapes); rename it`,
   'not-loaded': (d) => `not loaded: ${NOT_LOADED[d.reason ?? 'special'](d.found ?? '')}`,
 };
 
@@ -109,6 +110,7 @@ const refusal: Record<RefusalCode, (f: RefusalFacts) => string> = {
   'output-has-foreign-files': (f) => `the report folder ${f.path} holds ${f.fileCount === 1 ? 'a file' : `${f.fileCount} files`} plumbline did not write (${(f.files ?? []).join(', ')}${(f.fileCount ?? 0) > (f.files ?? []).length ? ', …' : ''}); a new build would delete ${f.fileCount === 1 ? 'it' : 'them'}. Move ${f.fileCount === 1 ? 'it' : 'them'} out of the report folder, or build into another --out.`,
   'output-changed': (f) => `the output folder ${f.path} changed while the report was being built (it is no longer empty or a report plumbline wrote); it was left as it is. Build again, or choose another --out.`,
   'output-is-mount': (f) => `the output folder ${f.path} cannot be replaced by renaming it (${f.errno === 'a mount point' ? 'it is a mount point, such as a container volume' : `${f.errno}: a mount point, such as a container volume?`}); build into a folder inside it instead, such as ${f.path}/site.`,
+  'output-name-reserved': (f) => `the output folder ${f.path} is named like the lock or a temporary folder of another report's builds, and would be removed as one; choose another name.`,
   'lock-foreign': (f) => `${f.lock} exists and is not a lock plumbline wrote; remove it (or rename it) and build again.`,
   'lock-held': (f) => `another build holds ${f.lock}: ${f.holder}. If no such build is running, delete that file and try again.`,
   'lock-unavailable': (f) => `cannot create the lock ${f.lock}: ${f.reason ?? ''}`,

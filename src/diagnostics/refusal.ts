@@ -12,6 +12,7 @@ export type RefusalCode =
   | 'output-has-foreign-files'
   | 'output-changed'
   | 'output-is-mount'
+  | 'output-name-reserved'
   | 'lock-held'
   | 'lock-foreign'
   | 'lock-unavailable'

@@ -6,7 +6,7 @@ import { basename, dirname, isAbsolute, join, relative, sep } from 'node:path';
 import process from 'node:process';
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { loadHandbook, type LoadResult } from './load.ts';
-import { MAX_FILE_BYTES, type EntryKind, type HandbookSource, type ReadOutcome, type SourceEntry } from './source.ts';
+import { MAX_FILE_BYTES, escapeName, type EntryKind, type HandbookSource, type ReadOutcome, type SourceEntry } from './source.ts';
 
 /** `child` is `parent` or lies inside it (both real, absolute paths). */
 export function isInside(parent: string, child: string): boolean {
@@ -77,14 +77,16 @@ export class FolderSource implements HandbookSource {
   list(path: string): SourceEntry[] {
     const r = this.resolve(path);
     if (r.kind !== 'folder') return [];
-    let names: string[];
+    let raw: Buffer[];
     try {
-      names = readdirSync(r.real);
+      raw = readdirSync(r.real, { encoding: 'buffer' });
     } catch {
       return [];
     }
-    return names.sort(byCodePoint).flatMap((name): SourceEntry[] => {
+    const names = raw.map((b) => escapeName(b));
+    return names.sort((a, b) => byCodePoint(a.text, b.text)).flatMap(({ text: name, valid }): SourceEntry[] => {
       const child = path === '' ? name : `${path}/${name}`;
+      if (!valid) return [{ path: child, kind: 'other', what: 'a name that is not UTF-8', problem: 'name-not-utf8' }];
       const c = this.resolve(child);
       if (c.kind === 'missing') return []; // gone while listing
       return [c.kind === 'other' ? { path: child, kind: 'other', what: c.what, problem: c.problem } : { path: child, kind: c.kind }];

@@ -294,6 +294,11 @@ function discover(source: HandbookSource, dir: string, out: Diagnostic[]): strin
       seen.add(id);
     }
     for (const e of source.list(folder)) {
+      if (e.problem === 'name-not-utf8') {
+        // Not addressable as text, so not readable: an error whatever it is, so nothing in it is lost unseen.
+        out.push({ code: 'name-not-utf8', file: e.path, line: 1, column: 1, field: '' });
+        continue;
+      }
       if (isHidden(e.path)) {
         // Hidden entries are not read. Editor and system litter (.DS_Store, .x.yaml.swp) passes
         // without a word; a hidden YAML file (.draft.yaml, an editor's .#x.yaml lock) is named.
@@ -975,7 +980,9 @@ export function loadHandbook(source: HandbookSource): LoadResult {
   const out: Diagnostic[] = [];
   const structureFiles = discover(source, 'structures', out);
   const ruleFiles = discover(source, 'rules', out);
-  if (structureFiles.length === 0 && ruleFiles.length === 0 && !out.some((d) => !isWarning(d))) {
+  // No handbook at all: nothing of ours here. (A handbook.yaml alone is a handbook still empty, or
+  // one whose own problems are worth reporting.)
+  if (structureFiles.length === 0 && ruleFiles.length === 0 && !out.some((d) => !isWarning(d)) && source.kindOf('handbook.yaml') === 'missing') {
     return { ok: false, diagnostics: [{ code: 'no-handbook', file: source.root, line: 1, column: 1, field: '', expected: 'a folder with structures/ and rules/ holding YAML files' }, ...out] };
   }
   misnamedTopLevel(source, out);

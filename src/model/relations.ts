@@ -55,6 +55,9 @@ export function structureRelations(supportCount: number): Relation[] {
     { reads: ['geometry.wall', 'geometry.cd'], pointer: '/geometry/wall', holds: ([wall, cd]) => 2 * wall! < cd!, expected: 'a wall thinner than half the CD' },
     { reads: ['geometry.wall', 'geometry.height'], pointer: '/geometry/wall', holds: ([wall, h]) => wall! < h!, expected: 'a wall thinner than the cylinder is tall' },
     { reads: ['etch.reference_cd', 'geometry.cd'], pointer: '/etch/reference_cd', holds: ([ref, cd]) => ref! > cd!, expected: 'a reference feature wider than the opening' },
+    // Trenches and lines are long: their models (the long-slot transmission, areas per length)
+    // assume it, so one shorter than it is wide is refused.
+    { reads: ['geometry.length', 'geometry.cd'], pointer: '/geometry/length', holds: ([length, cd]) => length! > cd!, expected: 'a length greater than the width (trench and line models assume a long section)' },
   ];
   for (let i = 1; i <= supportCount; i++) {
     const pointer = `/drying/supports/${i - 1}`;

@@ -17,7 +17,7 @@ export interface SourceEntry {
   /** Why an entry is `other` (for messages): "a FIFO", "a link to outside the handbook", ... */
   what?: string;
   /** For `other`: which problem reading it would meet. */
-  problem?: 'outside-handbook' | 'not-a-regular-file';
+  problem?: 'outside-handbook' | 'not-a-regular-file' | 'name-not-utf8';
 }
 
 export type ReadProblem =
@@ -103,4 +103,22 @@ function firstInvalidUtf8(b: Uint8Array): number {
     i += n + 1;
   }
   return b.length;
+}
+
+/**
+ * A file name's bytes as text: UTF-8 where it is, each other byte as \\xNN. Names that are not
+ * UTF-8 (Latin-1 "règles" as 0xE8) cannot be addressed as text, so they are named, not read.
+ */
+export function escapeName(bytes: Uint8Array): { text: string; valid: boolean } {
+  let text = '';
+  let rest = bytes;
+  let valid = true;
+  for (;;) {
+    const bad = firstInvalidUtf8(rest);
+    text += new TextDecoder('utf-8').decode(rest.subarray(0, bad));
+    if (bad >= rest.length) return { text, valid };
+    valid = false;
+    text += `\\x${rest[bad]!.toString(16).toUpperCase().padStart(2, '0')}`;
+    rest = rest.subarray(bad + 1);
+  }
 }

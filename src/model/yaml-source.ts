@@ -123,6 +123,12 @@ export function parseYamlSource(file: string, text: string): YamlSource | YamlFa
       const text0 = text.slice(lineStarts[line - 1] ?? 0, lineStarts[line] ?? text.length);
       const tab = /^[ ]*\t/.exec(text0);
       if (tab) return { file, line, column: tab[0].length, reason: 'a tab in the indentation: YAML indents with spaces only' };
+      // A mark past the end of the text (an unclosed bracket at the end of the file) is placed at the
+      // end of the last line, which a reader can go to.
+      if (line > lineStarts.length) {
+        const last = lineStarts.length;
+        return { file, line: last, column: text.length - (lineStarts[last - 1] ?? 0) + 1, reason: err.reason };
+      }
       return { file, line, column: (mark?.column ?? 0) + 1, reason: err.reason };
     }
     throw err;

@@ -15,13 +15,13 @@
 //                 folder is absent; a kill there is repaired by `recover` on the next run, which puts
 //                 the complete new build in place. What was moved aside is deleted only if it is
 //                 still ours; if anything else appeared there meanwhile, it is put back.
-import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readdirSync, readFileSync, realpathSync, renameSync, rmSync, rmdirSync, statSync, utimesSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, linkSync, lstatSync, mkdirSync, openSync, readdirSync, readFileSync, readlinkSync, realpathSync, renameSync, rmSync, rmdirSync, statSync, utimesSync, writeFileSync, writeSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { basename, dirname, join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { Refusal } from '../diagnostics/refusal.ts';
 import { isInside } from '../model/folder-source.ts';
-import { HANDBOOK_INPUTS } from '../model/source.ts';
+import { HANDBOOK_INPUTS, escapeName } from '../model/source.ts';
 
 export { Refusal };
 
@@ -33,11 +33,13 @@ interface MarkerData {
   generator: 'plumbline';
   format: number;
   state?: 'building';
+  /** The build writing the folder, while it is being written. */
+  build?: string;
   /** Every file of the report, relative, '/'-separated, sorted (the marker itself excluded). */
   files?: string[];
 }
 
-type Marked = { state: 'complete'; files: Set<string> } | { state: 'building' } | { state: 'none' };
+type Marked = { state: 'complete'; files: Set<string> } | { state: 'building'; build?: string } | { state: 'none' };
 
 function readMarker(dir: string): Marked {
   const p = join(dir, MARKER);
@@ -45,7 +47,7 @@ function readMarker(dir: string): Marked {
     if (!lstatSync(p).isFile()) return { state: 'none' };
     const m = JSON.parse(readFileSync(p, 'utf8')) as MarkerData;
     if (m.generator !== 'plumbline' || m.format !== FORMAT) return { state: 'none' };
-    if (m.state === 'building') return { state: 'building' };
+    if (m.state === 'building') return { state: 'building', ...(m.build ? { build: m.build } : {}) };
     return Array.isArray(m.files) ? { state: 'complete', files: new Set(m.files) } : { state: 'none' };
   } catch {
     return { state: 'none' };
@@ -56,9 +58,15 @@ function readMarker(dir: string): Marked {
 function entriesOf(dir: string): string[] {
   const out: string[] = [];
   const walk = (d: string, rel: string) => {
-    const names = readdirSync(d);
-    if (names.length === 0 && rel) out.push(`${rel}/`);
-    for (const name of names) {
+    const raw = readdirSync(d, { encoding: 'buffer' });
+    if (raw.length === 0 && rel) out.push(`${rel}/`);
+    for (const bytes of raw) {
+      const { text: name, valid } = escapeName(bytes);
+      // A name that is not UTF-8 was never written by plumbline: listed (escaped), never opened.
+      if (!valid) {
+        out.push(rel ? `${rel}/${name}` : name);
+        continue;
+      }
       const p = join(d, name);
       const r = rel ? `${rel}/${name}` : name;
       const st = lstatSync(p);
@@ -102,7 +110,13 @@ export function guardOutput(out: string, root: string): void {
   if (realOut === realRoot) throw new Refusal('output-is-handbook', { path: absOut });
   if (isInside(realOut, realRoot)) throw new Refusal('output-holds-handbook', { path: absOut, root });
   for (const input of [...HANDBOOK_INPUTS, '.git']) {
-    if (isInside(join(realRoot, input), realOut)) throw new Refusal('output-inside-inputs', { path: absOut, input });
+    // Through its real path too: `structures` may be a link to a folder elsewhere in the handbook.
+    const at = join(realRoot, input);
+    if (isInside(at, realOut) || isInside(realish(at), realOut)) throw new Refusal('output-inside-inputs', { path: absOut, input });
+  }
+  // A name of the kind this module gives a sibling's leftovers or lock would be removed as one.
+  if (/^\..+-(building|previous)-[0-9a-f]+-[0-9a-f]+$/.test(basename(absOut)) || /^\..+-lock$/.test(basename(absOut))) {
+    throw new Refusal('output-name-reserved', { path: absOut });
   }
   // Every existing ancestor must be a folder (`--out notes.txt/site` cannot be made).
   for (let up = dirname(absOut); ; up = dirname(up)) {
@@ -147,6 +161,16 @@ export interface Holder {
    * boot it belongs to: a live process that merely reuses a dead holder's pid has another. */
   processStart?: string;
   boot?: string;
+  /** The holder's pid namespace: a pid means something only inside its own (containers). */
+  pidNamespace?: string;
+}
+
+function pidNamespace(): string | undefined {
+  try {
+    return readlinkSync('/proc/self/ns/pid');
+  } catch {
+    return undefined;
+  }
 }
 
 /** Start of a process and the current boot, where the system tells them (Linux's /proc). */
@@ -206,6 +230,9 @@ function isStale(path: string, h: Holder, me: Holder): boolean {
   if (age > LOCK_STALE_MS) return true; // not touched for ten minutes: no build is running it
   if (h.host !== me.host) return false; // another machine's build, touched recently
   if (h.boot && me.boot && h.boot !== me.boot) return true; // written before the machine restarted
+  // A holder in another pid namespace (another container on this host) cannot be judged by its
+  // pid, which names some other process here: only the heartbeat above says it is gone.
+  if (h.pidNamespace !== me.pidNamespace) return false;
   // Our own pid but not a lock this process holds: left by an earlier life of this pid (a restarted
   // container runs every build as pid 1).
   if (h.pid === process.pid) return !heldHere.has(h.token);
@@ -240,7 +267,8 @@ export async function lockOutput(out: string, opts: LockOptions = {}): Promise<(
   const path = lockPathOf(out);
   const start = processStartOf(process.pid);
   const boot = bootId();
-  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(8).toString('hex'), ...(start ? { processStart: start } : {}), ...(boot ? { boot } : {}) };
+  const ns = pidNamespace();
+  const me: Holder = { pid: process.pid, host: hostname(), started: new Date().toISOString(), command: opts.command ?? 'plumbline build', token: randomBytes(8).toString('hex'), ...(start ? { processStart: start } : {}), ...(boot ? { boot } : {}), ...(ns ? { pidNamespace: ns } : {}) };
   const deadline = Date.now() + (opts.waitMs ?? 15 * 60_000);
   let told = false;
   for (;;) {
@@ -424,10 +452,10 @@ export function writeFailure(err: unknown): Refusal | undefined {
  * writes into the folder it is given. Resolves to what recovery and clean-up did.
  */
 /**
- * Create the missing ancestors of `dir` one level at a time. (Node's recursive mkdir loops forever
+ * Create `dir` and its missing ancestors one level at a time. (Node's recursive mkdir loops forever
  * on some pseudo file systems such as /proc; one level at a time, a failure is an answer.)
  */
-function makeParents(dir: string): void {
+export function ensureFolder(dir: string): void {
   const missing: string[] = [];
   for (let p = resolve(dir); !existsSync(p); p = dirname(p)) {
     missing.push(p);
@@ -446,7 +474,7 @@ function makeParents(dir: string): void {
 
 export async function publish(out: string, root: string, render: (dir: string) => Promise<void>, opts: LockOptions = {}): Promise<PublishNotes> {
   guardOutput(out, root);
-  makeParents(dirname(resolve(out)));
+  ensureFolder(dirname(resolve(out)));
   const release = await lockOutput(out, opts);
   try {
     const target = realish(out);
@@ -456,9 +484,13 @@ export async function publish(out: string, root: string, render: (dir: string) =
     const building = join(dirname(target), `.${basename(target)}-building-${token}`);
     const previous = join(dirname(target), `.${basename(target)}-previous-${token}`);
     mkdirSync(building);
-    writeFileSync(join(building, MARKER), `${JSON.stringify({ generator: 'plumbline', format: FORMAT, state: 'building' } satisfies MarkerData)}\n`);
+    writeFileSync(join(building, MARKER), `${JSON.stringify({ generator: 'plumbline', format: FORMAT, state: 'building', build: token } satisfies MarkerData)}\n`);
     try {
       await render(building);
+      // The folder must still be the one this build made: were the lock wrongly taken over and the
+      // folder removed as a leftover, the render would have re-created part of it.
+      const still = readMarker(building);
+      if (still.state !== 'building' || still.build !== token) throw new Refusal('output-changed', { path: target });
       const tmpMarker = join(building, `${MARKER}.tmp`);
       writeFileSync(tmpMarker, `${JSON.stringify({ generator: 'plumbline', format: FORMAT, files: entriesOf(building).filter((e) => e !== `${MARKER}.tmp`) } satisfies MarkerData)}\n`);
       renameSync(tmpMarker, join(building, MARKER));

@@ -5,13 +5,13 @@
 // segment (a malformed escape is a 400, an encoded slash or a dot segment too), resolved through
 // links, and served only if its real path lies inside the report and is a regular file. Every
 // failure is an answer (400, 404, 405), never a crash.
-import { createReadStream, mkdirSync, realpathSync, statSync, watch, type FSWatcher } from 'node:fs';
+import { createReadStream, realpathSync, statSync, watch, type FSWatcher } from 'node:fs';
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { extname, join, resolve } from 'node:path';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
 import { FolderSource, isInside } from '../model/folder-source.ts';
 import { checkHandbook } from '../pipeline.ts';
-import { guardOutput, writeFailure } from './publish.ts';
+import { ensureFolder, guardOutput, writeFailure } from './publish.ts';
 import { Refusal } from '../diagnostics/refusal.ts';
 import { HANDBOOK_INPUTS } from '../model/source.ts';
 import { buildSite } from './site.ts';
@@ -119,11 +119,9 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
       const refusal = writeFailure(e);
       io.err(refusal ? `plumbline: ${refusal.message}` : `plumbline: internal error while rebuilding (please report it): ${(e as Error)?.stack ?? String(e)}`);
     }));
-  await rebuild();
-  // A handbook that does not load on the first build leaves no report yet: serve an empty folder
-  // (404s) until a change makes it load.
-  mkdirSync(out, { recursive: true });
-  const rootReal = realpathSync(out);
+  // The server listens first, so a busy port is refused before anything is written; then the
+  // folder is made (empty until a build fills it: 404s until then) and the first build runs.
+  let rootReal: string | null = null;
 
   let allowedHosts = new Set<string>();
   const server = createServer((req: IncomingMessage, res: ServerResponse) => {
@@ -131,6 +129,7 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
     // report: answer only requests addressed to this server by its loopback name.
     if (!allowedHosts.has((req.headers.host ?? '').toLowerCase())) return answer(res, 421, 'misdirected request: use http://127.0.0.1 or http://localhost with this port');
     if (req.method !== 'GET' && req.method !== 'HEAD') return answer(res, 405, 'only GET and HEAD');
+    if (rootReal === null) return answer(res, 404, 'not found');
     const r = resolveRequest(rootReal, req.url ?? '/');
     if ('status' in r) return answer(res, r.status, r.status === 400 ? 'bad request' : 'not found');
     const stream = createReadStream(r.file);
@@ -155,6 +154,14 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   server.on('clientError', (_err, socket) => socket.destroy());
   const actual = await listen(server, port);
   allowedHosts = new Set([`127.0.0.1:${actual}`, `localhost:${actual}`]);
+  try {
+    ensureFolder(out);
+    rootReal = realpathSync(out);
+  } catch (err) {
+    server.close();
+    throw err;
+  }
+  await rebuild();
   io.out(`serving ${out} at http://127.0.0.1:${actual}/ (Ctrl-C to stop)`);
 
   // The handbook folder itself is watched (not recursively: the report lies in it) for its files,

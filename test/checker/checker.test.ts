@@ -225,11 +225,6 @@ describe('the demo handbook, verdict by verdict', () => {
     const w = (v: number) => Math.sqrt((2 * eps * (vbi + v)) / (q * n));
     return (2 * 220e-9 + (22 - 440 * tanDeg(1.8)) * 1e-9) / (w(20) + w(0));
   };
-  const snSignal = () => {
-    const e0k = 8.8541878128e-12 * 38;
-    const cs = (2 * Math.PI * e0k * 1.86e-6) / Math.log(21.55 / 16.25) + (2 * Math.PI * e0k * 1.8525e-6) / Math.log(8.75 / 3.45);
-    return (0.55 * cs - 2e-15 * 0.064) / (cs + 90e-15);
-  };
   const WATER = 0.07197; // IAPWS R1-76 at 25 °C
   const IPA = 0.0209; // CRC Handbook, 25 °C (from memory)
   const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number]]> = [
@@ -317,10 +312,10 @@ describe('the demo handbook, verdict by verdict', () => {
     // Via copper: bottom-up at 40× the wall rate; the walls (about 7 µm apart at the worst corner)
     // meet after ~3.5 µm of growth, by when the bottom has risen ~140 µm > 112 µm: no void.
     ['TSV-FILL-1', 'package-tsv', 'pass', 0],
-    // Storage cell, worst corner by hand (every input lowers C_s in the same direction): CD 32.5 nm,
-    // wall 7.5 nm, height 1.86 µm, ZrO₂ (k = 38) 5.3 nm thick. Outer wall coaxial r 16.25 → 21.55 nm,
-    // inner wall r 8.75 → 3.45 nm over 1.8525 µm; ΔV = (0.55 V·C_s − 2 fA·64 ms)/(C_s + 90 fF).
-    ['SN-SIGNAL-1', 'storage-node', 'fail', snSignal()],
+    // Storage cell on the inner and outer walls: the cup narrows to a 6.7843 nm floor (worked out beside
+    // SN-DIEL-1), an inner radius of 3.39 nm, less than the 5 nm dielectric: no plate fits inside
+    // there, so the vertical-wall capacitance has no value and the signal rule fails (asserted below).
+    ['SN-SIGNAL-1', 'storage-node', 'fail', null],
     // Isolation (abrupt junction, Sze & Ng): shortest path at depth 220 nm, CD 22 nm, 88.2°:
     // 2·220 + (22 − 440·tan 1.8°) = 448.17 nm; W(20 V) + W(0) on 2e17 cm⁻³ (n⁺ 1e20, n_i 9.65e9).
     ['ISO-PT-1', 'cell-isolation-trench', 'fail', punchThrough()],
@@ -376,6 +371,10 @@ describe('the demo handbook, verdict by verdict', () => {
     const v = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-DIEL-1' && x.structure === 'storage-node')!;
     expect(v.value).toBeNull();
     expect(v.reason).toMatch(/closes the opening at its bottom \(6\.78 nm wide there\)/);
+    // The same floor leaves no room for the cell's inner plate: the signal has no value either.
+    const signal = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-SIGNAL-1' && x.structure === 'storage-node')!;
+    expect(signal.value).toBeNull();
+    expect(signal.reason).toMatch(/fills the cup where it is narrowest/);
   });
 
   it('counts 38 pass, 14 fail (10 blocking), 1 incomplete, 453 not applicable', () => {

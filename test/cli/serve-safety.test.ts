@@ -2,7 +2,7 @@
 // crash. Regression tests for the hostile-input review: an encoded "../" reached a sibling folder
 // whose name starts like the report's (the containment check lacked a separator), one malformed
 // escape stopped the server, and a bad or busy --port exited 3 with a stack trace.
-import { cpSync, mkdirSync, mkdtempSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { createServer, request } from 'node:http';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -115,6 +115,8 @@ describe('an invalid or busy --port exits 3 with a stack trace (regression)', ()
       expect(r.code).toBe(2);
       expect(r.err).toContain(`port ${port} is already in use`);
       expect(r.err).not.toMatch(/\n\s+at /);
+      // Refused before anything was written: no report was built (it used to build one first).
+      expect(existsSync(join(hb, 'site2'))).toBe(false);
     } finally {
       blocker.close();
     }

@@ -148,6 +148,43 @@ describe('via parasitics', () => {
   });
 });
 
+describe('a liner that fills the via toward its bottom (regression: capacitance and inductance passed)', () => {
+  // 8 µm hole, 110 µm deep at 89°: bottom CD 8 − 2·110·tan 1° = 8 − 3.8401 = 4.1599 µm, radius 2.080 µm.
+  const via = (liner: number) => {
+    const s = makeStructure('via', { cd: 8 * um, depth: 110 * um, sidewall_angle: (89 * Math.PI) / 180 }, { array: 'square' });
+    const pos = { file: 'test', line: 1, column: 1 };
+    const set = (name: string, value: number) => s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
+    set('via.conductor_resistivity', 1.72e-8);
+    set('via.liner_thickness', liner);
+    set('via.liner_dielectric_constant', 3.9);
+    s.via = true;
+    return evaluateStructure(s).quantities;
+  };
+
+  it('has no resistance, capacitance, inductance or RC with a 2.1 µm liner, and all four with 2.0 µm', () => {
+    const names = ['electrical.via_resistance', 'electrical.via_capacitance', 'electrical.via_inductance', 'electrical.via_rc'];
+    for (const n of names) expect(via(2.1 * um)[n]?.value, n).toBeNull();
+    expect(via(2.1 * um)['electrical.via_capacitance']?.reason).toMatch(/fills the via toward its bottom/);
+    for (const n of names) expect(via(2.0 * um)[n]?.value, n).toBeGreaterThan(0);
+  });
+});
+
+describe('a cup that narrows toward its floor (regression: the vertical-wall capacitance counted a plate there)', () => {
+  // 36 nm CD, 5 nm wall, 1.5 µm tall at 90.3°: base CD 36 − 2·1500·tan 0.3° = 36 − 15.708 = 20.292 nm;
+  // at the floor (one wall up) 20.292 + 15.708·5/1500 = 20.344 nm outside, 10.344 nm inside: radius 5.172 nm.
+  const cup = (thickness: number) => {
+    const s = cellNode(1.5 * um);
+    s.params.set('geometry.sidewall_angle', { ...s.params.get('geometry.sidewall_angle')!, value: (90.3 * Math.PI) / 180 });
+    s.params.set('cell.dielectric_thickness', { ...s.params.get('cell.dielectric_thickness')!, value: thickness });
+    return evaluateStructure(s).quantities['electrical.storage_capacitance']!;
+  };
+  it('a 5.1 nm dielectric fits the 5.17 nm floor radius; 5.2 nm does not, though the top radius is 13 nm', () => {
+    expect(cup(5.1 * nm).value).toBeGreaterThan(0);
+    expect(cup(5.2 * nm).value).toBeNull();
+    expect(cup(5.2 * nm).reason).toMatch(/narrowest/);
+  });
+});
+
 describe('isolation (one-sided abrupt junction, Sze & Ng ch. 2)', () => {
   it('built-in potential and zero-bias depletion width on 1e16 cm⁻³ (hand: 0.954 V, 0.351 µm)', () => {
     // V_bi = 0.025852·ln(1e16·1e20/(9.65e9)²) = 0.025852·36.913 = 0.9543 V;

@@ -104,6 +104,31 @@ function etchedHole(geometry: Record<string, number>, etch: Record<string, numbe
 }
 const value = (s: Structure, q: string) => evaluateStructure(s).quantities[q];
 
+describe('calibration the model cannot follow (regression: the fit was pinned at 1e-6 silently)', () => {
+  const calibrated = (rates: [number, number]) => {
+    const s = etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 });
+    const pos = { file: 'test', line: 1, column: 1 };
+    [[5, rates[0]], [20, rates[1]]].forEach(([ar, rate], i) => {
+      for (const [k, v] of [['aspect_ratio', ar], ['rate', rate]] as const) s.params.set(`etch.calibration_${i + 1}_${k}`, { name: `etch.calibration_${i + 1}_${k}`, value: v!, unit: '1', written: String(v), origin: { type: 'handbook', pos } } satisfies Param);
+    });
+    s.etch = { calibrationPoints: 2 };
+    return value(s, 'etch.fitted_reaction_probability')!;
+  };
+  it('has no fitted probability when a point is faster than the open field (6.67e-9 and 8.33e-9 m/s over 5e-9)', () => {
+    expect(calibrated([400e-9 / 60, 500e-9 / 60]).value).toBeNull();
+    expect(calibrated([400e-9 / 60, 500e-9 / 60]).reason).toMatch(/above the open-field rate/);
+  });
+  it('has none when the points fall less than any probability gives (both at the open rate: only S = 0 fits)', () => {
+    expect(calibrated([5e-9, 5e-9]).value).toBeNull();
+    expect(calibrated([5e-9, 5e-9]).reason).toMatch(/low edge/);
+  });
+  it('fits points that fall as the model says', () => {
+    // Cole's K at L/R = 10 and 40 (AR 5 and 20): 0.190941 and 0.059422, S = 0.05.
+    const rate = (k: number) => 5e-9 * (k / (k + 0.05 - k * 0.05));
+    expectRel(calibrated([rate(0.190941), rate(0.059422)]).value, 0.05, 3);
+  });
+});
+
 describe('etch quantities of a structure', () => {
   it('vertical walls, no mask: the rate ratio is exactly Coburn–Winters with Cole’s transmission', () => {
     // 80 nm hole, 800 nm deep: L/R = 20, K = 0.109304 (Cole); S = 0.2 → 0.109304/(0.109304 + 0.2 − 0.0218608).

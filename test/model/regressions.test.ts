@@ -143,6 +143,17 @@ describe('files dropped without a word (regression)', () => {
     expect(h.rules.find((r) => r.id === 'VIA-R-1')?.file).toBe('rules/sub/via.yaml');
   });
 
+  it('names a file or folder whose name is not UTF-8 as an error (it was skipped without a word)', () => {
+    const dir = handbook({});
+    // Latin-1 "règles" (0xE8) as a folder of rules, and a structure file named by the byte 0xFF.
+    mkdirSync(Buffer.from(join(dir, 'rules', 'r\u0000gles').replace('\u0000', '\u00e8'), 'latin1'));
+    writeFileSync(Buffer.concat([Buffer.from(join(dir, 'structures') + '/'), Buffer.from([0xff]), Buffer.from('.yaml')]), 'id: x\n');
+    expect(problems(dir)).toEqual([
+      { code: 'name-not-utf8', file: 'rules/r\\xE8gles', line: 1, column: 1, field: '' },
+      { code: 'name-not-utf8', file: 'structures/\\xFF.yaml', line: 1, column: 1, field: '' },
+    ]);
+  });
+
   it('refuses a structures/ that is a file', () => {
     expect(problems(handbook({ structures: 'not a folder' }))).toEqual([{ code: 'not-a-folder', file: 'structures', line: 1, column: 1, field: '' }]);
   });

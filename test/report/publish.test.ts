@@ -1,7 +1,7 @@
 // Publishing never destroys what plumbline does not own, and the published folder is always whole.
 // Regression tests named after the defects of the hostile-input review: each one failed before.
 import { spawn, spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, readlinkSync, rmSync, symlinkSync, utimesSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -10,7 +10,8 @@ import { MARKER, Refusal, guardOutput, lockOutput, publish, recoverOutput } from
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const CHILD = join(import.meta.dirname, 'children', 'publish-and-die.ts');
-const quiet = { out: () => undefined, err: () => undefined };
+// Locks written by the tests come from this pid namespace, as a real build's would.
+const PID_NS = readlinkSync('/proc/self/ns/pid');
 
 /** A copy of the minimal handbook in a fresh folder; returns the folder. */
 function handbook(): string {
@@ -124,6 +125,22 @@ describe('build --out can delete the handbook (regression)', () => {
     expect(readdirSync(hb).filter((n) => /^\.site-(building|previous)-/.test(n))).toEqual([]);
   });
 
+  it("refuses a folder inside structures/ reached through the link structures/ is (its real path is compared)", () => {
+    const hb = handbook();
+    mkdirSync(join(hb, 'data'));
+    cpSync(join(hb, 'structures'), join(hb, 'data', 'structures'), { recursive: true });
+    rmSync(join(hb, 'structures'), { recursive: true });
+    symlinkSync(join(hb, 'data', 'structures'), join(hb, 'structures'));
+    expect(() => guardOutput(join(hb, 'data', 'structures', 'site'), hb)).toThrow(/inside the handbook's structures/);
+  });
+
+  it("refuses output names of the kind given to another report's lock and leftovers", () => {
+    const hb = handbook();
+    for (const name of ['.a-previous-dead-beef', '.site-building-1f-0badc0de', '.site-lock']) {
+      expect(() => guardOutput(join(hb, '..', name), hb), name).toThrow(/named like the lock or a temporary folder/);
+    }
+  });
+
   it('replaces its own earlier report and an empty folder', async () => {
     const hb = handbook();
     mkdirSync(join(hb, 'site'));
@@ -193,7 +210,7 @@ describe('the swap is not atomic (regression)', () => {
   it('a lock left by a build that died is taken over', async () => {
     const hb = handbook();
     const dead = spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], { encoding: 'utf8' });
-    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: Number(dead.stdout), host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'dead' }));
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: Number(dead.stdout), host: hostname(), pidNamespace: PID_NS, started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'dead' }));
     expect((await cli('build', '--root', hb)).code).toBe(0);
     expect(existsSync(join(hb, '.site-lock'))).toBe(false);
   }, 60_000);
@@ -216,7 +233,7 @@ describe('the swap is not atomic (regression)', () => {
 
   it('a lock left with our own pid by an earlier life of it (a restarted container) is taken over', async () => {
     const hb = handbook();
-    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: process.pid, host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'earlier-life' }));
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: process.pid, host: hostname(), pidNamespace: PID_NS, started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'earlier-life' }));
     expect((await cli('build', '--root', hb)).code).toBe(0);
   }, 60_000);
 
@@ -228,6 +245,28 @@ describe('the swap is not atomic (regression)', () => {
     utimesSync(lock, old, old);
     expect((await cli('build', '--root', hb)).code).toBe(0);
   }, 60_000);
+
+  it('a fresh lock of another pid namespace (another container) is waited for, whatever its pid is here', async () => {
+    const hb = handbook();
+    const dead = spawnSync(process.execPath, ['-e', 'process.stdout.write(String(process.pid))'], { encoding: 'utf8' });
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: Number(dead.stdout), host: hostname(), pidNamespace: 'pid:[1]', started: '2026-01-01T00:00:00.000Z', command: 'plumbline build (other container)', token: 'other' }));
+    await expect(publish(join(hb, 'site'), hb, async () => undefined, { waitMs: 300 })).rejects.toThrow(/other container/);
+    expect(existsSync(join(hb, '.site-lock'))).toBe(true);
+  });
+
+  it('a build whose folder was removed under it while rendering does not publish what is left', async () => {
+    const hb = handbook();
+    const site = join(hb, 'site');
+    const render = async (dir: string) => {
+      writeFileSync(join(dir, 'index.html'), 'part');
+      // As a build that wrongly took the lock would: remove the folder as a leftover.
+      rmSync(dir, { recursive: true });
+      mkdirSync(dir);
+      writeFileSync(join(dir, 'late.html'), 're-created by the render');
+    };
+    await expect(publish(site, hb, render)).rejects.toThrow(Refusal);
+    expect(existsSync(site)).toBe(false);
+  });
 
   it('a live holder is waited for, then named when the wait runs out', async () => {
     const hb = handbook();
@@ -244,7 +283,7 @@ describe('the swap is not atomic (regression)', () => {
   it('a lock whose pid now belongs to another live process (pid reuse) is taken over', async () => {
     const hb = handbook();
     // The parent of this test process is alive, but it did not write this lock: its start differs.
-    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: process.ppid, host: hostname(), started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'reused', processStart: '1' }));
+    writeFileSync(join(hb, '.site-lock'), JSON.stringify({ pid: process.ppid, host: hostname(), pidNamespace: PID_NS, started: '2026-01-01T00:00:00.000Z', command: 'plumbline build', token: 'reused', processStart: '1' }));
     expect((await cli('build', '--root', hb)).code).toBe(0);
   }, 60_000);
 

@@ -7,7 +7,8 @@
 // Electrodynamics, ch. 2), the floor as a parallel plate ε₀·k·A/t; charge sharing with the bit line
 // ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital Integrated
 // Circuits, ch. 12 [memory for chapter]).
-import { noted, noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
+import { noted, noValue, variant, type Engine, type NoValue, type QuantityDef, type Shape } from '../quantity.ts';
+import { cavity } from '../geometry/index.ts';
 
 /** Permittivity of free space, CODATA 2018 (F/m). */
 export const EPSILON_0 = 8.8541878128e-12;
@@ -63,6 +64,7 @@ const SYMBOLS: Record<string, string> = {
   thickness: 't_d',
   k: 'k',
   space: 's',
+  bottom: '\\mathrm{CD}_b',
   cs: 'C_s',
   cbl: 'C_{BL}',
   v: 'V_{DD}',
@@ -91,11 +93,18 @@ function capacitanceOf(shape: Shape, a: Record<string, number>): number {
  */
 function noRoomForPlate(shape: Shape, a: Record<string, number>): string | null {
   const surfaces = shape.cell!.surfaces;
-  const ri = a.cd! / 2 - a.wall!;
+  // Inside, the narrowest inner radius counts: a tapered cup narrows toward its floor, and the
+  // vertical-wall capacitance must not count a plate where none fits.
+  let ri = a.cd! / 2 - a.wall!;
+  if (a.bottom !== undefined && (surfaces.includes('inner') || surfaces.includes('bottom'))) {
+    const c = cavity(a.cd!, a.bottom, a.height!, a.wall!);
+    if ('reason' in c) return c.reason;
+    ri = Math.min(c.top, c.bottom) / 2;
+  }
   // A gap of a billionth of the radius is no gap (and floating-point noise must not open one).
   const room = (gap: number, of: number) => gap > 1e-9 * of;
   if ((surfaces.includes('inner') || surfaces.includes('bottom')) && !room(ri - a.thickness!, ri)) {
-    return 'the dielectric fills the cup (it is at least as thick as the inner radius): there is no room for a plate electrode inside';
+    return 'the dielectric fills the cup where it is narrowest (it is at least as thick as the inner radius there): there is no room for a plate electrode inside';
   }
   if (surfaces.includes('outer') && !room(a.space! - 2 * a.thickness!, a.space!)) {
     return 'the dielectric films of neighbouring cylinders meet across the gap (the space is not more than twice the dielectric thickness): there is no room for a plate electrode between them';
@@ -125,7 +134,7 @@ const storageCapacitance: QuantityDef = {
     return variant({
       label: `electrode surfaces: ${surfaces.join(', ')}`,
       // The gap to the neighbours bounds the dielectric on the outer wall.
-      inputs: surfaces.includes('outer') ? { ...cellInputs, space: 'geometry.space' } : cellInputs,
+      inputs: { ...cellInputs, ...(surfaces.includes('outer') ? { space: 'geometry.space' } : {}), ...(surfaces.includes('inner') || surfaces.includes('bottom') ? { bottom: 'geometry.bottom_cd' } : {}) },
       symbols: SYMBOLS,
       formula: `C_s = ${surfaces.map((s) => terms[s]).join(' + ')},\\;\\; r_o = \\tfrac{\\mathrm{CD}}{2},\\; r_i = r_o - t_w`,
       compute: (a: Record<string, number>) => {
@@ -215,7 +224,7 @@ const requiredHeight: QuantityDef = {
     const no = cellOnly(shape);
     if (no) return no;
     return variant({
-      inputs: { ...cellInputs, ...(shape.cell!.surfaces.includes('outer') ? { space: 'geometry.space' } : {}), creq: 'electrical.required_capacitance' },
+      inputs: { ...cellInputs, ...(shape.cell!.surfaces.includes('outer') ? { space: 'geometry.space' } : {}), ...(shape.cell!.surfaces.some((x) => x !== 'outer') ? { bottom: 'geometry.bottom_cd' } : {}), creq: 'electrical.required_capacitance' },
       symbols: SYMBOLS,
       formula: 'C_s(H_{req}) = C_{req},\\;\\; C_s(H) = \\alpha H + \\beta',
       compute: (a: Record<string, number>) => {
@@ -321,6 +330,16 @@ const viaResistance: QuantityDef = {
     }),
 };
 
+/**
+ * Why no conductor runs the whole depth, if none does: the liner closes the via at its narrowest
+ * (usually the bottom of a tapered hole), so no model of a conductor inside the liner applies.
+ */
+function linerFills(cd: number, bottom: number, liner: number): NoValue | null {
+  const narrowest = Math.min(cd, bottom) / 2;
+  if (narrowest > liner * (1 + 1e-9)) return null;
+  return noValue(`the liner fills the via ${bottom < cd ? 'toward its bottom' : 'at its top'} (its narrowest radius is not more than the liner): no conductor runs the whole depth`);
+}
+
 const viaCapacitance: QuantityDef = {
   name: 'electrical.via_capacitance',
   title: 'Via liner capacitance',
@@ -334,10 +353,10 @@ const viaCapacitance: QuantityDef = {
   variant: (shape) =>
     viaOnly(shape) ??
     variant({
-      inputs: { cd: 'geometry.cd', depth: 'geometry.depth', liner: 'via.liner_thickness', k: 'via.liner_dielectric_constant' },
+      inputs: { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', depth: 'geometry.depth', liner: 'via.liner_thickness', k: 'via.liner_dielectric_constant' },
       symbols: VIA_SYMBOLS,
       formula: 'C = \\frac{2\\pi\\varepsilon_0 k_l L}{\\ln\\frac{\\mathrm{CD}/2}{\\mathrm{CD}/2 - t_l}}',
-      compute: ({ cd, depth, liner, k }) => (cd / 2 > liner ? (2 * Math.PI * EPSILON_0 * k * depth) / Math.log(cd / 2 / (cd / 2 - liner)) : noValue('the liner fills the via')),
+      compute: ({ cd, bottom, depth, liner, k }) => linerFills(cd, bottom, liner) ?? (2 * Math.PI * EPSILON_0 * k * depth) / Math.log(cd / 2 / (cd / 2 - liner)),
     }),
 };
 
@@ -356,10 +375,7 @@ const viaInductance: QuantityDef = {
       inputs: viaInputs,
       symbols: VIA_SYMBOLS,
       formula: 'L_p = \\frac{\\mu_0}{2\\pi}\\left[L\\,\\mathrm{asinh}\\frac{L}{r} - \\sqrt{L^2 + r^2} + r + \\frac{L}{4}\\right],\\;\\; r = \\frac{\\mathrm{CD} + \\mathrm{CD}_b}{4} - t_l',
-      compute: ({ cd, bottom, depth, liner }) => {
-        const r = (cd + bottom) / 4 - liner;
-        return r > 0 ? wireInductance(depth, r) : noValue('the liner fills the via');
-      },
+      compute: ({ cd, bottom, depth, liner }) => linerFills(cd, bottom, liner) ?? wireInductance(depth, (cd + bottom) / 4 - liner),
     }),
 };
 

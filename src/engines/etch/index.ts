@@ -306,7 +306,16 @@ const fittedReaction: QuantityDef = {
       inputs: { rate: 'etch.open_rate', cd: 'geometry.cd', mask: 'etch.mask_thickness', ...calibrationInputs(shape), ...ionInputs(shape) },
       symbols: calibrationSymbols(shape),
       formula: 'S = \\arg\\min_S \\sum_i \\left(\\frac{\\mathrm{ER}_0\\,R(K(\\mathrm{AR}_i), S) - \\mathrm{ER}_i}{\\mathrm{ER}_i}\\right)^2',
-      compute: (a: Record<string, number>) => fitReactionProbability(elongated, a.rate!, calibrationPoints(shape, a), { cd: a.cd!, thickness: a.mask! }, ionOf(a)).s,
+      compute: (a: Record<string, number>) => {
+        const points = calibrationPoints(shape, a);
+        // The model's rate only falls with aspect ratio: a point above the open-field rate, or a fit
+        // that runs to the low edge of its range (no loss at all explains the points best), is a
+        // calibration the model cannot follow, not a reaction probability.
+        if (points.some((p) => p.rate > a.rate!)) return noValue('a calibration rate is above the open-field rate, which the model cannot reach: check the points and etch.open_rate');
+        const s = fitReactionProbability(elongated, a.rate!, points, { cd: a.cd!, thickness: a.mask! }, ionOf(a)).s;
+        if (s < 1.01e-6) return noValue('the fit runs to the low edge of its range (1e-6): the points show less loss with aspect ratio than any reaction probability gives');
+        return s;
+      },
     });
   },
 };
