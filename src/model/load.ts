@@ -61,6 +61,7 @@ class FileReport {
   private readonly said = new Set<string>();
   /** Fields whose value the schema found of the wrong type: nothing further is said about them. */
   readonly mistyped = new Set<string>();
+  private errors = 0;
   constructor(
     readonly src: YamlSource,
     private readonly out: Diagnostic[],
@@ -69,17 +70,20 @@ class FileReport {
     const key = `${code}\u0000${pointer}`;
     if (this.said.has(key)) return;
     this.said.add(key);
-    const { line, column } = positionOf(this.src, pointer, at);
-    this.out.push({ code, file: this.src.file, line, column, field: pointerToField(pointer), ...extra });
+    this.push(code, positionOf(this.src, pointer, at), pointer, extra);
   }
-  /** Any error reported in this file. */
+  /** Any error reported through this report. */
   get failed(): boolean {
-    return this.out.some((d) => d.file === this.src.file && !isWarning(d));
+    return this.errors > 0;
   }
   /** A diagnostic about `fieldPointer`, placed at `placePointer` (for fields not written). */
   addAt(code: DiagnosticCode, placePointer: string, fieldPointer: string, extra: Partial<Diagnostic> = {}): void {
-    const { line, column } = positionOf(this.src, placePointer, 'value');
-    this.out.push({ code, file: this.src.file, line, column, field: pointerToField(fieldPointer), ...extra });
+    this.push(code, positionOf(this.src, placePointer, 'value'), fieldPointer, extra);
+  }
+  private push(code: DiagnosticCode, at: { line: number; column: number }, fieldPointer: string, extra: Partial<Diagnostic>): void {
+    const d: Diagnostic = { code, file: this.src.file, line: at.line, column: at.column, field: pointerToField(fieldPointer), ...extra };
+    if (!isWarning(d)) this.errors++;
+    this.out.push(d);
   }
   pos(pointer: string): SourcePos {
     return { file: this.src.file, ...positionOf(this.src, pointer) };
@@ -136,12 +140,12 @@ function suggest(word: string, options: readonly string[], max = 3): string[] {
 function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt: (pointer: string) => string[]): void {
   const seen = new Set<string>();
   // A value of the wrong type is one problem: its enum, pattern or length are not judged as well
-  // (`orientation: 001` is the number 1, not also an orientation outside the list).
-  const mistyped = new Set(errors.filter((e) => e.keyword === 'type').map((e) => e.instancePath));
+  // (`orientation: 001` is the number 1, not also an orientation outside the list), nor its unit.
+  for (const e of errors) if (e.keyword === 'type') report.mistyped.add(e.instancePath);
   for (const e of errors) {
     const value = valueAt(report.src.value, e.instancePath);
     let key = `${e.keyword}:${e.instancePath}`;
-    if (e.keyword !== 'type' && mistyped.has(e.instancePath)) continue;
+    if (e.keyword !== 'type' && report.mistyped.has(e.instancePath)) continue;
     switch (e.keyword) {
       case 'additionalProperties': {
         const name = (e.params as { additionalProperty: string }).additionalProperty;
@@ -161,14 +165,13 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
         break;
       }
       case 'type':
-        report.mistyped.add(e.instancePath);
         // .inf and .nan are numbers the schema calls no number: where a number belongs, the problem
         // is that the value is not finite (said the same way readValue says it, so said once).
         if (typeof value === 'number' && !Number.isFinite(value) && allowsNumber(e)) {
           report.add('bad-value', e.instancePath, { expected: 'a finite value', found: sourceSpelling(report.src, e.instancePath) ?? String(value) });
           break;
         }
-        report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: typeof value === 'number' && !Number.isFinite(value) ? (sourceSpelling(report.src, e.instancePath) ?? String(value)) : jsonType(value) });
+        report.add('wrong-type', e.instancePath, { expected: describeType((e.params as { type: string | string[] }).type), found: writtenText(report.src, e.instancePath, value, jsonType) });
         break;
       case 'maxLength':
         if (/\/id$|\/tags\/\d+$|\/film$/.test(e.instancePath)) {
@@ -333,9 +336,9 @@ function misnamedTopLevel(source: HandbookSource, out: Diagnostic[]): void {
 }
 
 /** A value quoted back as written: `"32 nm"`, or `.inf` as the file spells it rather than "Infinity". */
-function writtenText(src: YamlSource, pointer: string, raw: unknown): string {
+function writtenText(src: YamlSource, pointer: string, raw: unknown, show: (v: unknown) => string = (v) => `"${String(v)}"`): string {
   if (typeof raw === 'number' && !Number.isFinite(raw)) return sourceSpelling(src, pointer) ?? String(raw);
-  return `"${String(raw)}"`;
+  return show(raw);
 }
 
 /** The characters of a scalar as written in the file (for values whose parsed form reads differently). */
@@ -426,12 +429,13 @@ function loadMaterials(source: HandbookSource, out: Diagnostic[]): MaterialsLoad
   const entries = src.value as unknown[];
   for (const e of entries) if (isMapping(e) && typeof e.id === 'string') written.add(e.id);
   const ids: IdPlace[] = [];
+  const invalid = new Set(errors.map((e) => e.instancePath.split('/')[1]));
   entries.forEach((entry, i) => {
     // Each entry on its own: one bad entry does not take the others with it.
-    if (!isMapping(entry) || errors.some((e) => e.instancePath === `/${i}` || e.instancePath.startsWith(`/${i}/`))) return;
+    if (!isMapping(entry) || invalid.has(String(i))) return;
     const id = String(entry.id);
     ids.push({ id, at: report.pos(`/${i}/id`), field: `[${i}].id` });
-    if (ids.some((x, k) => k < ids.length - 1 && x.id === id)) return; // reported below; the first one stands
+    if (materials.get(id)?.file === src.file) return; // a repeat: reported below; the first one stands
     const base = entry.based_on !== undefined ? materials.get(String(entry.based_on)) : undefined;
     if (entry.based_on !== undefined && !base) {
       report.add('unknown-material', `/${i}/based_on`, { found: String(entry.based_on), suggestions: suggest(String(entry.based_on), [...materials.keys()]) });
@@ -536,8 +540,7 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
   const id = String(raw.id);
   const kindKnown = (KINDS as readonly unknown[]).includes(raw.kind);
   const kind = raw.kind as Kind;
-  const fileName = baseName(src.file);
-  const stem = fileName.slice(0, fileName.length - extName(fileName).length);
+  const stem = stemOf(src.file);
   if (typeof raw.id === 'string' && stem !== id) report.add('bad-value', '/id', { expected: `the file name "${stem}" (a structure's id is its file name)`, found: `"${id}"` });
 
   const params = new Map<string, Param>();
@@ -950,6 +953,13 @@ interface Broken {
   anyMaterial: boolean;
 }
 
+/** What is broken once the materials are read: when materials.yaml has problems, its ids that did
+ * not load are broken for their users. */
+function brokenAfterMaterials(m: MaterialsLoaded, out: Diagnostic[]): Broken {
+  const failed = out.some((d) => d.file === 'materials.yaml' && !isWarning(d));
+  return { structures: new Set(), materials: new Set(failed ? m.written : []), films: new Set(), anyStructure: false, anyMaterial: m.unreadable };
+}
+
 function isConsequence(d: Diagnostic, broken: Broken): boolean {
   const r = d.refersTo;
   if (!r) return false;
@@ -963,10 +973,15 @@ function finish(out: Diagnostic[], broken: Broken): Diagnostic[] {
   return sortDiagnostics(out.filter((d) => !isConsequence(d, broken)));
 }
 
+/** A file's name without its extension: a structure's id. */
+function stemOf(path: string): string {
+  const name = baseName(path);
+  return name.slice(0, name.length - extName(name).length);
+}
+
 /** What a structure file says it defines, read from its raw value even when it fails to load. */
 function writtenDefinitions(raw: unknown, path: string): { id: string; stem: string; films: string[] } {
-  const name = baseName(path);
-  const stem = name.slice(0, name.length - extName(name).length);
+  const stem = stemOf(path);
   if (!isMapping(raw)) return { id: stem, stem, films: [] };
   const films = Array.isArray(raw.deposition) ? raw.deposition.flatMap((s) => (isMapping(s) && typeof s.film === 'string' ? [s.film] : [])) : [];
   return { id: typeof raw.id === 'string' ? raw.id : stem, stem, films };
@@ -987,12 +1002,11 @@ export function loadHandbook(source: HandbookSource): LoadResult {
   }
   misnamedTopLevel(source, out);
   const meta = loadMeta(source, out);
-  const { materials, written: materialIds, unreadable } = loadMaterials(source, out);
-  // When materials.yaml has problems, its ids that did not load are broken for their users.
-  const materialsFailed = out.some((d) => d.file === 'materials.yaml' && !isWarning(d));
+  const read = loadMaterials(source, out);
+  const { materials } = read;
+  const broken = brokenAfterMaterials(read, out);
   // A structures/ that is not a folder may have defined any structure a rule names.
-  const structuresUnreadable = out.some((d) => d.code === 'not-a-folder' && d.file === 'structures');
-  const broken: Broken = { structures: new Set(), materials: new Set(materialsFailed ? materialIds : []), films: new Set(), anyStructure: structuresUnreadable, anyMaterial: unreadable };
+  broken.anyStructure = out.some((d) => d.code === 'not-a-folder' && d.file === 'structures');
   const structures: Structure[] = [];
   const structureIds: IdPlace[] = [];
   const allFilms = new Set<string>();
@@ -1058,10 +1072,10 @@ export function loadHandbook(source: HandbookSource): LoadResult {
 /** Load one structure file on its own (for `eval FILE`), with the materials of `materialsFrom`. */
 export function loadStructure(source: HandbookSource, path: string, materialsFrom: HandbookSource): { ok: true; structure: Structure; warnings: Diagnostic[] } | { ok: false; diagnostics: Diagnostic[] } {
   const out: Diagnostic[] = [];
-  const { materials, written, unreadable } = loadMaterials(materialsFrom, out);
+  const read = loadMaterials(materialsFrom, out);
+  const broken = brokenAfterMaterials(read, out);
   const loaded = readAndParse(source, path, out);
-  const s = loaded ? structureFromFile(loaded, materials) : null;
-  const broken: Broken = { structures: new Set(), materials: new Set(out.length ? written : []), films: new Set(), anyStructure: false, anyMaterial: unreadable };
+  const s = loaded ? structureFromFile(loaded, read.materials) : null;
   const diagnostics = finish(out, broken);
   if (diagnostics.some((d) => !isWarning(d)) || !s) return { ok: false, diagnostics };
   return { ok: true, structure: s, warnings: diagnostics };

@@ -1,6 +1,7 @@
 // Where a handbook's files come from. The loader reads only through this interface, so it knows
 // nothing of the file system (the same loader runs over a folder, a git revision or files held in
 // memory). Paths are relative to the handbook, '/'-separated, and never leave it.
+import { lineStartsOf, offsetToLineColumn } from './yaml-source.ts';
 
 /** The handbook's own files and folders at its root: what loading reads and serve watches, and
  * what no report may be written into. */
@@ -78,10 +79,10 @@ export function decodeUtf8(bytes: Uint8Array): Decoded {
     return { ok: true, text: new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(body) };
   } catch {
     const bad = firstInvalidUtf8(body);
+    // Placed as every other position is: YAML's line breaks, UTF-16 columns.
     const before = new TextDecoder('utf-8').decode(body.subarray(0, bad));
-    // Lines break as YAML breaks them (LF, CRLF, lone CR), as positions elsewhere count them.
-    const lines = before.split(/\r\n|\r|\n/);
-    return { ok: false, line: lines.length, column: lines[lines.length - 1]!.length + 1, found: `byte 0x${(body[bad] ?? 0).toString(16).toUpperCase().padStart(2, '0')}` };
+    const { line, column } = offsetToLineColumn(lineStartsOf(before), before.length);
+    return { ok: false, line, column, found: `byte 0x${(body[bad] ?? 0).toString(16).toUpperCase().padStart(2, '0')}` };
   }
 }
 

@@ -133,17 +133,8 @@ function parseNumberWithUnit(text: string, siUnit: string): number | UnitProblem
 function parseDifference(text: string, siUnit: string): number | UnitProblem {
   const v = parseNumberWithUnit(text, siUnit);
   if (typeof v !== 'number') return v;
-  const unitText = unitOf(text);
-  if (!unitText) return v;
-  ensureExtraUnits();
-  let u: Unit;
-  try {
-    u = mathUnit(`1 ${unitText.replace(/[µμ]/g, 'u')}`);
-  } catch {
-    return v;
-  }
-  if (!hasOffset(u)) return v;
-  const zero = mathUnit(`0 ${unitText}`).toSI().toNumeric();
+  if (!offsetScale(text)) return v;
+  const zero = mathUnit(`0 ${unitOf(text)}`).toSI().toNumeric();
   return clean(v - Number(zero));
 }
 

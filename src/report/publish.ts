@@ -83,6 +83,22 @@ function foreignEntries(dir: string, m: Extract<Marked, { state: 'complete' }>):
   return entriesOf(dir).filter((e) => !m.files.has(e));
 }
 
+/** A folder plumbline may replace or delete: empty, or a complete report holding only its listed files. */
+function holdsOnlyOurs(dir: string, m: Marked = readMarker(dir)): boolean {
+  return m.state === 'complete' ? foreignEntries(dir, m).length === 0 : readdirSync(dir).length === 0;
+}
+
+// The names this module gives beside an output folder `<base>`: its lock and its builds' folders.
+const lockName = (base: string) => `.${base}-lock`;
+const buildName = (base: string, kind: 'building' | 'previous', token: string) => `.${base}-${kind}-${token}`;
+const SIBLING = /^\.(.+)-(?:(building|previous)-[0-9a-f]+-[0-9a-f]+|lock)$/;
+
+/** What a name beside an output folder is, if it is one this module gives: whose, and which. */
+function siblingName(name: string): { base: string; kind: 'building' | 'previous' | 'lock' } | null {
+  const m = SIBLING.exec(name);
+  return m ? { base: m[1]!, kind: (m[2] as 'building' | 'previous' | undefined) ?? 'lock' } : null;
+}
+
 /** Real path of a path that may not exist yet: the nearest existing ancestor, resolved, plus the rest. */
 export function realish(p: string): string {
   const rest: string[] = [];
@@ -115,9 +131,7 @@ export function guardOutput(out: string, root: string): void {
     if (isInside(at, realOut) || isInside(realish(at), realOut)) throw new Refusal('output-inside-inputs', { path: absOut, input });
   }
   // A name of the kind this module gives a sibling's leftovers or lock would be removed as one.
-  if (/^\..+-(building|previous)-[0-9a-f]+-[0-9a-f]+$/.test(basename(absOut)) || /^\..+-lock$/.test(basename(absOut))) {
-    throw new Refusal('output-name-reserved', { path: absOut });
-  }
+  if (siblingName(basename(absOut))) throw new Refusal('output-name-reserved', { path: absOut });
   // Every existing ancestor must be a folder (`--out notes.txt/site` cannot be made).
   for (let up = dirname(absOut); ; up = dirname(up)) {
     try {
@@ -259,7 +273,7 @@ export interface LockOptions {
 /** The lock file of an output folder: beside it, named from its real path. */
 export function lockPathOf(out: string): string {
   const real = realish(out);
-  return join(dirname(real), `.${basename(real)}-lock`);
+  return join(dirname(real), lockName(basename(real)));
 }
 
 /** Take the lock of an output folder; resolves to a release function. */
@@ -367,14 +381,13 @@ function leftovers(out: string): Leftover[] {
   } catch {
     return [];
   }
-  const pattern = new RegExp(`^\\.${name.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}-(building|previous)-[0-9a-f]+-[0-9a-f]+$`);
   return entries.flatMap((e) => {
-    const m = pattern.exec(e);
-    if (!m) return [];
+    const sib = siblingName(e);
+    if (!sib || sib.base !== name || sib.kind === 'lock') return [];
     const path = join(parent, e);
     try {
       if (!lstatSync(path).isDirectory()) return [];
-      return [{ path, kind: m[1] as Leftover['kind'], marked: readMarker(path), empty: readdirSync(path).length === 0 }];
+      return [{ path, kind: sib.kind, marked: readMarker(path), empty: readdirSync(path).length === 0 }];
     } catch {
       return [];
     }
@@ -393,8 +406,7 @@ function removeReport(dir: string): void {
 
 /** A leftover is ours to delete: marked as a build in progress, or a complete report holding only its files. */
 function isOurs(f: Leftover): boolean {
-  if (f.marked.state === 'building') return true;
-  return f.marked.state === 'complete' && foreignEntries(f.path, f.marked).length === 0;
+  return f.marked.state === 'building' || (f.marked.state === 'complete' && holdsOnlyOurs(f.path, f.marked));
 }
 
 /** Put back a folder that an interrupted swap left missing, and clear what earlier builds left. */
@@ -481,8 +493,8 @@ export async function publish(out: string, root: string, render: (dir: string) =
     const recovered = recoverOutput(target);
     guardOutput(target, root); // the folder may have changed while we waited
     const token = `${process.pid.toString(16)}-${randomBytes(4).toString('hex')}`;
-    const building = join(dirname(target), `.${basename(target)}-building-${token}`);
-    const previous = join(dirname(target), `.${basename(target)}-previous-${token}`);
+    const building = join(dirname(target), buildName(basename(target), 'building', token));
+    const previous = join(dirname(target), buildName(basename(target), 'previous', token));
     mkdirSync(building);
     writeFileSync(join(building, MARKER), `${JSON.stringify({ generator: 'plumbline', format: FORMAT, state: 'building', build: token } satisfies MarkerData)}\n`);
     try {
@@ -512,9 +524,7 @@ export async function publish(out: string, root: string, render: (dir: string) =
         throw err;
       }
       // Between the last check and the rename something may have been put there: keep it.
-      const moved = readMarker(previous);
-      const ours = moved.state === 'complete' ? foreignEntries(previous, moved).length === 0 : readdirSync(previous).length === 0;
-      if (!ours) {
+      if (!holdsOnlyOurs(previous)) {
         renameSync(previous, target);
         removeReport(building);
         throw new Refusal('output-changed', { path: target });
