@@ -6,7 +6,23 @@ import { QUANTITIES } from '../engines/index.ts';
 import type { Figure } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
 
-export type Status = 'pass' | 'fail' | 'incomplete' | 'not-applicable';
+/** `waived`: a failure an unexpired waiver of the handbook excuses (see `Verdict.waiver`). */
+export type Status = 'pass' | 'fail' | 'waived' | 'incomplete' | 'not-applicable';
+
+/** The waiver a `waived` verdict stands on (or, on a `fail`, the one that no longer holds). */
+export interface WaiverRef {
+  id: string;
+  reason: string;
+  owner: string;
+  approvedBy: string;
+  /** Last day the waiver holds, `YYYY-MM-DD` (a calendar date, read as UTC). */
+  expires: string;
+  file: string;
+  line: number;
+  column: number;
+  /** Why it does not waive this failure (expired, or the value is beyond the limit it must still meet). */
+  lapsed?: 'expired' | 'beyond-floor';
+}
 
 /** One input as it entered the evaluation. */
 export interface TraceInput {
@@ -74,6 +90,8 @@ export interface Verdict {
   corners?: number;
   worstCorner?: CornerNote[];
   missing?: string[];
+  /** For `waived`: the waiver. For a `fail` whose waiver lapsed: that waiver, with `lapsed`. */
+  waiver?: WaiverRef;
   trace?: Trace;
 }
 

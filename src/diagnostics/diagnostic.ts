@@ -41,6 +41,8 @@ export function isWarning(d: Diagnostic): boolean {
 
 export interface Diagnostic {
   code: DiagnosticCode;
+  /** The git revision the file was read from (a short commit), absent for the working tree. */
+  revision?: string;
   file: string;
   line: number;
   column: number;

@@ -10,6 +10,7 @@ export const CAUTION =
 export const STATUS_WORDS: Record<Status, string> = {
   pass: 'pass',
   fail: 'fail',
+  waived: 'waived',
   incomplete: 'incomplete',
   'not-applicable': 'not applicable',
 };
