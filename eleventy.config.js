@@ -41,6 +41,11 @@ export function relativeHref(from, to) {
 
 export default function (eleventyConfig) {
   eleventyConfig.setQuietMode(true);
+  // Installed in a team's project, the templates live under node_modules/plumbline/: Eleventy
+  // ignores node_modules by default, and also what the .gitignore of the folder it runs in lists
+  // (a team's lists node_modules/). Either left the report with no page at all.
+  eleventyConfig.ignores.delete('**/node_modules/**');
+  eleventyConfig.setUseGitIgnore(false);
   memoizeNunjucksCompilation();
   eleventyConfig.addFilter('rel', function (url) {
     return relativeHref(this.page?.url ?? '/', url);

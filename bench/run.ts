@@ -7,6 +7,10 @@ import { performance } from 'node:perf_hooks';
 import { evaluateHandbook } from '../src/checker/evaluate.ts';
 import { loadHandbookFolder } from '../src/model/folder-source.ts';
 import { buildSite } from '../src/report/site.ts';
+import { execFileSync } from 'node:child_process';
+import { GitRepo } from '../src/history/git.ts';
+import { HistoryCache } from '../src/history/cache.ts';
+import { walkHistory } from '../src/history/history.ts';
 
 const KINDS = [
   { kind: 'hole', extent: 'depth', extra: 'array: hexagonal' },
@@ -99,25 +103,78 @@ const loaded = loadHandbookFolder(big);
 if (!loaded.ok) throw new Error(JSON.stringify(loaded.diagnostics.slice(0, 3)));
 const mid = process.env.BENCH_SITE === "0" ? "" : writeHandbook(200, 100);
 
+/**
+ * A repository of `commits` commits over a handbook of 20 trenches and 5 rules, each commit moving
+ * one trench's depth (written with `git fast-import`, git's own bulk writer, in well under a second).
+ */
+function writeHistoryRepo(commits: number): string {
+  const root = mkdtempSync(join(tmpdir(), 'plumbline-bench-history-'));
+  execFileSync('git', ['init', '-q', '-b', 'main', root]);
+  const rules = ['geometry.aspect_ratio at_most 12', 'geometry.space at_least 20 nm', 'geometry.bottom_cd at_least 5 nm', 'geometry.open_area_fraction at_least 0.2', 'geometry.bottom_to_top_ratio at_least 0.5']
+    .map((r, i) => {
+      const [q, cmp, ...lim] = r.split(' ');
+      return `- id: B-${i}\n  title: Rule ${i}\n  applies_to: {}\n  quantity: ${q}\n  ${cmp}: ${lim.join(' ')}\n  evaluate_at: worst-case\n`;
+    })
+    .join('');
+  const file = (path: string, text: string) => `M 100644 inline ${path}\ndata ${Buffer.byteLength(text)}\n${text}\n`;
+  const trench = (i: number, depth: number) => `id: t-${i}\ntitle: Trench ${i}\nkind: trench\ngeometry:\n  cd: ${25 + (i % 5)} nm ± 1 nm\n  depth: ${depth} nm ± 5 nm\n  pitch: 60 nm\n  sidewall_angle: 89.6 deg ± 0.1 deg\n  length: 10 um\n`;
+  let stream = '';
+  for (let c = 0; c < commits; c++) {
+    const when = 1767261600 + c * 3600;
+    const msg = `commit ${c}`;
+    stream += `commit refs/heads/main\ncommitter Bench Writer <bench@example.test> ${when} +0000\ndata ${msg.length}\n${msg}\n`;
+    if (c === 0) {
+      stream += file('handbook.yaml', 'title: History benchmark\n') + file('rules/rules.yaml', rules);
+      for (let i = 0; i < 20; i++) stream += file(`structures/t-${i}.yaml`, trench(i, 200));
+    } else stream += file(`structures/t-${c % 20}.yaml`, trench(c % 20, 200 + ((c * 7) % 150)));
+    stream += '\n';
+  }
+  execFileSync('git', ['fast-import', '--quiet'], { cwd: root, input: stream });
+  execFileSync('git', ['checkout', '-q', 'main'], { cwd: root });
+  return root;
+}
+
+const historyRepo = writeHistoryRepo(500);
+const historyCache = new HistoryCache();
+
+/** Waivers are judged on a fixed day, so every run times the same work. */
+const ON = { on: '2026-12-02' };
+
 const cases: Case[] = [
   { name: 'load and validate 1,000 structure files and 100 rules', targetMs: 3000, run: () => void loadHandbookFolder(big) },
   {
     name: 'evaluate 100,000 verdicts with tolerance corners',
     targetMs: 1000,
     run: () => {
-      const r = evaluateHandbook(loaded.handbook);
+      const r = evaluateHandbook(loaded.handbook, ON);
       if (r.verdicts.length !== 100_000) throw new Error('wrong verdict count');
     },
   },
   {
     name: 'evaluate 600 etch verdicts (time, depth in budget, lag; 8 corners each)',
     targetMs: 3000,
-    run: () => void evaluateHandbook(etch.handbook),
+    run: () => void evaluateHandbook(etch.handbook, ON),
   },
   {
     name: 'evaluate 200 collapse verdicts (finite-element body, 16 corners each)',
     targetMs: 5000,
-    run: () => void evaluateHandbook(collapse.handbook),
+    run: () => void evaluateHandbook(collapse.handbook, ON),
+  },
+  {
+    name: 'history over 500 commits, cold (every revision loaded, new pairs evaluated)',
+    targetMs: 30_000,
+    run: () => {
+      const h = walkHistory(GitRepo.at(historyRepo), historyCache, { today: '2026-12-02' });
+      if (h.revisions.length !== 500) throw new Error(`expected 500 revisions, got ${h.revisions.length}`);
+    },
+  },
+  {
+    name: 'history over 500 commits, warm (nothing loaded or evaluated again)',
+    targetMs: 2000,
+    run: () => {
+      const h = walkHistory(GitRepo.at(historyRepo), historyCache, { today: '2026-12-02' });
+      if (h.stats.loaded !== 0 || h.stats.evaluated !== 0) throw new Error('the warm run evaluated again');
+    },
   },
   ...(mid === '' ? [] : [{
     name: 'build the site for 200 structures × 100 rules (matrix of 20,000 cells)',
@@ -125,7 +182,7 @@ const cases: Case[] = [
     run: async () => {
       const h = loadHandbookFolder(mid);
       if (!h.ok) throw new Error('bench handbook invalid');
-      await buildSite(h.handbook, evaluateHandbook(h.handbook), join(mid, 'site'));
+      await buildSite(h.handbook, evaluateHandbook(h.handbook, ON), join(mid, 'site'));
     },
   }]),
 ];

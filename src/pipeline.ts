@@ -17,7 +17,7 @@
 //     ▼
 //   site/
 import { loadHandbook, type LoadResult } from './model/load.ts';
-import { evaluateHandbook, type Results } from './checker/evaluate.ts';
+import { evaluateHandbook, type EvaluateOptions, type Results } from './checker/evaluate.ts';
 import type { Diagnostic } from './diagnostics/diagnostic.ts';
 import type { Handbook } from './model/types.ts';
 import type { HandbookSource } from './model/source.ts';
@@ -28,20 +28,14 @@ export type CheckOutcome =
   | { ok: false; diagnostics: Diagnostic[] }
   | { ok: true; handbook: Handbook; results: Results };
 
-/** Load and evaluate: everything `check` needs. The source says where the files come from. */
-export function checkHandbook(source: HandbookSource): CheckOutcome {
+/**
+ * Load and evaluate: everything `check` needs. The source says where the files come from; `on`
+ * is the day waivers are judged at (YYYY-MM-DD, UTC): the caller reads the clock, not the checker.
+ */
+export function checkHandbook(source: HandbookSource, options: EvaluateOptions): CheckOutcome {
   const loaded: LoadResult = loadHandbook(source);
   if (!loaded.ok) return loaded;
-  return { ok: true, handbook: loaded.handbook, results: evaluateHandbook(loaded.handbook) };
+  return { ok: true, handbook: loaded.handbook, results: evaluateHandbook(loaded.handbook, options) };
 }
 
-/**
- * Exit codes: 0 clean, 1 a blocking rule fails, 2 the handbook cannot be loaded or the command was
- * refused (an output folder plumbline does not own, a busy port), 3 our own bug.
- */
-export function exitCodeFor(outcome: CheckOutcome | { bug: true } | { refused: true }): 0 | 1 | 2 | 3 {
-  if ('bug' in outcome) return 3;
-  if ('refused' in outcome) return 2;
-  if (!outcome.ok) return 2;
-  return outcome.results.blockingFailures > 0 ? 1 : 0;
-}
+export { exitCodeFor } from './exit-codes.ts';

@@ -1,7 +1,8 @@
 // The checker: every rule against every structure it applies to. Evaluates the rule's quantity at
 // nominal or over the tolerance corners, compares it with the limit, and keeps the derivation.
 // Pure: the same handbook gives the same results, in the same order.
-import type { Param, Rule, Structure, Handbook, Comparison } from '../model/types.ts';
+import type { Param, Rule, Structure, Handbook, Comparison, Selector, Waiver } from '../model/types.ts';
+import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
@@ -20,8 +21,29 @@ export interface WaiverRef {
   file: string;
   line: number;
   column: number;
+  /** The limit the waived value must still meet, in the verdict's SI unit (the rule's comparison). */
+  stillWithin?: { comparison: Comparison; limit: number };
   /** Why it does not waive this failure (expired, or the value is beyond the limit it must still meet). */
-  lapsed?: 'expired' | 'beyond-floor';
+  lapsed?: Lapse;
+}
+
+export type Lapse = 'expired' | 'beyond-floor';
+
+/** What became of one waiver on the evaluation date. */
+export interface WaiverUse {
+  id: string;
+  rule: string;
+  expires: string;
+  /** The evaluation date is after `expires`. */
+  expired: boolean;
+  /** Structures whose failure of `rule` it waives. */
+  waives: string[];
+  /** Failures it selects but no longer excuses, and no other waiver does: they count again. */
+  lapsed: Array<{ structure: string; lapsed: Lapse }>;
+  /** It selects no failing verdict (left over after a fix, or a selector that misses). */
+  unused: boolean;
+  /** `expired` when past its date; otherwise `unused` when it selects no failure; else `active`. */
+  state: 'active' | 'expired' | 'unused';
 }
 
 /** One input as it entered the evaluation. */
@@ -98,11 +120,17 @@ export interface Verdict {
 export interface Results {
   verdicts: Verdict[];
   counts: Record<Status, number>;
+  /** Blocking rules that fail (a waived verdict is not a failure; a lapsed waiver's is). */
   blockingFailures: number;
+  /** The date waivers were judged on, `YYYY-MM-DD`. */
+  on: string;
+  /** Every waiver of the handbook, by id, with what it did on that date. */
+  waivers: WaiverUse[];
 }
 
-export function appliesTo(rule: Rule, s: Structure): boolean {
-  const a = rule.appliesTo;
+/** Whether a rule, or a waiver, selects a structure. */
+export function appliesTo(item: { appliesTo: Selector }, s: Structure): boolean {
+  const a = item.appliesTo;
   if (a.kinds && !a.kinds.includes(s.kind)) return false;
   if (a.tags && !a.tags.some((t) => s.tags.includes(t))) return false;
   if (a.structures && !a.structures.includes(s.id)) return false;
@@ -322,23 +350,104 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     evaluateAt: rule.evaluateAt,
     corners: e.corners,
     worstCorner: worstCase ? e.worstCorner : undefined,
+    waiver: undefined,
     trace: e.trace,
   };
 }
 
-const STATUS_ORDER: Status[] = ['fail', 'incomplete', 'pass', 'not-applicable'];
+const STATUS_ORDER: Status[] = ['fail', 'waived', 'incomplete', 'pass', 'not-applicable'];
 
-export function evaluateHandbook(h: Handbook): Results {
+export interface EvaluateOptions {
+  /** The evaluation date, `YYYY-MM-DD` (UTC): a waiver holds on and before its `expires`. The
+   * checker reads no clock; the command says which day it is. */
+  on: string;
+}
+
+/** Every rule on every structure, then the handbook's waivers on the failures, as of `options.on`. */
+export function evaluateHandbook(h: Handbook, options: EvaluateOptions): Results {
   const plans = new PlanCache();
-  const verdicts: Verdict[] = [];
-  for (const rule of h.rules) for (const s of h.structures) verdicts.push(evaluateRule(rule, s, plans));
+  const evaluated: Verdict[] = [];
+  for (const rule of h.rules) for (const s of h.structures) evaluated.push(evaluateRule(rule, s, plans));
+  const { verdicts, waivers } = applyWaivers(evaluated, h, options.on);
   const counts = Object.fromEntries(STATUS_ORDER.map((k) => [k, 0])) as Record<Status, number>;
   let blockingFailures = 0;
   for (const v of verdicts) {
     counts[v.status]++;
     if (v.status === 'fail' && v.severity === 'blocking') blockingFailures++;
   }
-  return { verdicts, counts, blockingFailures };
+  return { verdicts, counts, blockingFailures, on: options.on, waivers };
+}
+
+/** Why a waiver does not excuse a failure on `on`, or undefined when it does (history re-judges
+ * cached verdicts with this too, so there is one rule for expiry and floors). */
+export function lapseOf(w: Pick<Waiver, 'expires' | 'stillWithin'>, v: Pick<Verdict, 'value' | 'unbounded'>, on: string): Lapse | undefined {
+  // Dates in one fixed form compare as text; `expires` is the last day the waiver holds.
+  if (on > w.expires) return 'expired';
+  const floor = w.stillWithin;
+  if (floor) {
+    // An unbounded value compares as ±∞; a failure with no value at all cannot be shown to be
+    // within the floor, so it is beyond it.
+    const value = v.value ?? (v.unbounded === 'above' ? Infinity : v.unbounded === 'below' ? -Infinity : NaN);
+    const slack = 1e-12 * Math.abs(floor.limit);
+    const within = floor.comparison === 'at_least' ? value >= floor.limit - slack : value <= floor.limit + slack;
+    if (!within) return 'beyond-floor';
+  }
+  return undefined;
+}
+
+function waiverRef(w: Waiver, lapsed?: Lapse): WaiverRef {
+  return {
+    id: w.id,
+    reason: w.reason,
+    owner: w.owner,
+    approvedBy: w.approvedBy,
+    expires: w.expires,
+    file: w.pos.file,
+    line: w.pos.line,
+    column: w.pos.column,
+    ...(w.stillWithin ? { stillWithin: { comparison: w.stillWithin.comparison, limit: w.stillWithin.limit } } : {}),
+    ...(lapsed ? { lapsed } : {}),
+  };
+}
+
+/**
+ * The handbook's waivers applied to evaluated verdicts, as of `on` (`YYYY-MM-DD`). Only a `fail`
+ * changes: to `waived` when a waiver selecting its rule and structure holds (on or before its
+ * expiry, the value within its still_within); otherwise it stays `fail` and names the waiver that
+ * lapsed. Of several waivers for one failure the first by id that holds is used. Pure: the
+ * verdicts given are not changed.
+ */
+export function applyWaivers(verdicts: Verdict[], h: Pick<Handbook, 'waivers' | 'structures'>, on: string): { verdicts: Verdict[]; waivers: WaiverUse[] } {
+  if (!isCalendarDate(on)) throw new Error(`evaluation date ${JSON.stringify(on)} is not a calendar date YYYY-MM-DD (the caller must check it)`);
+  const structureById = new Map(h.structures.map((s) => [s.id, s]));
+  const waivers = [...h.waivers].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  const uses = new Map<string, WaiverUse & { selects: number }>(
+    waivers.map((w) => [w.id, { id: w.id, rule: w.rule, expires: w.expires, expired: on > w.expires, waives: [], lapsed: [], unused: true, state: 'active', selects: 0 }]),
+  );
+  const out = verdicts.map((v): Verdict => {
+    if (v.status !== 'fail') return v;
+    const s = structureById.get(v.structure);
+    const candidates = s ? waivers.filter((w) => w.rule === v.rule && appliesTo(w, s)) : [];
+    let firstLapse: { w: Waiver; lapse: Lapse } | undefined;
+    for (const w of candidates) {
+      uses.get(w.id)!.selects++;
+      const lapse = lapseOf(w, v, on);
+      if (lapse === undefined) {
+        uses.get(w.id)!.waives.push(v.structure);
+        return { ...v, status: 'waived', waiver: waiverRef(w) };
+      }
+      firstLapse ??= { w, lapse };
+    }
+    if (!firstLapse) return v;
+    // No waiver holds: the failure counts, and says which waiver no longer excuses it.
+    uses.get(firstLapse.w.id)!.lapsed.push({ structure: v.structure, lapsed: firstLapse.lapse });
+    return { ...v, waiver: waiverRef(firstLapse.w, firstLapse.lapse) };
+  });
+  const list = [...uses.values()].map(({ selects, ...u }): WaiverUse => {
+    const unused = selects === 0;
+    return { ...u, unused, state: u.expired ? 'expired' : unused ? 'unused' : 'active' };
+  });
+  return { verdicts: out, waivers: list };
 }
 
 export interface StructureQuantity {

@@ -3,15 +3,22 @@
 import { resolve } from 'node:path';
 import process from 'node:process';
 import { Command, InvalidArgumentError, Option } from 'commander';
-import { evaluateRule, evaluateStructure, PlanCache } from '../checker/evaluate.ts';
 import type { Diagnostic } from '../diagnostics/diagnostic.ts';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
-import { FolderSource, SingleFileSource } from '../model/folder-source.ts';
-import { loadHandbook, loadStructure } from '../model/load.ts';
 import type { Structure } from '../model/types.ts';
-import { checkHandbook, exitCodeFor } from '../pipeline.ts';
 import { Refusal } from '../diagnostics/refusal.ts';
-import { renderCheckSummary, renderExplain, renderStructureQuantities } from './text.ts';
+import { exitCodeFor } from '../exit-codes.ts';
+import { TOOL_VERSION } from './version.ts';
+import { isCalendarDate, utcDateOf } from '../model/calendar.ts';
+
+/**
+ * The loader, the checker and the engines (mathjs among them): loaded by the commands that use
+ * them, so `--version`, `--help` and `init` start without them.
+ */
+async function core() {
+  const [evaluate, load, folder, pipeline, text] = await Promise.all([import('../checker/evaluate.ts'), import('../model/load.ts'), import('../model/folder-source.ts'), import('../pipeline.ts'), import('./text.ts')]);
+  return { ...evaluate, ...load, ...folder, ...pipeline, ...text };
+}
 
 interface Io {
   out: (s: string) => void;
@@ -20,6 +27,24 @@ interface Io {
 
 function rootOf(cmd: Command): string {
   return resolve(String(cmd.optsWithGlobals().root ?? '.'));
+}
+
+/** A calendar day, YYYY-MM-DD, that exists (2026-02-30 does not). */
+export function parseDay(text: string): string {
+  if (!isCalendarDate(text.trim())) throw new InvalidArgumentError('expected a date YYYY-MM-DD that exists, such as 2026-12-02');
+  return text.trim();
+}
+
+/** Percentage points: a number ≥ 0. */
+export function parsePoints(text: string): number {
+  const n = Number(text);
+  if (text.trim() === '' || !Number.isFinite(n) || n < 0) throw new InvalidArgumentError('expected percentage points, a number of at least 0 (5 means five points of margin)');
+  return n;
+}
+
+/** Today in UTC: the day waivers are judged on unless --on names another. */
+function todayUtc(): string {
+  return utcDateOf(new Date());
 }
 
 /** Ports: a whole number 0–65535 (0 asks the system for a free one). */
@@ -37,6 +62,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
   const program = new Command('plumbline')
     .description('Check a design-rule handbook of high-aspect-ratio structures and publish it as a report.')
     .addOption(new Option('--root <dir>', 'handbook folder (with structures/ and rules/)').default('.'))
+    .version(TOOL_VERSION, '--version', 'print the version of plumbline')
     .configureOutput({ writeOut: (s) => io.out(s.replace(/\n$/, '')), writeErr: (s) => io.err(s.replace(/\n$/, '')) })
     .exitOverride()
     .showHelpAfterError();
@@ -45,16 +71,69 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .command('check')
     .description('evaluate every rule on every structure; exit 0 when no blocking rule fails, 1 when one does, 2 when the handbook cannot be loaded')
     .option('--json', 'print the verdicts as JSON (SI values)')
-    .action((opts: { json?: boolean }, cmd: Command) => {
-      const outcome = checkHandbook(new FolderSource(rootOf(cmd)));
-      if (!outcome.ok) io.err(formatDiagnostics(outcome.diagnostics));
-      else {
-        const { handbook, results } = outcome;
-        printWarnings(io, handbook.warnings);
-        if (opts.json) io.out(JSON.stringify({ handbook: handbook.meta.title, counts: results.counts, blocking_failures: results.blockingFailures, warnings: handbook.warnings, verdicts: results.verdicts }, null, 2));
-        else io.out(renderCheckSummary(handbook, results));
+    .option('--ledger', `write the verdict ledger (${'verdicts.ledger'}) beside the handbook's YAML, to commit with it`)
+    .option('--verify', 'with --ledger: write nothing; exit 1 and print the lines that differ when the committed ledger is stale')
+    .option('--sarif <file>', 'also write the failing, waived and incomplete verdicts as a SARIF 2.1.0 log')
+    .option('--baseline <rev>', 'with --sarif: mark each result new, unchanged, updated or absent against this revision')
+    .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
+    .action(async (opts: { json?: boolean; ledger?: boolean; verify?: boolean; sarif?: string; baseline?: string; on?: string }, cmd: Command) => {
+      if (opts.verify && !opts.ledger) throw new InvalidArgumentError('--verify checks the ledger: give it with --ledger');
+      if (opts.baseline !== undefined && opts.sarif === undefined) throw new InvalidArgumentError('--baseline marks the results of a SARIF log: give it with --sarif FILE');
+      const root = rootOf(cmd);
+      const on = opts.on ?? todayUtc();
+      const { checkHandbook, FolderSource, renderCheckSummary } = await core();
+      const outcome = checkHandbook(new FolderSource(root), { on });
+      if (!outcome.ok) {
+        io.err(formatDiagnostics(outcome.diagnostics));
+        return setExit(exitCodeFor(outcome));
       }
+      const { handbook, results } = outcome;
+      printWarnings(io, handbook.warnings);
+      if (opts.sarif !== undefined) {
+        const { runSarif } = await import('./git-commands.ts');
+        await runSarif(root, handbook, results, resolve(opts.sarif), opts.baseline, on, io);
+      }
+      if (opts.ledger) {
+        const { runLedger } = await import('./git-commands.ts');
+        // --verify answers one question (is the committed ledger current?); writing it reports as check does.
+        const code = runLedger(root, handbook, on, opts.verify === true, io);
+        return setExit(opts.verify ? code : exitCodeFor(outcome));
+      }
+      if (opts.json) io.out(JSON.stringify({ handbook: handbook.meta.title, on: results.on, counts: results.counts, blocking_failures: results.blockingFailures, warnings: handbook.warnings, waivers: results.waivers, verdicts: results.verdicts }, null, 2));
+      else io.out(renderCheckSummary(handbook, results));
       setExit(exitCodeFor(outcome));
+    });
+
+  program
+    .command('history')
+    .description("every verdict transition in the handbook's git history, with its commit and the input changes behind it")
+    .argument('[subject]', 'only the transitions of this rule or structure id')
+    .option('--since <rev>', 'only commits after this one')
+    .option('--first-parent', 'walk only the main line (a merge stands for its whole branch)')
+    .option('--moved <points>', 'list a verdict whose margin moved by at least this many percentage points', parsePoints, 10)
+    .option('--on <date>', 'judge waiver expiry on this day (YYYY-MM-DD, UTC); default today', parseDay)
+    .option('--json', 'print the revisions, transitions, ledger disagreements and waiver events as JSON')
+    .action(async (subject: string | undefined, opts: { since?: string; firstParent?: boolean; moved: number; on?: string; json?: boolean }, cmd: Command) => {
+      const { runHistory } = await import('./git-commands.ts');
+      setExit(await runHistory(rootOf(cmd), subject, { since: opts.since, firstParent: opts.firstParent, moved: opts.moved / 100, on: opts.on ?? todayUtc(), json: opts.json }, io));
+    });
+
+  program
+    .command('diff')
+    .description('the verdicts a change moves, as Markdown for a change request; exit 1 when it introduces a blocking failure')
+    .argument('<base>', 'the revision the change starts from (a branch, tag or commit)')
+    .argument('[head]', 'the revision of the change; default: the working tree')
+    .option('--moved <points>', 'list a verdict whose margin moved by at least this many percentage points', parsePoints, 1)
+    .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
+    .option('--json', 'print the transitions as JSON')
+    .action(async (base: string, head: string | undefined, opts: { moved: number; on?: string; json?: boolean }, cmd: Command) => {
+      const root = rootOf(cmd);
+      const { runDiff } = await import('./git-commands.ts');
+      // Links come from the handbook the change leads to (the working tree, or HEAD's own when given).
+      const { loadHandbook, FolderSource } = await core();
+      const meta = loadHandbook(new FolderSource(root));
+      const links = meta.ok ? (meta.handbook.meta.links ?? {}) : {};
+      setExit(runDiff(root, base, head, links, { moved: opts.moved / 100, on: opts.on ?? todayUtc(), json: opts.json }, io));
     });
 
   program
@@ -62,8 +141,9 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .description('every quantity the engines can compute for one structure (a file, or an id in the handbook)')
     .argument('<structure>', 'path to a structure YAML file, or a structure id')
     .option('--json', 'print { id, kind, quantities } with SI values')
-    .action((target: string, opts: { json?: boolean }, cmd: Command) => {
+    .action(async (target: string, opts: { json?: boolean }, cmd: Command) => {
       const root = rootOf(cmd);
+      const { SingleFileSource, FolderSource, loadStructure, loadHandbook, evaluateStructure, renderStructureQuantities } = await core();
       let structure: Structure | undefined;
       if (/\.ya?ml$/i.test(target)) {
         // A file named on the command line: that one regular file, under the loader's size limit.
@@ -99,7 +179,9 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .description('the derivation of one verdict: inputs, formulas, intermediate values, worst corner, sources')
     .argument('<rule>', 'rule id')
     .argument('<structure>', 'structure id')
-    .action((ruleId: string, structureId: string, _opts: unknown, cmd: Command) => {
+    .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
+    .action(async (ruleId: string, structureId: string, opts: { on?: string }, cmd: Command) => {
+      const { loadHandbook, FolderSource, renderExplain, evaluateRule, applyWaivers, PlanCache } = await core();
       const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
       if (!loaded.ok) {
         io.err(formatDiagnostics(loaded.diagnostics));
@@ -112,7 +194,8 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         io.err(!rule ? `no rule "${ruleId}"` : `no structure "${structureId}"`);
         return setExit(2);
       }
-      io.out(renderExplain(rule, s, evaluateRule(rule, s, new PlanCache())));
+      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache())], loaded.handbook, opts.on ?? todayUtc()).verdicts;
+      io.out(renderExplain(rule, s, verdict!));
       setExit(0);
     });
 
@@ -120,9 +203,11 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .command('build')
     .description('publish the report as a static site (written aside and swapped in; an invalid handbook leaves the old report untouched)')
     .option('--out <dir>', 'output folder: absent, empty, or a report plumbline wrote', 'site')
-    .action(async (opts: { out: string }, cmd: Command) => {
+    .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
+    .action(async (opts: { out: string; on?: string }, cmd: Command) => {
       const root = rootOf(cmd);
-      const outcome = checkHandbook(new FolderSource(root));
+      const { checkHandbook, FolderSource } = await core();
+      const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc() });
       if (!outcome.ok) {
         io.err(formatDiagnostics(outcome.diagnostics, 'nothing was written'));
         return setExit(2);
@@ -160,6 +245,20 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         process.once('SIGINT', stop);
         process.once('SIGTERM', stop);
       });
+      setExit(0);
+    });
+
+  program
+    .command('init')
+    .description('start a handbook: a minimal valid handbook, a .gitignore for the report and a CI script, in DIR (default: the current folder); never overwrites anything')
+    .argument('[dir]', 'folder to start the handbook in', '.')
+    .option('--title <text>', "the handbook's title")
+    .action(async (dir: string, opts: { title?: string }) => {
+      const { scaffoldHandbook, describeScaffold } = await import('./init.ts');
+      const target = resolve(dir);
+      const r = scaffoldHandbook(target, opts.title !== undefined ? { title: opts.title } : {});
+      if (!r.ok) throw r.refusal;
+      io.out(describeScaffold(target, r.written));
       setExit(0);
     });
 

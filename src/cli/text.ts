@@ -6,7 +6,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../report/format.ts';
-import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from '../report/words.ts';
+import { CAUTION, STATUS_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -18,7 +18,7 @@ function table(rows: string[][]): string {
   return rows.map((r) => r.map((c, i) => (i === r.length - 1 ? c : c + ' '.repeat((widths[i] ?? 0) - [...c].length))).join('  ')).join('\n');
 }
 
-const ORDER: Record<string, number> = { fail: 0, incomplete: 1, pass: 2, 'not-applicable': 3 };
+const ORDER: Record<string, number> = { fail: 0, waived: 1, incomplete: 2, pass: 3, 'not-applicable': 4 };
 
 export function renderCheckSummary(h: Handbook, results: Results): string {
   const shown = results.verdicts
@@ -37,15 +37,47 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
     rows.push([word, v.rule, v.structure, v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : valuePhrase(v), limitPhrase(rule, v.unit), formatMargin(v.margin)]);
   }
   const c = results.counts;
+  const judged = h.waivers.length === 0 ? '' : results.on ? `, ${plural(h.waivers.length, 'waiver')} (judged on ${results.on})` : `, ${plural(h.waivers.length, 'waiver')}`;
   const lines = [
-    `${h.meta.title}: ${plural(h.structures.length, 'structure')}, ${plural(h.rules.length, 'rule')}`,
+    `${h.meta.title}: ${plural(h.structures.length, 'structure')}, ${plural(h.rules.length, 'rule')}${judged}`,
     '',
     table(rows),
+    ...renderWaivers(h, results),
     '',
-    `${c.pass} pass, ${c.fail} fail (${results.blockingFailures} blocking), ${c.incomplete} incomplete, ${c['not-applicable']} not applicable`,
+    `${c.pass} pass, ${c.fail} fail (${results.blockingFailures} blocking), ${c.waived} waived, ${c.incomplete} incomplete, ${c['not-applicable']} not applicable`,
     CAUTION,
   ];
   return lines.join('\n');
+}
+
+/** What the waivers did: the failures they excuse, those that count again, and waivers that excuse nothing. */
+function renderWaivers(h: Handbook, results: Results): string[] {
+  if (h.waivers.length === 0) return [];
+  if (results.on === undefined) return ['', `${plural(h.waivers.length, 'waiver')} not applied: no evaluation date was given, so every failure counts.`];
+  const out: string[] = [];
+  const waived = results.verdicts.filter((v) => v.status === 'waived' && v.waiver);
+  if (waived.length) {
+    out.push('', 'Waived (not counted as failures):');
+    for (const v of waived) {
+      const w = v.waiver!;
+      const floor = w.stillWithin ? `; the value must stay ${floorPhrase(w.stillWithin, v.unit)}` : '';
+      out.push(`  ${v.rule} on ${v.structure}: ${waivedPhrase(w)}; ${waiverPeoplePhrase(w)}${floor} (${w.file}:${w.line})`);
+    }
+  }
+  const lapsedLines: string[] = [];
+  const unusedLines: string[] = [];
+  for (const use of results.waivers) {
+    for (const l of use.lapsed) {
+      const v = results.verdicts.find((x) => x.rule === use.rule && x.structure === l.structure);
+      const floor = v?.waiver?.stillWithin ? floorPhrase(v.waiver.stillWithin, v.unit) : undefined;
+      lapsedLines.push(`  ${failsAgainPhrase(use, use.rule, l.structure, l.lapsed, floor)}`);
+    }
+    if (use.expired && use.lapsed.length === 0) unusedLines.push(`  ${expiredUnneededPhrase(use)}`);
+    else if (use.unused) unusedLines.push(`  ${unusedPhrase(use)}`);
+  }
+  if (lapsedLines.length) out.push('', 'Waivers that no longer hold (these failures count):', ...lapsedLines);
+  if (unusedLines.length) out.push('', 'Waivers that excuse nothing:', ...unusedLines);
+  return out;
 }
 
 export function renderStructureQuantities(s: Structure, quantities: Record<string, StructureQuantity>, incomplete: Record<string, string[]>): string {
@@ -69,6 +101,11 @@ export function renderExplain(rule: Rule, s: Structure, v: Verdict): string {
     return out.join('\n');
   }
   out.push(`value ${valuePhrase(v)}, margin ${formatMargin(v.margin)}`);
+  if (v.waiver) {
+    const w = v.waiver;
+    out.push(v.status === 'waived' ? `${waivedPhrase(w)}; ${waiverPeoplePhrase(w)} (${w.file}:${w.line})` : `${lapsePhrase(w, v.unit)} (${w.file}:${w.line})`);
+    if (w.stillWithin) out.push(`the waived value must stay ${floorPhrase(w.stillWithin, v.unit)}`);
+  }
   if (v.evaluateAt === 'worst-case') {
     out.push(`nominal ${formatValue(v.nominal ?? null, v.unit)}; worst of ${v.corners} corner${v.corners === 1 ? '' : 's'}`);
     if (v.worstCorner?.length) out.push(`worst corner: ${v.worstCorner.map((c) => `${c.name} ${c.side} (${formatValue(c.value, unitOfParam(v, c.name))})`).join(', ')}`);

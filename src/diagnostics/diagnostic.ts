@@ -22,6 +22,10 @@ export type DiagnosticCode =
   | 'id-too-long'
   | 'relation-at-tolerance'
   | 'no-handbook'
+  // Waivers:
+  | 'unknown-rule'
+  | 'bad-date'
+  | 'floor-stricter-than-rule'
   // Reading files (errors):
   | 'not-a-folder'
   | 'not-a-regular-file'
@@ -58,7 +62,7 @@ export interface Diagnostic {
   other?: { file: string; line: number; column: number };
   /** For a reference to another item (a material, a structure, a film step): which. A reference to
    * an item that was written but failed to load is a consequence of that failure and is dropped. */
-  refersTo?: { kind: 'material' | 'structure' | 'film'; id: string };
+  refersTo?: { kind: 'material' | 'structure' | 'film' | 'rule'; id: string };
   /** For `not-loaded`: why the entry was left out (worded in messages.ts). */
   reason?: NotLoadedReason;
 }

@@ -23,6 +23,9 @@ const headline: Record<Diagnostic['code'], (d: Diagnostic) => string> = {
   'id-too-long': () => `id too long`,
   'relation-at-tolerance': () => `values can contradict each other within their tolerances`,
   'no-handbook': () => `no handbook found`,
+  'unknown-rule': (d) => `no rule ${quote(d.found)} in this handbook`,
+  'bad-date': () => `not a calendar date`,
+  'floor-stricter-than-rule': () => `a waiver may only loosen the rule's limit, never tighten it`,
   'not-a-folder': (d) => `not a folder: ${d.found ?? ''}`,
   'not-a-regular-file': (d) => `not read: ${d.found ?? 'not a regular file'}`,
   'outside-handbook': (d) => `not read: ${d.found ?? 'outside the handbook'}`,
@@ -54,7 +57,7 @@ export function excerpt(s: string): string {
 }
 
 /** Codes whose headline already quotes what was found. */
-const SAYS_FOUND = new Set<Diagnostic['code']>(['yaml-syntax', 'file-unreadable', 'unknown-kind', 'duplicate-id', 'id-not-url-safe', 'unknown-quantity', 'unknown-material', 'not-a-folder', 'not-a-regular-file', 'outside-handbook', 'file-too-large', 'not-utf8', 'not-loaded']);
+const SAYS_FOUND = new Set<Diagnostic['code']>(['yaml-syntax', 'file-unreadable', 'unknown-kind', 'duplicate-id', 'id-not-url-safe', 'unknown-quantity', 'unknown-material', 'unknown-rule', 'not-a-folder', 'not-a-regular-file', 'outside-handbook', 'file-too-large', 'not-utf8', 'not-loaded']);
 
 function quote(s: string | undefined): string {
   return s === undefined ? '' : `"${excerpt(s)}"`;
@@ -77,7 +80,8 @@ export function describeDiagnostic(d: Diagnostic): string {
 /** `file:line:column field: sentence` — the form editors and terminals link. */
 export function formatDiagnostic(d: Diagnostic): string {
   const field = d.field ? ` ${d.field}:` : '';
-  return `${d.file}:${d.line}:${d.column}${isWarning(d) ? ' warning:' : ''}${field} ${describeDiagnostic(d)}`;
+  // A file of a revision is named as git names it: `abc1234:structures/x.yaml`.
+  return `${d.revision ? `${d.revision}:` : ''}${d.file}:${d.line}:${d.column}${isWarning(d) ? ' warning:' : ''}${field} ${describeDiagnostic(d)}`;
 }
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -117,7 +121,19 @@ const refusal: Record<RefusalCode, (f: RefusalFacts) => string> = {
   'port-in-use': (f) => `port ${f.port} is already in use on 127.0.0.1; stop what is using it or choose another with --port`,
   'port-forbidden': (f) => `port ${f.port} may not be used by this user; choose one above 1023 with --port`,
   'port-unavailable': (f) => `cannot listen on 127.0.0.1:${f.port}: ${f.reason ?? ''}`,
+  'file-not-ours': (f) => `${f.path} exists and is ${f.reason}; plumbline replaces only a file it wrote, so it was left as it is. Move it away, or name another file.`,
+  'file-write-failed': (f) => `${f.path} could not be written (${f.errno}); the file there before, if any, is untouched.`,
+  'baseline-unloadable': (f) => `${f.reason}, so it cannot be the baseline; nothing was written.`,
+  'not-a-repository': (f) => `${f.reason}; history, diff and --baseline read the handbook's git repository (run \`git init\` and commit the handbook first).`,
+  'unknown-revision': (f) => `${f.reason}; name a commit, a branch or a tag (\`git log --oneline\` lists them).`,
+  'git-missing': () => `the git program was not found on PATH; history, diff and --baseline run it to read revisions.`,
+  'git-failed': (f) => `git failed: ${f.reason}`,
   'write-failed': (f) => `the report could not be written: ${f.reason} (${f.errno}${f.path ? ` at ${f.path}` : ''}); the previous report, if any, is untouched`,
+  'scaffold-target-taken': (f) =>
+    f.reason
+      ? `${f.path} ${f.reason}, so no handbook can be started there; nothing was written. Give a new or empty folder.`
+      : `${f.path} already holds ${(f.files ?? []).join(', ')}${(f.fileCount ?? 0) > (f.files ?? []).length ? ', …' : ''}; init never replaces a file or writes into an existing handbook, so nothing was written. Give a new or empty folder, or move ${f.fileCount === 1 ? 'it' : 'them'} aside.`,
+  'scaffold-write-failed': (f) => `the new handbook could not be written: ${f.reason} (${f.errno}${f.path ? ` at ${f.path}` : ''}); ${f.files && f.files.length ? `written before the failure and left in place: ${f.files.join(', ')}` : 'nothing was written'}.`,
 };
 
 export function describeRefusal(code: RefusalCode, facts: RefusalFacts): string {

@@ -19,7 +19,16 @@ export type RefusalCode =
   | 'port-in-use'
   | 'port-forbidden'
   | 'port-unavailable'
-  | 'write-failed';
+  | 'write-failed'
+  | 'file-not-ours'
+  | 'file-write-failed'
+  | 'baseline-unloadable'
+  | 'not-a-repository'
+  | 'unknown-revision'
+  | 'git-missing'
+  | 'git-failed'
+  | 'scaffold-target-taken'
+  | 'scaffold-write-failed';
 
 export interface RefusalFacts {
   /** The folder or file concerned. */

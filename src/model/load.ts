@@ -8,7 +8,8 @@ import { byCodePoint, isWarning, sortDiagnostics } from '../diagnostics/diagnost
 import { QUANTITIES } from '../engines/index.ts';
 import { BUILT_IN_MATERIALS } from './materials-table.ts';
 import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, ISOLATION_PARAMS, THERMOMECH_PARAMS, VIA_CONDUCTOR_MECH, VIA_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, ION_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, type ParamSpec } from './parameters.ts';
-import { handbookSchema, materialsSchema, ruleSchema, structureSchema } from './schema.ts';
+import { WAIVER_FIELDS, handbookSchema, materialsSchema, ruleSchema, structureSchema, waiverSchema } from './schema.ts';
+import { calendarDateOf, readCalendarDate } from './calendar.ts';
 import { excerpt } from '../diagnostics/messages.ts';
 import {
   KINDS,
@@ -28,8 +29,10 @@ import {
   type MaterialProperty,
   type Param,
   type Rule,
+  type Selector,
   type SourcePos,
   type Structure,
+  type Waiver,
 } from './types.ts';
 import { formatValue } from '../report/format.ts';
 import { isUnitProblem, parseValue } from './units.ts';
@@ -40,13 +43,14 @@ import { HANDBOOK_INPUTS, baseName, decodeUtf8, extName, type HandbookSource } f
 /** A handbook (with the warnings of its loading in `handbook.warnings`), or every problem found. */
 export type LoadResult = { ok: true; handbook: Handbook } | { ok: false; diagnostics: Diagnostic[] };
 
-let validators: { structure: ValidateFunction; rule: ValidateFunction; materials: ValidateFunction; handbook: ValidateFunction } | undefined;
+let validators: { structure: ValidateFunction; rule: ValidateFunction; waiver: ValidateFunction; materials: ValidateFunction; handbook: ValidateFunction } | undefined;
 function getValidators(): NonNullable<typeof validators> {
   if (!validators) {
     const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true });
     validators = {
       structure: ajv.compile(structureSchema()),
       rule: ajv.compile(ruleSchema()),
+      waiver: ajv.compile(waiverSchema()),
       materials: ajv.compile(materialsSchema()),
       handbook: ajv.compile(handbookSchema()),
     };
@@ -75,6 +79,10 @@ class FileReport {
   /** Any error reported through this report. */
   get failed(): boolean {
     return this.errors > 0;
+  }
+  /** Errors reported so far (to tell whether one item of a list had any). */
+  get errorCount(): number {
+    return this.errors;
   }
   /** A diagnostic about `fieldPointer`, placed at `placePointer` (for fields not written). */
   addAt(code: DiagnosticCode, placePointer: string, fieldPointer: string, extra: Partial<Diagnostic> = {}): void {
@@ -206,6 +214,8 @@ function reportSchemaErrors(errors: ErrorObject[], report: FileReport, allowedAt
             expected: e.instancePath.includes('rule') || /^\/(\d+\/)?id$/.test(e.instancePath) ? describePattern(e.schemaPath) : 'lower-case letters, digits and single dashes',
             found: String(value),
           });
+        } else if (/\/expires$/.test(e.instancePath)) {
+          report.add('bad-date', e.instancePath, { expected: DATE_EXPECTED, found: jsonType(value) });
         } else {
           report.add('bad-value', e.instancePath, { expected: describePattern(e.schemaPath), found: jsonType(value) });
         }
@@ -239,8 +249,11 @@ function describeType(t: string | string[]): string {
 
 function describePattern(schemaPath: string): string {
   if (schemaPath.includes('quantity')) return 'a quantity name such as geometry.aspect_ratio';
-  return 'an id of letters, digits and single dashes (lower-case for structures, upper-case for rules)';
+  return 'an id of letters, digits and single dashes (lower-case for structures, upper-case for rules and waivers)';
 }
+
+const DATE_EXPECTED = 'a calendar date written YYYY-MM-DD, such as 2027-06-30';
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
 
 interface Loaded {
   src: YamlSource;
@@ -913,6 +926,169 @@ function rulesFromFile(loaded: Loaded): LocatedRule[] {
   return rules;
 }
 
+/** One waiver as written, with what the schema already said about its fields. */
+interface WaiverEntry {
+  raw: Record<string, unknown>;
+  /** Pointer of the waiver in its file ('' for a file of one waiver, `/2` for the third of a list). */
+  base: string;
+  report: FileReport;
+  /** The schema reported a problem at this pointer or inside it: it is not judged again. */
+  flagged: (pointer: string) => boolean;
+}
+
+/**
+ * The waivers of one file (one waiver, or a list), checked against the schema. Their references
+ * (the rule, the structures) and the values that need the rule (still_within) are checked once
+ * every rule and structure is read, by `waiverFrom`.
+ */
+function waiverEntries(loaded: Loaded): WaiverEntry[] {
+  const { src, report } = loaded;
+  const isList = Array.isArray(src.value);
+  const list = isList ? (src.value as unknown[]) : [src.value];
+  // A YAML 1.1 reader gives an unquoted date as a Date (the handbook's reader, js-yaml 5's core
+  // schema, keeps it as text): the date it stands for is checked as if written so, and a Date with a
+  // time of day is checked as the ISO text it is (and refused: a waiver ends on a day).
+  for (const item of list) {
+    if (isMapping(item) && item.expires instanceof Date) item.expires = calendarDateOf(item.expires) ?? item.expires.toISOString();
+  }
+  const v = getValidators().waiver;
+  if (!v(src.value)) {
+    reportSchemaErrors(v.errors ?? [], report, (ptr) => (/applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : /still_within$/.test(ptr) ? ['at_least', 'at_most'] : [...WAIVER_FIELDS]));
+  }
+  const errors = (v.errors ?? []).map((e) => e.instancePath);
+  const flagged = (pointer: string) => errors.some((e) => e === pointer || e.startsWith(`${pointer}/`));
+  return list.flatMap((raw, i) => (isMapping(raw) ? [{ raw, base: isList ? `/${i}` : '', report, flagged }] : []));
+}
+
+/** The rules of the handbook by id, and what is known about rules that failed to load. */
+interface RulesRead {
+  byId: Map<string, Rule>;
+  ids: string[];
+}
+
+/**
+ * A waiver with its references checked: its rule and structures exist, its date is a day of the
+ * calendar, its still_within is the rule's comparison at or beyond the rule's limit. Every problem
+ * of the entry is reported; the waiver comes back only when it has none.
+ */
+function waiverFrom(entry: WaiverEntry, rules: RulesRead, structureIds: string[]): Waiver | null {
+  const { raw, base, report, flagged } = entry;
+  const at = (field: string) => `${base}/${field}`;
+  const errorsBefore = report.errorCount;
+  // Anything the schema said about this waiver (for a file of one waiver, about the file).
+  const schemaFound = flagged(base);
+
+  // The rule it waives.
+  let rule: Rule | undefined;
+  if (typeof raw.rule === 'string' && !flagged(at('rule'))) {
+    rule = rules.byId.get(raw.rule);
+    if (!rule) {
+      const sameLetters = rules.ids.filter((id) => id.toLowerCase() === String(raw.rule).toLowerCase());
+      const near = sameLetters.length ? sameLetters : suggest(raw.rule, rules.ids);
+      report.add('unknown-rule', at('rule'), { found: raw.rule, suggestions: near, refersTo: { kind: 'rule', id: raw.rule } });
+    }
+  }
+
+  // Which structures: a list of ids, or a selector; exactly one of the two.
+  const hasList = raw.structures !== undefined;
+  const hasSelector = raw.applies_to !== undefined;
+  if (hasList && hasSelector) report.add('bad-value', at('applies_to'), { expected: 'either structures (a list of ids) or applies_to (a selector), not both', found: 'both' }, 'key');
+  else if (!hasList && !hasSelector) report.addAt('missing-field', base, at('structures'), { expected: 'the structures it waives the rule for: structures (a list of ids) or applies_to (a selector, as a rule has)' });
+  const named = (list: unknown, pointer: string) => {
+    if (!Array.isArray(list) || flagged(pointer)) return;
+    list.forEach((sid, i) => {
+      if (typeof sid === 'string' && !structureIds.includes(sid)) {
+        report.add('bad-value', `${pointer}/${i}`, { expected: 'the id of a structure in this handbook', found: `"${sid}"`, suggestions: suggest(sid, structureIds), refersTo: { kind: 'structure', id: sid } });
+      }
+    });
+  };
+  named(raw.structures, at('structures'));
+  if (isMapping(raw.applies_to)) named(raw.applies_to.structures, `${at('applies_to')}/structures`);
+
+  // Names and reason: text that says something (the schema refuses an empty one).
+  for (const field of ['reason', 'owner', 'approved_by'] as const) {
+    const value = raw[field];
+    if (typeof value === 'string' && value.trim() === '' && !flagged(at(field))) report.add('bad-value', at(field), { expected: field === 'reason' ? 'a reason in words' : 'a name', found: jsonType(value) });
+  }
+
+  // The last day it holds: a day the calendar has (the schema checked the YYYY-MM-DD form).
+  let expires: string | undefined;
+  if (typeof raw.expires === 'string' && !flagged(at('expires'))) {
+    const d = readCalendarDate(raw.expires);
+    if ('date' in d) expires = d.date;
+    else {
+      const expected =
+        d.problem === 'format' ? DATE_EXPECTED : d.days === undefined ? 'a month from 01 to 12' : `a day of the month from 01 to ${d.days} (${MONTHS[d.month - 1]} ${d.year} has ${d.days} days)`;
+      report.add('bad-date', at('expires'), { expected, found: `"${raw.expires}"` });
+    }
+  }
+
+  // still_within: the rule's comparison, a value of the rule's quantity, no stricter than its limit.
+  let stillWithin: Waiver['stillWithin'];
+  const sw = raw.still_within;
+  if (isMapping(sw)) {
+    const swAt = at('still_within');
+    const hasLeast = sw.at_least !== undefined;
+    const hasMost = sw.at_most !== undefined;
+    if (hasLeast && hasMost) report.add('bad-value', `${swAt}/at_most`, { expected: 'either at_least or at_most, not both', found: 'both' }, 'key');
+    else if (!hasLeast && !hasMost) report.addAt('missing-field', swAt, `${swAt}/at_least`, { expected: "a limit: at_least or at_most, as the rule's" });
+    else if (rule) {
+      const comparison = hasLeast ? 'at_least' : 'at_most';
+      const pointer = `${swAt}/${comparison}`;
+      const written = sw[comparison];
+      if (comparison !== rule.comparison) {
+        report.add('bad-value', pointer, { expected: `${rule.comparison}, the comparison of ${rule.id} (it requires ${rule.comparison} ${rule.limitWritten})`, found: comparison }, 'key');
+      } else if (!flagged(pointer)) {
+        const q = QUANTITIES.get(rule.quantity)!;
+        const r = readValue(report, pointer, written, { unit: q.unit, description: q.title });
+        if (r && !Number.isFinite(r.value)) report.add('bad-value', pointer, { expected: 'a finite limit', found: `"${String(written)}"` });
+        else if (r && r.low !== undefined) report.add('malformed-tolerance', pointer, { expected: 'a limit without tolerance', found: `"${String(written)}"` });
+        else if (r) {
+          // The same slack the checker gives a value at a limit: a floor written equal to the rule's
+          // limit in another unit (1000 nm for 1 um) is not stricter by rounding.
+          const slack = 1e-12 * Math.abs(rule.limit);
+          const stricter = comparison === 'at_least' ? r.value > rule.limit + slack : r.value < rule.limit - slack;
+          if (stricter) {
+            const limitText = `${comparison === 'at_least' ? '≥' : '≤'} ${formatValue(rule.limit, q.unit)}`;
+            report.add('floor-stricter-than-rule', pointer, { expected: `a limit ${comparison === 'at_least' ? 'at or below' : 'at or above'} the limit of ${rule.id} (${limitText})`, found: `"${String(written)}"` });
+          } else stillWithin = { comparison, limit: r.value, written: String(written) };
+        }
+      }
+    }
+  }
+
+  if (schemaFound || report.errorCount > errorsBefore || !rule || expires === undefined) return null;
+  const selector: Selector = hasList
+    ? { structures: raw.structures as string[] }
+    : (() => {
+        const a = raw.applies_to as Record<string, unknown>;
+        return {
+          ...(a.kinds ? { kinds: a.kinds as Kind[] } : {}),
+          ...(a.tags ? { tags: a.tags as string[] } : {}),
+          ...(a.structures ? { structures: a.structures as string[] } : {}),
+        };
+      })();
+  return {
+    id: String(raw.id),
+    rule: rule.id,
+    appliesTo: selector,
+    selectedBy: hasList ? 'structures' : 'applies_to',
+    reason: String(raw.reason),
+    owner: String(raw.owner),
+    approvedBy: String(raw.approved_by),
+    expires,
+    ...(stillWithin ? { stillWithin } : {}),
+    file: report.src.file,
+    pos: report.pos(base),
+  };
+}
+
+/** The ids a rule file writes, read from its raw value (for references to rules that failed to load). */
+function writtenRuleIds(raw: unknown): string[] {
+  const list = Array.isArray(raw) ? raw : [raw];
+  return list.flatMap((r) => (isMapping(r) && typeof r.id === 'string' ? [r.id] : []));
+}
+
 function loadMeta(source: HandbookSource, out: Diagnostic[]): HandbookMeta {
   const path = 'handbook.yaml';
   const fallback = { title: baseName(source.root.replace(/[\\/]+$/, '')) || 'handbook' };
@@ -921,7 +1097,7 @@ function loadMeta(source: HandbookSource, out: Diagnostic[]): HandbookMeta {
   if (!loaded) return fallback;
   const v = getValidators().handbook;
   if (!v(loaded.src.value)) {
-    reportSchemaErrors(v.errors ?? [], loaded.report, () => ['title', 'organisation', 'summary']);
+    reportSchemaErrors(v.errors ?? [], loaded.report, (p) => (p.startsWith('/links') ? ['report', 'commit'] : ['title', 'organisation', 'summary', 'links']));
     return fallback;
   }
   return loaded.src.value as HandbookMeta;
@@ -948,16 +1124,18 @@ interface Broken {
   structures: Set<string>;
   materials: Set<string>;
   films: Set<string>;
+  rules: Set<string>;
   /** A file that could not be parsed at all may have defined anything of this kind. */
   anyStructure: boolean;
   anyMaterial: boolean;
+  anyRule: boolean;
 }
 
 /** What is broken once the materials are read: when materials.yaml has problems, its ids that did
  * not load are broken for their users. */
 function brokenAfterMaterials(m: MaterialsLoaded, out: Diagnostic[]): Broken {
   const failed = out.some((d) => d.file === 'materials.yaml' && !isWarning(d));
-  return { structures: new Set(), materials: new Set(failed ? m.written : []), films: new Set(), anyStructure: false, anyMaterial: m.unreadable };
+  return { structures: new Set(), materials: new Set(failed ? m.written : []), films: new Set(), rules: new Set(), anyStructure: false, anyMaterial: m.unreadable, anyRule: false };
 }
 
 function isConsequence(d: Diagnostic, broken: Broken): boolean {
@@ -965,6 +1143,7 @@ function isConsequence(d: Diagnostic, broken: Broken): boolean {
   if (!r) return false;
   if (r.kind === 'material') return broken.anyMaterial || broken.materials.has(r.id);
   if (r.kind === 'structure') return broken.anyStructure || broken.structures.has(r.id);
+  if (r.kind === 'rule') return broken.anyRule || broken.rules.has(r.id);
   return broken.anyStructure || broken.films.has(r.id);
 }
 
@@ -992,9 +1171,21 @@ function writtenDefinitions(raw: unknown, path: string): { id: string; stem: str
  * the run comes back as a diagnostic, warnings (files left out) with them.
  */
 export function loadHandbook(source: HandbookSource): LoadResult {
+  const result = loadFrom(source);
+  // Files of a revision are named with it (`abc1234:structures/x.yaml:3:7`): the same path in the
+  // working tree may say something else.
+  if (source.label) {
+    const list = result.ok ? result.handbook.warnings : result.diagnostics;
+    for (const d of list) d.revision = source.label;
+  }
+  return result;
+}
+
+function loadFrom(source: HandbookSource): LoadResult {
   const out: Diagnostic[] = [];
   const structureFiles = discover(source, 'structures', out);
   const ruleFiles = discover(source, 'rules', out);
+  const waiverFiles = discover(source, 'waivers', out);
   // No handbook at all: nothing of ours here. (A handbook.yaml alone is a handbook still empty, or
   // one whose own problems are worth reporting.)
   if (structureFiles.length === 0 && ruleFiles.length === 0 && !out.some((d) => !isWarning(d)) && source.kindOf('handbook.yaml') === 'missing') {
@@ -1005,8 +1196,9 @@ export function loadHandbook(source: HandbookSource): LoadResult {
   const read = loadMaterials(source, out);
   const { materials } = read;
   const broken = brokenAfterMaterials(read, out);
-  // A structures/ that is not a folder may have defined any structure a rule names.
+  // A structures/ (rules/) that is not a folder may have defined any structure (rule) a rule (waiver) names.
   broken.anyStructure = out.some((d) => d.code === 'not-a-folder' && d.file === 'structures');
+  broken.anyRule = out.some((d) => d.code === 'not-a-folder' && d.file === 'rules');
   const structures: Structure[] = [];
   const structureIds: IdPlace[] = [];
   const allFilms = new Set<string>();
@@ -1036,12 +1228,19 @@ export function loadHandbook(source: HandbookSource): LoadResult {
   const ruleSources: Array<{ rule: Rule; report: FileReport; pointer: string }> = [];
   for (const path of ruleFiles) {
     const loaded = readAndParse(source, path, out);
-    if (!loaded) continue;
-    for (const { rule, idPointer } of rulesFromFile(loaded)) {
+    if (!loaded) {
+      broken.anyRule = true;
+      continue;
+    }
+    const fromFile = rulesFromFile(loaded);
+    for (const { rule, idPointer } of fromFile) {
       rules.push(rule);
       ruleIds.push({ id: rule.id, at: loaded.report.pos(idPointer), field: pointerToField(idPointer) });
       ruleSources.push({ rule, report: loaded.report, pointer: idPointer.slice(0, -'/id'.length) });
     }
+    // A rule written here that did not load: a waiver naming it is a consequence of its problem.
+    const loadedIds = new Set(fromFile.map((r) => r.rule.id));
+    for (const id of writtenRuleIds(loaded.src.value)) if (!loadedIds.has(id)) broken.rules.add(id);
   }
   checkDuplicates(structureIds, out);
   checkDuplicates(ruleIds, out);
@@ -1062,11 +1261,27 @@ export function loadHandbook(source: HandbookSource): LoadResult {
       }
     });
   }
+  // Waivers name rules and structures, so they are read last.
+  const waivers: Waiver[] = [];
+  const waiverIds: IdPlace[] = [];
+  const rulesRead: RulesRead = { byId: new Map(rules.map((r) => [r.id, r])), ids: rules.map((r) => r.id).sort(byCodePoint) };
+  for (const path of waiverFiles) {
+    const loaded = readAndParse(source, path, out);
+    if (!loaded) continue;
+    for (const entry of waiverEntries(loaded)) {
+      const idPointer = `${entry.base}/id`;
+      if (typeof entry.raw.id === 'string' && !entry.flagged(idPointer)) waiverIds.push({ id: entry.raw.id, at: loaded.report.pos(idPointer), field: pointerToField(idPointer) });
+      const w = waiverFrom(entry, rulesRead, ids);
+      if (w) waivers.push(w);
+    }
+  }
+  checkDuplicates(waiverIds, out);
   const diagnostics = finish(out, broken);
   if (diagnostics.some((d) => !isWarning(d))) return { ok: false, diagnostics };
   structures.sort((a, b) => byCodePoint(a.id, b.id));
   rules.sort((a, b) => byCodePoint(a.id, b.id));
-  return { ok: true, handbook: { root: source.root, meta, structures, rules, materials, warnings: diagnostics } };
+  waivers.sort((a, b) => byCodePoint(a.id, b.id));
+  return { ok: true, handbook: { root: source.root, meta, structures, rules, waivers, materials, warnings: diagnostics } };
 }
 
 /** Load one structure file on its own (for `eval FILE`), with the materials of `materialsFrom`. */

@@ -2,6 +2,7 @@
 // from what the loader accepts. They are published with the site for editors to validate against.
 import { THERMOMECH_PARAMS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
 import { KINDS } from './types.ts';
+import { CALENDAR_DATE_PATTERN } from './calendar.ts';
 
 export const SCHEMA_BASE = 'https://plumbline.invalid/schemas/';
 export const STRUCTURE_ID_PATTERN = '^[a-z0-9]+(-[a-z0-9]+)*$';
@@ -173,18 +174,21 @@ export function structureSchema(): JsonSchema {
   };
 }
 
+/** Which structures a rule or a waiver selects. */
+const selector = (): JsonSchema => ({
+  type: 'object',
+  additionalProperties: false,
+  properties: {
+    kinds: { type: 'array', minItems: 1, items: { type: 'string', enum: [...KINDS] } },
+    tags: { type: 'array', minItems: 1, items: { type: 'string' } },
+    structures: { type: 'array', minItems: 1, items: { type: 'string' } },
+  },
+});
+
 const ruleProperties = (): JsonSchema => ({
   id: { type: 'string', pattern: RULE_ID_PATTERN, maxLength: MAX_ID_LENGTH, description: 'Permanent id, upper-case with dashes.' },
   title: { type: 'string', minLength: 1 },
-  applies_to: {
-    type: 'object',
-    additionalProperties: false,
-    properties: {
-      kinds: { type: 'array', minItems: 1, items: { type: 'string', enum: [...KINDS] } },
-      tags: { type: 'array', minItems: 1, items: { type: 'string' } },
-      structures: { type: 'array', minItems: 1, items: { type: 'string' } },
-    },
-  },
+  applies_to: selector(),
   quantity: { type: 'string', pattern: '^[a-z_]+\\.[a-z0-9_]+$', description: 'Quantity name, engine.name.' },
   film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'For quantities of one film step: the film name of the step.' },
   at_least: { type: ['string', 'number'], description: 'Lower limit, in the unit of the quantity.' },
@@ -210,6 +214,46 @@ export function ruleSchema(): JsonSchema {
     // Object keywords apply to a single rule, `items` to a list: one schema serves both forms.
     type: ['object', 'array'],
     items: rule,
+  };
+}
+
+/** A waiver's fields, in the order the format reference gives them. */
+export const WAIVER_FIELDS = ['id', 'rule', 'structures', 'applies_to', 'reason', 'owner', 'approved_by', 'expires', 'still_within'] as const;
+
+export function waiverSchema(): JsonSchema {
+  const name = (description: string): JsonSchema => ({ type: 'string', minLength: 1, description });
+  const waiver = {
+    type: 'object',
+    additionalProperties: false,
+    // `structures` or `applies_to` (exactly one) is checked by the loader, which says which is missing.
+    required: ['id', 'rule', 'reason', 'owner', 'approved_by', 'expires'],
+    properties: {
+      id: { type: 'string', pattern: RULE_ID_PATTERN, maxLength: MAX_ID_LENGTH, description: 'Permanent id, upper-case with dashes (it is the URL of the waiver page).' },
+      rule: { type: 'string', minLength: 1, description: 'The id of the rule it waives.' },
+      structures: { type: 'array', minItems: 1, items: { type: 'string' }, description: 'The ids of the structures it waives the rule for (or give applies_to).' },
+      applies_to: { ...selector(), description: 'The structures it waives the rule for, selected as a rule selects them (or give structures).' },
+      reason: name('Why the failure is accepted (Markdown).'),
+      owner: name('Who answers for the exception.'),
+      approved_by: name('Who approved it.'),
+      expires: { type: 'string', pattern: CALENDAR_DATE_PATTERN, description: 'Last day the waiver holds, YYYY-MM-DD (UTC); from the day after, the failure counts again.' },
+      still_within: {
+        type: 'object',
+        additionalProperties: false,
+        description: "A limit the waived value must still meet: the rule's comparison, at or beyond the rule's limit.",
+        properties: {
+          at_least: { type: ['string', 'number'], description: 'Lower limit the waived value must still meet, in the unit of the quantity.' },
+          at_most: { type: ['string', 'number'], description: 'Upper limit the waived value must still meet, in the unit of the quantity.' },
+        },
+      },
+    },
+  };
+  return {
+    $schema: 'http://json-schema.org/draft-07/schema#',
+    $id: `${SCHEMA_BASE}waiver.schema.json`,
+    title: 'plumbline waivers (one waiver, or a list of waivers)',
+    ...waiver,
+    type: ['object', 'array'],
+    items: waiver,
   };
 }
 
@@ -247,6 +291,15 @@ export function handbookSchema(): JsonSchema {
       title: { type: 'string' },
       organisation: { type: 'string' },
       summary: { type: 'string' },
+      links: {
+        type: 'object',
+        additionalProperties: false,
+        description: 'Where the report is published and where commits can be read: used for links in change-request summaries, SARIF and history pages.',
+        properties: {
+          report: { type: 'string', pattern: '^https?://[^\\s]+$', description: 'base URL of the published report, e.g. https://handbooks.example/fh-m12/' },
+          commit: { type: 'string', pattern: '^https?://[^\\s]*\\{commit\\}[^\\s]*$', description: 'a commit page on the repository host, with {commit} where the commit id goes' },
+        },
+      },
     },
   };
 }
@@ -254,6 +307,7 @@ export function handbookSchema(): JsonSchema {
 export const SCHEMAS = {
   'structure.schema.json': structureSchema,
   'rule.schema.json': ruleSchema,
+  'waiver.schema.json': waiverSchema,
   'materials.schema.json': materialsSchema,
   'handbook.schema.json': handbookSchema,
 } as const;

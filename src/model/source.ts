@@ -5,7 +5,7 @@ import { lineStartsOf, offsetToLineColumn } from './yaml-source.ts';
 
 /** The handbook's own files and folders at its root: what loading reads and serve watches, and
  * what no report may be written into. */
-export const HANDBOOK_INPUTS = ['handbook.yaml', 'materials.yaml', 'structures', 'rules'] as const;
+export const HANDBOOK_INPUTS = ['handbook.yaml', 'materials.yaml', 'structures', 'rules', 'waivers'] as const;
 
 /** What a path holds. `other` is anything that is not a regular file or a folder (a FIFO, a
  * device, a socket, a link that leads out of the handbook or nowhere). */

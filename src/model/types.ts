@@ -116,10 +116,19 @@ export type Comparison = 'at_least' | 'at_most';
 export type EvaluateAt = 'nominal' | 'worst-case';
 export type Severity = 'blocking' | 'advisory';
 
+/** Which structures a rule (or a waiver) selects: all given criteria must hold; {} selects every structure. */
+export interface Selector {
+  kinds?: Kind[];
+  /** Any of these tags. */
+  tags?: string[];
+  /** These ids. */
+  structures?: string[];
+}
+
 export interface Rule {
   id: string;
   title: string;
-  appliesTo: { kinds?: Kind[]; tags?: string[]; structures?: string[] };
+  appliesTo: Selector;
   quantity: string;
   /** For quantities of one film step: which step (its film name). */
   film?: string;
@@ -132,6 +141,30 @@ export interface Rule {
   severity: Severity;
   rationale: string;
   references: string[];
+  file: string;
+  pos: SourcePos;
+}
+
+/**
+ * A recorded, approved exception to one rule for some structures, until a date: while it holds, a
+ * failure it selects is `waived` rather than `fail`. It never changes any other verdict.
+ */
+export interface Waiver {
+  id: string;
+  /** The rule it excuses (an id of the handbook). */
+  rule: string;
+  /** Which structures: the `structures` list as `{ structures }`, or the `applies_to` selector. */
+  appliesTo: Selector;
+  /** How it was written, for the report's wording. */
+  selectedBy: 'structures' | 'applies_to';
+  /** Markdown. */
+  reason: string;
+  owner: string;
+  approvedBy: string;
+  /** Last day it holds, `YYYY-MM-DD` (UTC): it holds on that day and stops the day after. */
+  expires: string;
+  /** A limit the waived value must still meet (the rule's comparison, in the rule's SI unit). */
+  stillWithin?: { comparison: Comparison; limit: number; written: string };
   file: string;
   pos: SourcePos;
 }
@@ -158,6 +191,13 @@ export interface HandbookMeta {
   title: string;
   organisation?: string;
   summary?: string;
+  /** Where the team publishes the report and keeps the repository, for links in summaries and pages. */
+  links?: {
+    /** Base URL of the published report. */
+    report?: string;
+    /** A commit's page on the team's repository host, with `{commit}` where the commit id goes. */
+    commit?: string;
+  };
 }
 
 export interface Handbook {
@@ -165,6 +205,8 @@ export interface Handbook {
   meta: HandbookMeta;
   structures: Structure[];
   rules: Rule[];
+  /** From `waivers/` (optional: empty without it), sorted by id. */
+  waivers: Waiver[];
   materials: Map<string, Material>;
   /** What loading left out or doubted without failing (files not loaded, ...), for every command to show. */
   warnings: Diagnostic[];

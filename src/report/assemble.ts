@@ -1,10 +1,10 @@
 // Results → report data: everything the templates show, already worded and formatted. Templates
 // only lay it out; no physics and no pass/fail logic lives in them.
-import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict } from '../checker/evaluate.ts';
+import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
-import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Structure } from '../model/types.ts';
+import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Selector, type Structure, type Waiver } from '../model/types.ts';
 import { countsChart, marginChart, sweepChart, valueChart } from './charts.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
@@ -14,7 +14,7 @@ import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 import { describeDiagnostic } from '../diagnostics/messages.ts';
-import { CAUTION, STATUS_WORDS, limitPhrase, originPhrase, valuePhrase } from './words.ts';
+import { CAUTION, STATUS_WORDS, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
 export const urls = {
@@ -23,6 +23,8 @@ export const urls = {
   verdict: (rule: string, structure: string) => `/rules/${rule}/${structure}/`,
   engine: (id: string) => `/methods/${id}/`,
   quantity: (name: string) => `/methods/${name.split('.')[0]}/#${name.replace('.', '-')}`,
+  waivers: '/waivers/',
+  waiver: (id: string) => `/waivers/${id}/`,
 };
 
 export interface VerdictRow {
@@ -43,6 +45,13 @@ export interface VerdictRow {
   limitText: string;
   marginText: string;
   url: string;
+  /** The waiver a waived verdict stands on, or the one a failure's waiver lapsed from ('' for none). */
+  waiverId: string;
+  waiverUrl: string;
+  /** `waived by W-X through 2027-06-30`, or why the waiver no longer excuses the failure. */
+  waiverNote: string;
+  /** A failure whose waiver no longer holds (expired, or beyond its limit). */
+  waiverLapsed: boolean;
 }
 
 function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
@@ -62,7 +71,20 @@ function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
     limitText: limitPhrase(rule, v.unit),
     marginText: formatMargin(v.margin),
     url: urls.verdict(rule.id, s.id),
+    waiverId: v.waiver?.id ?? '',
+    waiverUrl: v.waiver ? urls.waiver(v.waiver.id) : '',
+    waiverNote: !v.waiver ? '' : v.status === 'waived' ? waivedPhrase(v.waiver) : lapsePhrase(v.waiver, v.unit),
+    waiverLapsed: v.waiver?.lapsed !== undefined,
   };
+}
+
+/** `structures a, b`; `kinds trench; tagged isolation`; `every structure` — a rule's or a waiver's selection. */
+function selectorText(a: Selector): string {
+  const parts: string[] = [];
+  if (a.kinds) parts.push(`kinds ${a.kinds.join(', ')}`);
+  if (a.tags) parts.push(`tagged ${a.tags.join(' or ')}`);
+  if (a.structures) parts.push(`structures ${a.structures.join(', ')}`);
+  return parts.length ? parts.join('; ') : 'every structure';
 }
 
 function paramLabel(name: string): string {
@@ -82,6 +104,8 @@ export async function assembleReport(h: Handbook, results: Results) {
   const plans = new PlanCache();
   const inScope = (v: Verdict) => appliesTo(ruleById.get(v.rule)!, structureById.get(v.structure)!);
   const scoped = results.verdicts.filter(inScope);
+  const waiverById = new Map(h.waivers.map((w) => [w.id, w]));
+  const useById = new Map(results.waivers.map((u) => [u.id, u]));
 
   const verdictPages = [];
   for (const v of scoped) {
@@ -125,6 +149,7 @@ export async function assembleReport(h: Handbook, results: Results) {
         figureSvg: st.figure ? renderFigure(st.figure) : '',
         warnings: st.warnings,
       })),
+      waiver: waiverOnVerdict(v, waiverById),
       sweepSvg: sweep?.svg ?? '',
       sweepCaption: sweep?.caption ?? '',
       extraSweepSvg: extra?.svg ?? '',
@@ -160,6 +185,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       references: rule.references,
       file: `${rule.pos.file}:${rule.pos.line}`,
       verdicts: vs.map((v) => row(v, rule, structureById.get(v.structure)!)),
+      waivers: h.waivers.filter((w) => w.rule === rule.id).map((w) => waiverLink(w, useById.get(w.id), results.on)),
       worst: worstWord(vs),
       chartSvg: points.length ? await valueChart(points, rule.limit * scale.factor, axisTitle) : '',
     });
@@ -205,6 +231,7 @@ export async function assembleReport(h: Handbook, results: Results) {
       })),
       incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(baseName(name))!.title, missing: missing.join(', ') })),
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
+      waivers: h.waivers.filter((w) => appliesTo(w, s)).map((w) => waiverLink(w, useById.get(w.id), results.on)),
       worst: worstWord(vs),
       sectionSvg: renderCrossSection({
         kind: s.kind,
@@ -229,19 +256,25 @@ export async function assembleReport(h: Handbook, results: Results) {
       cells: h.rules.map((r) => {
         const v = verdictAt.get(`${r.id}\u0000${s.id}`)!;
         const scopedCell = inScope(v);
+        // A waiver's part, said in words (the cell's colour is not the only sign of it).
+        const waiverWords = !v.waiver ? '' : v.status === 'waived' ? `, ${waivedPhrase(v.waiver)}` : `; ${lapsePhrase(v.waiver, v.unit)}`;
         return {
           status: scopedCell ? v.status : 'out-of-scope',
           advisory: scopedCell && v.status === 'fail' && v.severity === 'advisory',
-          // The margin when there is one (a zero limit or an unbounded value has none).
+          waiverLapsed: scopedCell && v.waiver?.lapsed !== undefined,
+          // The margin when there is one (a zero limit or an unbounded value has none). A waived
+          // failure is marked W, its margin still shown: it is a failure that is excused.
           short: !scopedCell
             ? ''
             : v.status === 'fail'
               ? v.margin === null ? '✗' : `✗ ${formatMargin(v.margin)}`
-              : v.status === 'pass'
-                ? v.margin === null ? '✓' : formatMargin(v.margin)
-                : v.status === 'incomplete' ? '?' : 'n/a',
+              : v.status === 'waived'
+                ? v.margin === null ? 'W' : `W ${formatMargin(v.margin)}`
+                : v.status === 'pass'
+                  ? v.margin === null ? '✓' : formatMargin(v.margin)
+                  : v.status === 'incomplete' ? '?' : 'n/a',
           url: scopedCell ? urls.verdict(r.id, s.id) : '',
-          label: `${r.id} on ${s.id}: ${scopedCell ? STATUS_WORDS[v.status] : 'outside the rule’s scope'}${v.margin !== null ? `, margin ${formatMargin(v.margin)}` : ''}`,
+          label: `${r.id} on ${s.id}: ${scopedCell ? STATUS_WORDS[v.status] : 'outside the rule’s scope'}${v.margin !== null ? `, margin ${formatMargin(v.margin)}` : ''}${scopedCell ? waiverWords : ''}`,
         };
       }),
     })),
@@ -279,6 +312,12 @@ export async function assembleReport(h: Handbook, results: Results) {
     blocking: blocking.map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, valueText: v.valueText, limitText: v.limitText, marginText: v.marginText, ruleTitle: v.ruleTitle })),
     advisoryFailures: verdictPages.filter((v) => v.status === 'fail' && v.severity !== 'blocking').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, marginText: v.marginText, ruleTitle: v.ruleTitle })),
     incompletes: verdictPages.filter((v) => v.status === 'incomplete').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, missing: v.missing.join(', '), ruleTitle: v.ruleTitle })),
+    waived: verdictPages.filter((v) => v.status === 'waived').map((v) => ({ rule: v.rule, structure: v.structure, url: v.url, marginText: v.marginText, ruleTitle: v.ruleTitle, waiverNote: v.waiverNote, waiverUrl: v.waiverUrl })),
+    waivers: waiverPages(h, results, ruleById, structureById),
+    /** The day waivers were judged on ('' when none was given). */
+    waiversOn: results.on ?? '',
+    /** Failures whose waiver no longer holds, and waivers that excuse nothing, for the overview. */
+    waiverAlerts: waiverAlerts(h, results),
     countsSvg: await countsChart(results.counts),
     rules,
     structures,
@@ -368,18 +407,15 @@ function baseName(listed: string): string {
 }
 
 function scopeText(rule: Rule): string {
-  const a = rule.appliesTo;
-  const parts: string[] = [];
-  if (a.kinds) parts.push(`kinds ${a.kinds.join(', ')}`);
-  if (a.tags) parts.push(`tagged ${a.tags.join(' or ')}`);
-  if (a.structures) parts.push(`structures ${a.structures.join(', ')}`);
-  return parts.length ? parts.join('; ') : 'every structure';
+  return selectorText(rule.appliesTo);
 }
 
 function worstWord(vs: Verdict[]): string {
   if (vs.some((v) => v.status === 'fail' && v.severity === 'blocking')) return 'fail';
   if (vs.some((v) => v.status === 'fail')) return 'fail-advisory';
   if (vs.some((v) => v.status === 'incomplete')) return 'incomplete';
+  // An excused failure is still not a pass.
+  if (vs.some((v) => v.status === 'waived')) return 'waived';
   if (vs.some((v) => v.status === 'pass')) return 'pass';
   return 'not-applicable';
 }
@@ -405,4 +441,128 @@ function variantsOf(name: string): Array<{ label: string; formulaHtml: string }>
     }
   }
   return [...seen.entries()].map(([formula, kinds]) => ({ label: kinds.join(', '), formulaHtml: texToMathml(formula, true) }));
+}
+
+type WaiverState = WaiverUse['state'] | 'not-judged';
+
+/** A waiver's state on the evaluation date: a word and a sentence (no date given: not judged). */
+function waiverState(w: Waiver, use: WaiverUse | undefined, on: string | undefined): { state: WaiverState; stateWord: string; stateText: string } {
+  if (!use || on === undefined) return { state: 'not-judged', stateWord: WAIVER_STATE_WORDS['not-judged'], stateText: 'No evaluation date was given, so no waiver was applied: every failure counts.' };
+  const n = use.waives.length;
+  const beyond = use.lapsed.filter((l) => l.lapsed === 'beyond-floor').length;
+  const text =
+    use.state === 'expired'
+      ? use.lapsed.length
+        ? `Expired: its last day was ${w.expires} (judged on ${on}); the ${use.lapsed.length === 1 ? 'failure it selected counts' : `${use.lapsed.length} failures it selected count`} again.`
+        : `Judged on ${on}: ${expiredUnneededPhrase(use)}.`
+      : use.state === 'unused'
+        ? `Judged on ${on}: ${unusedPhrase(use)}.`
+        : `Holds through ${w.expires} (judged on ${on}): it waives ${n === 1 ? 'one failure' : `${n} failures`}${beyond ? `; ${beyond === 1 ? 'one failure is' : `${beyond} failures are`} beyond the limit it requires and ${beyond === 1 ? 'counts' : 'count'}` : ''}.`;
+  return { state: use.state, stateWord: WAIVER_STATE_WORDS[use.state], stateText: text };
+}
+
+/** A waiver named on a rule's or a structure's page. */
+function waiverLink(w: Waiver, use: WaiverUse | undefined, on: string | undefined) {
+  const { state, stateWord } = waiverState(w, use, on);
+  return { id: w.id, url: urls.waiver(w.id), state, stateWord, expires: w.expires, selectionText: selectionOf(w) };
+}
+
+function selectionOf(w: Waiver): string {
+  return selectorText(w.appliesTo);
+}
+
+/** A phrase as a sentence: its first letter in capitals. */
+function sentence(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** Where a waiver is written, as editors link it. */
+function placeOf(w: Waiver): string {
+  return `${w.pos.file}:${w.pos.line}:${w.pos.column}`;
+}
+
+/** The waiver section of a verdict page: what the waiver says, and whether it holds for this verdict. */
+function waiverOnVerdict(v: Verdict, waiverById: ReadonlyMap<string, Waiver>) {
+  if (!v.waiver) return null;
+  const w = waiverById.get(v.waiver.id)!;
+  const holds = v.status === 'waived';
+  return {
+    id: w.id,
+    url: urls.waiver(w.id),
+    holds,
+    heading: holds ? 'Waived' : 'Waiver no longer holds',
+    stateText: sentence(holds ? `${waivedPhrase(v.waiver)}: this failure is excused and does not count as one.` : `${lapsePhrase(v.waiver, v.unit)}; this failure counts.`),
+    reasonHtml: renderMarkdown(w.reason),
+    owner: w.owner,
+    approvedBy: w.approvedBy,
+    expires: w.expires,
+    place: placeOf(w),
+    floorText: w.stillWithin ? floorPhrase(w.stillWithin, v.unit) : '',
+    selectionText: selectionOf(w),
+  };
+}
+
+/** Every waiver with its state, and the verdicts of its rule on the structures it selects. */
+function waiverPages(h: Handbook, results: Results, ruleById: ReadonlyMap<string, Rule>, structureById: ReadonlyMap<string, Structure>) {
+  const useById = new Map(results.waivers.map((u) => [u.id, u]));
+  return h.waivers.map((w) => {
+    const rule = ruleById.get(w.rule)!;
+    const unit = QUANTITIES.get(rule.quantity)!.unit;
+    const use = useById.get(w.id);
+    const selected = results.verdicts.filter((v) => {
+      if (v.rule !== w.rule) return false;
+      const s = structureById.get(v.structure)!;
+      return appliesTo(w, s) && appliesTo(rule, s);
+    });
+    const lines: string[] = [];
+    if (use) {
+      for (const l of use.lapsed) {
+        const v = selected.find((x) => x.structure === l.structure);
+        lines.push(failsAgainPhrase(use, w.rule, l.structure, l.lapsed, v?.waiver?.stillWithin ? floorPhrase(v.waiver.stillWithin, v.unit) : undefined));
+      }
+    }
+    return {
+      id: w.id,
+      url: urls.waiver(w.id),
+      rule: rule.id,
+      ruleTitle: rule.title,
+      ruleUrl: urls.rule(rule.id),
+      limitText: limitPhrase(rule, unit),
+      selectionText: selectionOf(w),
+      reasonHtml: renderMarkdown(w.reason),
+      owner: w.owner,
+      approvedBy: w.approvedBy,
+      peopleText: waiverPeoplePhrase(w),
+      expires: w.expires,
+      place: placeOf(w),
+      floorText: w.stillWithin ? floorPhrase(w.stillWithin, unit) : '',
+      ...waiverState(w, use, results.on),
+      failsAgain: lines,
+      verdicts: selected.map((v) => ({ ...row(v, rule, structureById.get(v.structure)!), effect: effectOn(v, w) })),
+    };
+  });
+}
+
+/** What a waiver does to one verdict of its rule that it selects. */
+function effectOn(v: Verdict, w: Waiver): string {
+  if (v.status === 'waived') return v.waiver?.id === w.id ? 'waived by this waiver' : `waived by ${v.waiver?.id ?? 'another waiver'}`;
+  if (v.status === 'fail') return v.waiver?.id === w.id ? `counts: ${lapsePhrase(v.waiver, v.unit)}` : 'counts: no waiver of it holds';
+  if (v.status === 'pass') return 'passes: nothing to waive';
+  if (v.status === 'incomplete') return 'incomplete: a waiver excuses failures only';
+  return 'not applicable';
+}
+
+/** Sentences for the overview: each failure that counts again, each waiver that excuses nothing. */
+function waiverAlerts(h: Handbook, results: Results): Array<{ id: string; url: string; text: string }> {
+  const out: Array<{ id: string; url: string; text: string }> = [];
+  for (const use of results.waivers) {
+    const url = urls.waiver(use.id);
+    for (const l of use.lapsed) {
+      const v = results.verdicts.find((x) => x.rule === use.rule && x.structure === l.structure);
+      out.push({ id: use.id, url, text: failsAgainPhrase(use, use.rule, l.structure, l.lapsed, v?.waiver?.stillWithin ? floorPhrase(v.waiver.stillWithin, v.unit) : undefined) });
+    }
+    if (use.expired && use.lapsed.length === 0) out.push({ id: use.id, url, text: expiredUnneededPhrase(use) });
+    else if (use.unused) out.push({ id: use.id, url, text: unusedPhrase(use) });
+  }
+  return h.waivers.length ? out : [];
 }

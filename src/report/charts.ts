@@ -9,11 +9,19 @@ import { compile, type TopLevelSpec } from 'vega-lite';
 export const PALETTE = {
   pass: '#2f7d5b',
   fail: '#b8432f',
+  // A failure excused by a waiver: neither the green of a pass nor the red of a fail (indigo).
+  waived: '#4a55a2',
   incomplete: '#a7791b',
   'not-applicable': '#8a8f98',
   ink: '#1d2733',
   grid: '#d9dee5',
 };
+
+/** The verdicts the overview's count chart has a bar for, in order. */
+const COUNTED = ['pass', 'fail', 'waived', 'incomplete'];
+
+/** Colours of the verdicts a chart marks (a waived value is still shown where it lies). */
+const STATUS_SCALE = { domain: ['pass', 'fail', 'waived'], range: [PALETTE.pass, PALETTE.fail, PALETTE.waived] };
 
 const CONFIG = {
   font: 'system-ui, sans-serif',
@@ -56,7 +64,7 @@ const KINDS: Record<string, ChartKind> = {
           encoding: {
             y: { field: 'label', type: 'nominal', sort: null },
             x: { field: 'value', type: 'quantitative' },
-            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+            color: { field: 'status', type: 'nominal', scale: STATUS_SCALE, legend: null },
           },
         },
         {
@@ -86,7 +94,7 @@ const KINDS: Record<string, ChartKind> = {
           encoding: {
             y: { field: 'label', type: 'nominal', sort: null, title: null, axis: { labelLimit: 220 } },
             x: { field: 'shown', type: 'quantitative', title: 'margin to the limit (%, clipped at ±100)', scale: { domain: { unionWith: [-10, 10] }, clamp: true } },
-            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+            color: { field: 'status', type: 'nominal', scale: STATUS_SCALE, legend: null },
           },
         },
         { mark: { type: 'rule', color: PALETTE.ink, strokeWidth: 1.5 }, encoding: { x: { datum: 0, type: 'quantitative' } } },
@@ -140,7 +148,7 @@ const KINDS: Record<string, ChartKind> = {
           encoding: {
             x: { field: 'x', type: 'quantitative' },
             y: { field: 'y', type: 'quantitative' },
-            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail'], range: [PALETTE.pass, PALETTE.fail] }, legend: null },
+            color: { field: 'status', type: 'nominal', scale: STATUS_SCALE, legend: null },
           },
         },
       ],
@@ -158,14 +166,14 @@ const KINDS: Record<string, ChartKind> = {
         {
           mark: { type: 'bar', cornerRadiusEnd: 2 },
           encoding: {
-            y: { field: 'status', type: 'nominal', sort: ['pass', 'fail', 'incomplete'], title: null },
+            y: { field: 'status', type: 'nominal', sort: COUNTED, title: null },
             x: { field: 'n', type: 'quantitative', title: 'verdicts', axis: { tickMinStep: 1 } },
-            color: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail', 'incomplete'], range: [PALETTE.pass, PALETTE.fail, PALETTE.incomplete] }, legend: null },
+            color: { field: 'status', type: 'nominal', scale: { domain: COUNTED, range: [PALETTE.pass, PALETTE.fail, PALETTE.waived, PALETTE.incomplete] }, legend: null },
           },
         },
         {
           mark: { type: 'text', align: 'left', dx: 4, color: PALETTE.ink },
-          encoding: { y: { field: 'status', type: 'nominal', sort: ['pass', 'fail', 'incomplete'] }, x: { field: 'n', type: 'quantitative' }, text: { field: 'n' } },
+          encoding: { y: { field: 'status', type: 'nominal', sort: COUNTED }, x: { field: 'n', type: 'quantitative' }, text: { field: 'n' } },
         },
       ],
     } as TopLevelSpec,
@@ -266,7 +274,9 @@ export function sweepChart(
   return renderChart('sweep', { curve, companion, overlay, own: [own], limit: limit === null ? [] : [{ limit }] }, xTitle, yTitle);
 }
 
-/** Count of verdicts by status, one bar each. */
+/** Count of verdicts by status, one bar each (waived only when there are some: a handbook without
+ * waivers keeps its chart). */
 export function countsChart(counts: Record<string, number>): Promise<string> {
-  return renderChart('counts', { rows: ['pass', 'fail', 'incomplete'].map((status) => ({ status, n: counts[status] ?? 0 })) });
+  const shown = COUNTED.filter((status) => status !== 'waived' || (counts.waived ?? 0) > 0);
+  return renderChart('counts', { rows: shown.map((status) => ({ status, n: counts[status] ?? 0 })) });
 }

@@ -104,7 +104,7 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   // good report: a rejected step never stops the chain.
   let chain: Promise<void> = Promise.resolve();
   const once = async (): Promise<void> => {
-    const outcome = checkHandbook(new FolderSource(root));
+    const outcome = checkHandbook(new FolderSource(root), { on: new Date().toISOString().slice(0, 10) });
     if (!outcome.ok) {
       io.err(formatDiagnostics(outcome.diagnostics, 'the last good report is still served'));
       return;
@@ -177,7 +177,7 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
     }, 150);
   };
   const watchFolders = () => {
-    for (const dir of ['structures', 'rules']) {
+    for (const dir of ['structures', 'rules', 'waivers']) {
       if (watchers.has(dir)) continue;
       try {
         const w = watch(join(root, dir), { recursive: true }, soon);

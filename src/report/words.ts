@@ -1,6 +1,6 @@
 // Sentences about verdicts, shared by the terminal and the site.
-import type { Status, Verdict } from '../checker/evaluate.ts';
-import type { ParamOrigin, Rule } from '../model/types.ts';
+import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
+import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
 import { formatValue } from './format.ts';
 
 export const CAUTION =
@@ -32,4 +32,50 @@ export function originPhrase(o: ParamOrigin): string {
 
 export function cornerPhrase(name: string, side: 'low' | 'high', value: number, unit: string): string {
   return `${name} at its ${side} end, ${formatValue(value, unit)}`;
+}
+
+/** A waiver on the evaluation date, in one word. */
+export const WAIVER_STATE_WORDS: Record<WaiverUse['state'] | 'not-judged', string> = {
+  active: 'active',
+  expired: 'expired',
+  unused: 'unused',
+  'not-judged': 'not judged',
+};
+
+/** `≥ 0.98`: the limit a waived value must still meet. */
+export function floorPhrase(floor: { comparison: Comparison; limit: number }, unit: string): string {
+  return limitPhrase(floor, unit);
+}
+
+/** The waiver behind a waived verdict: `waived by W-X through 2027-06-30`. */
+export function waivedPhrase(w: Pick<WaiverRef, 'id' | 'expires'>): string {
+  return `waived by ${w.id} through ${w.expires}`;
+}
+
+/** Who answers for a waiver: `owner …, approved by …`. */
+export function waiverPeoplePhrase(w: Pick<WaiverRef, 'owner' | 'approvedBy'>): string {
+  return `owner ${w.owner}, approved by ${w.approvedBy}`;
+}
+
+/** Why a waiver no longer excuses a failure it selects. */
+export function lapsePhrase(w: WaiverRef, unit: string): string {
+  if (w.lapsed === 'expired') return `waiver ${w.id} expired: its last day was ${w.expires}`;
+  return `waiver ${w.id} does not cover it: the value is beyond the limit the waiver requires (${w.stillWithin ? floorPhrase(w.stillWithin, unit) : '—'})`;
+}
+
+/** One failure that counts again because its waiver lapsed. */
+export function failsAgainPhrase(use: Pick<WaiverUse, 'id' | 'expires'>, rule: string, structure: string, lapse: 'expired' | 'beyond-floor', floor?: string): string {
+  return lapse === 'expired'
+    ? `waiver ${use.id} expired: its last day was ${use.expires}; ${rule} on ${structure} fails again`
+    : `waiver ${use.id}: ${rule} on ${structure} is beyond the limit the waiver requires (${floor ?? '—'}); it fails`;
+}
+
+/** A waiver that selects no failing verdict. */
+export function unusedPhrase(use: Pick<WaiverUse, 'id' | 'rule'>): string {
+  return `waiver ${use.id} (${use.rule}) waives nothing: no verdict it selects fails (left over after a fix? remove it)`;
+}
+
+/** A waiver past its date that no failure needs any more (another waiver or a fix took its place). */
+export function expiredUnneededPhrase(use: Pick<WaiverUse, 'id' | 'expires'>): string {
+  return `waiver ${use.id} expired: its last day was ${use.expires}; no failure counts again because of it (remove it)`;
 }

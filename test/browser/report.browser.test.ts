@@ -26,13 +26,13 @@ function htmlFiles(dir: string): string[] {
 
 beforeAll(async () => {
   site = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-')), 'site');
-  const outcome = checkHandbook(new FolderSource(ROOT));
+  const outcome = checkHandbook(new FolderSource(ROOT), { on: "2026-12-02" });
   if (!outcome.ok) throw new Error('demo handbook does not load');
   keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);
   // Hostile text: remote and protocol-relative images, raw HTML, long unbroken titles and links.
   hostileSite = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-hostile-')), 'site');
-  const hostile = checkHandbook(new FolderSource(join(ROOT, 'test/fixtures/ok_hostile')));
+  const hostile = checkHandbook(new FolderSource(join(ROOT, "test/fixtures/ok_hostile")), { on: "2026-12-02" });
   if (!hostile.ok) throw new Error('hostile fixture does not load');
   await buildSite(hostile.handbook, hostile.results, hostileSite);
   browser = await chromium.launch({ executablePath: (await findChromium()).path, args: CHROMIUM_FLAGS });
@@ -69,6 +69,44 @@ describe('report in chromium', () => {
     // The formula is typeset and the derivation lists its steps.
     await expect(page.locator('ol.steps math').count()).resolves.toBeGreaterThan(0);
     expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it('shows the waived cell in the matrix apart from pass and fail, by colour and by mark, and follows it to its waiver', async () => {
+    // The demo's W-ISO-PT-1 waives ISO-PT-1 on cell-isolation-trench on 2026-12-02 (its last day is
+    // 2027-06-30): one waived cell, which must not read as a pass or a fail without colour either.
+    const page = await browser.newPage();
+    await page.goto(pathToFileURL(join(site, 'matrix', 'index.html')).href);
+    const waived = page.locator('td.cell[data-status="waived"]');
+    await expect(waived.count()).resolves.toBe(1);
+    const look = (selector: string) =>
+      page.evaluate(`(() => { const td = document.querySelector(${JSON.stringify(selector)}); const a = td.querySelector('a'); const s = getComputedStyle(td); const l = getComputedStyle(a);
+        return { background: s.backgroundColor, color: s.color, border: l.borderTopStyle, text: a.textContent, label: a.getAttribute('aria-label') }; })()`) as Promise<{ background: string; color: string; border: string; text: string; label: string }>;
+    const w = await look('td.cell[data-status="waived"]');
+    const pass = await look('td.cell[data-status="pass"]');
+    const fail = await look('td.cell[data-status="fail"]:not(.c-fail-advisory)');
+    expect(w.background).not.toBe(pass.background);
+    expect(w.background).not.toBe(fail.background);
+    expect(w.color).not.toBe(pass.color);
+    expect(w.color).not.toBe(fail.color);
+    // Without colour: a W before the margin, a dashed frame, and the waiver said in the label.
+    expect(w.text).toMatch(/^W /);
+    expect(w.border).toBe('dashed');
+    expect([pass.border, fail.border]).toEqual(['none', 'none']);
+    expect(w.label).toMatch(/^ISO-PT-1 on cell-isolation-trench: waived, .*W-ISO-PT-1 through 2027-06-30$/);
+    // The legend names the mark.
+    await expect(page.locator('.legend .c-waived').innerText()).resolves.toMatch(/W\s+waived/);
+
+    await waived.locator('a').click();
+    await page.waitForURL(/\/rules\/ISO-PT-1\/cell-isolation-trench\/index\.html$/);
+    await expect(page.locator('h1 .badge').getAttribute('data-status')).resolves.toBe('waived');
+    const box = page.locator('section.waiver-box');
+    await expect(box.isVisible()).resolves.toBe(true);
+    const facts = await box.locator('dl.waiver-facts').innerText();
+    for (const fact of ['Ines Vardaker', 'Tobiah Rensmark', '2027-06-30', '≥ 0.98', 'waivers/isolation.yaml:2:1']) expect(facts).toContain(fact);
+    await box.locator('h2 a').click();
+    await page.waitForURL(/\/waivers\/W-ISO-PT-1\/index\.html$/);
+    await expect(page.locator('h1 .state').innerText()).resolves.toMatch(/active/i);
     await page.close();
   });
 

@@ -179,6 +179,9 @@ describe('values that are unbounded or do not exist', () => {
   });
 });
 
+/** The day the demo's waivers are judged on: before W-ISO-PT-1's last day, 2027-06-30. */
+const ON = { on: '2026-12-02' };
+
 describe('the demo handbook, verdict by verdict', () => {
   let handbook: Handbook;
   beforeAll(() => {
@@ -318,7 +321,9 @@ describe('the demo handbook, verdict by verdict', () => {
     ['SN-SIGNAL-1', 'storage-node', 'fail', null],
     // Isolation (abrupt junction, Sze & Ng): shortest path at depth 220 nm, CD 22 nm, 88.2°:
     // 2·220 + (22 − 440·tan 1.8°) = 448.17 nm; W(20 V) + W(0) on 2e17 cm⁻³ (n⁺ 1e20, n_i 9.65e9).
-    ['ISO-PT-1', 'cell-isolation-trench', 'fail', punchThrough()],
+    // It fails its limit of 1, and waiver W-ISO-PT-1 (waivers/isolation.yaml: through 2027-06-30,
+    // still at least 0.98) excuses it on ON: 0.995 ≥ 0.98.
+    ['ISO-PT-1', 'cell-isolation-trench', 'waived', punchThrough()],
     // Fill field at the narrowest top, 22 nm: 20 V/22 nm = 9.09 MV/cm; 10/9.09 = 1.1 (at the limit: passes).
     ['ISO-BD-1', 'cell-isolation-trench', 'pass', 1.1],
     // Fin: (2·59 + 8)/36 = 3.5 at the lowest, narrowest corner (tri-gate, common practice).
@@ -351,7 +356,7 @@ describe('the demo handbook, verdict by verdict', () => {
   ];
 
   it('has exactly the applicable verdicts worked out by hand, with their values', () => {
-    const results = evaluateHandbook(handbook);
+    const results = evaluateHandbook(handbook, ON);
     const applicable = results.verdicts.filter((v) => v.status !== 'not-applicable');
     expect(applicable.map((v) => `${v.rule}/${v.structure}`).sort()).toEqual(expected.map(([r, s]) => `${r}/${s}`).sort());
     for (const [rule, structure, status, value] of expected) {
@@ -368,24 +373,33 @@ describe('the demo handbook, verdict by verdict', () => {
 
   it('the storage-node dielectric fills the floor of its cup: no value, and the reason says where', () => {
     // Floor 6.7843 nm < 2 × 5 nm (worked out beside SN-DIEL-1 above).
-    const v = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-DIEL-1' && x.structure === 'storage-node')!;
+    const v = evaluateHandbook(handbook, ON).verdicts.find((x) => x.rule === 'SN-DIEL-1' && x.structure === 'storage-node')!;
     expect(v.value).toBeNull();
     expect(v.reason).toMatch(/closes the opening at its bottom \(6\.78 nm wide there\)/);
     // The same floor leaves no room for the cell's inner plate: the signal has no value either.
-    const signal = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-SIGNAL-1' && x.structure === 'storage-node')!;
+    const signal = evaluateHandbook(handbook, ON).verdicts.find((x) => x.rule === 'SN-SIGNAL-1' && x.structure === 'storage-node')!;
     expect(signal.value).toBeNull();
     expect(signal.reason).toMatch(/fills the cup where it is narrowest/);
   });
 
-  it('counts 38 pass, 14 fail (10 blocking), 1 incomplete, 453 not applicable', () => {
-    // 46 rules × 11 structures = 506 pairs; the 53 in the table above apply, so 453 do not.
-    const r = evaluateHandbook(handbook);
-    expect(r.counts).toEqual({ pass: 38, fail: 14, incomplete: 1, 'not-applicable': 453 });
+  it('counts 38 pass, 13 fail (9 blocking), 1 waived, 1 incomplete, 453 not applicable', () => {
+    // 46 rules × 11 structures = 506 pairs; the 53 in the table above apply, so 453 do not. Of the
+    // 14 failures, the blocking ISO-PT-1 one is waived on ON.
+    const r = evaluateHandbook(handbook, ON);
+    expect(r.counts).toEqual({ pass: 38, fail: 13, waived: 1, incomplete: 1, 'not-applicable': 453 });
+    expect(r.blockingFailures).toBe(9);
+  });
+
+  it('counts the waived failure again the day after its waiver’s last day', () => {
+    // W-ISO-PT-1's last day is 2027-06-30: on 2027-07-01 the 14 failures (10 blocking) all count.
+    const r = evaluateHandbook(handbook, { on: '2027-07-01' });
+    expect(r.counts).toEqual({ pass: 38, fail: 14, waived: 0, incomplete: 1, 'not-applicable': 453 });
     expect(r.blockingFailures).toBe(10);
+    expect(r.waivers.map((w) => [w.id, w.state, w.lapsed])).toEqual([['W-ISO-PT-1', 'expired', [{ structure: 'cell-isolation-trench', lapsed: 'expired' }]]]);
   });
 
   it('names the worst corner of SN-AR-1: height high, cd low', () => {
-    const v = evaluateHandbook(handbook).verdicts.find((x) => x.rule === 'SN-AR-1' && x.structure === 'storage-node')!;
+    const v = evaluateHandbook(handbook, ON).verdicts.find((x) => x.rule === 'SN-AR-1' && x.structure === 'storage-node')!;
     const corner = sortCorner(v.worstCorner);
     expect(corner.map((c) => [c.name, c.side])).toEqual([
       ['geometry.cd', 'low'],
@@ -399,8 +413,8 @@ describe('the demo handbook, verdict by verdict', () => {
   it('gives byte-identical JSON when the handbook is loaded and evaluated twice', () => {
     const again = loadHandbookFolder(DEMO_ROOT);
     if (!again.ok) throw new Error('demo handbook does not load');
-    const a = JSON.stringify(evaluateHandbook(handbook));
-    const b = JSON.stringify(evaluateHandbook(again.handbook));
+    const a = JSON.stringify(evaluateHandbook(handbook, ON));
+    const b = JSON.stringify(evaluateHandbook(again.handbook, ON));
     expect(a.length).toBeGreaterThan(1000);
     expect(b).toBe(a);
   });

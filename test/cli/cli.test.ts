@@ -28,13 +28,27 @@ describe('check', () => {
 
   it('prints parseable JSON with counts', async () => {
     // 53 applicable pairs of 506 (46 rules × 11 structures): 38 pass, 14 fail (10 blocking), 1
-    // incomplete — each worked out in test/checker/checker.test.ts.
-    const r = await cli('check', '--root', ROOT, '--json');
+    // incomplete — each worked out in test/checker/checker.test.ts; on 2026-12-02 waiver
+    // W-ISO-PT-1 (last day 2027-06-30) excuses the blocking ISO-PT-1 failure: 13 fail (9 blocking).
+    const r = await cli('check', '--root', ROOT, '--json', '--on', '2026-12-02');
     expect(r.code).toBe(1);
-    const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: unknown[] };
-    expect(j.counts).toEqual({ pass: 38, fail: 14, incomplete: 1, 'not-applicable': 453 });
-    expect(j.blocking_failures).toBe(10);
+    const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: Array<{ rule: string; structure: string; status: string; waiver?: { id: string; expires: string } }> };
+    expect(j.counts).toEqual({ pass: 38, fail: 13, waived: 1, incomplete: 1, 'not-applicable': 453 });
+    expect(j.blocking_failures).toBe(9);
     expect(j.verdicts).toHaveLength(506);
+    const waived = j.verdicts.find((v) => v.rule === 'ISO-PT-1' && v.structure === 'cell-isolation-trench');
+    expect([waived?.status, waived?.waiver?.id, waived?.waiver?.expires]).toEqual(['waived', 'W-ISO-PT-1', '2027-06-30']);
+  });
+
+  it('names a waived failure, and an expired waiver whose failure counts again', async () => {
+    // W-ISO-PT-1 (waivers/isolation.yaml): last day 2027-06-30; the day after, ISO-PT-1 fails again.
+    const before = await cli('check', '--root', ROOT, '--on', '2027-06-30');
+    expect(before.out).toMatch(/^waived +ISO-PT-1 +cell-isolation-trench/m);
+    expect(before.out).toMatch(/ISO-PT-1 on cell-isolation-trench: waived by W-ISO-PT-1 through 2027-06-30; owner Ines Vardaker/);
+    const after = await cli('check', '--root', ROOT, '--on', '2027-07-01');
+    expect(after.code).toBe(1);
+    expect(after.out).toContain('waiver W-ISO-PT-1 expired: its last day was 2027-06-30; ISO-PT-1 on cell-isolation-trench fails again');
+    expect(after.out).toMatch(/^FAIL +ISO-PT-1 +cell-isolation-trench/m);
   });
 
   it('accepts --root before the command too', async () => {
@@ -47,7 +61,7 @@ describe('check', () => {
     const r = await cli('check', '--root', FIXTURES + 'ok_small', '--json');
     expect(r.code).toBe(0);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; verdicts: Array<{ quantity: string; status: string; value: number | null }> };
-    expect(j.counts).toEqual({ pass: 3, fail: 0, incomplete: 0, 'not-applicable': 3 });
+    expect(j.counts).toEqual({ pass: 3, fail: 0, waived: 0, incomplete: 0, 'not-applicable': 3 });
     const valueOf = (q: string) => j.verdicts.find((v) => v.quantity === q && v.status === 'pass')?.value ?? null;
     expectRel(valueOf('geometry.aspect_ratio'), 410 / 38, 9);
     expectRel(valueOf('geometry.space'), 68e-9, 9);
@@ -129,9 +143,10 @@ describe('the real binary', () => {
   });
 
   it('gives byte-identical JSON from two separate processes (the brief: results are deterministic)', () => {
-    const once = () => spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'C' } });
+    // One fixed day for both, so a run across midnight compares like with like.
+    const once = () => spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json', '--on', '2026-12-02'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'C' } });
     const a = once();
-    const b = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'tr_TR.UTF-8', LC_ALL: 'tr_TR.UTF-8' } });
+    const b = spawnSync(process.execPath, ['bin/plumbline.js', 'check', '--root', '.', '--json', '--on', '2026-12-02'], { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, LANG: 'tr_TR.UTF-8', LC_ALL: 'tr_TR.UTF-8' } });
     expect(a.status).toBe(1);
     expect(b.stdout).toBe(a.stdout);
   });

@@ -86,9 +86,9 @@ describe('tolerances from materials.yaml are dropped (regression: only the nomin
   });
 
   it('gives the same worst-case verdict as the same tolerance written inline', () => {
-    const fromTable = evaluateHandbook(loaded(handbook({}))).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
+    const fromTable = evaluateHandbook(loaded(handbook({})), { on: '2026-12-02' }).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
     const inline = base('structures/via.yaml', ['conductor: { material: bench-copper }', 'conductor: { material: copper, resistivity: 2.0 µΩ·cm ± 0.1 }']);
-    const written = evaluateHandbook(loaded(handbook({ 'structures/via.yaml': inline }))).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
+    const written = evaluateHandbook(loaded(handbook({ 'structures/via.yaml': inline })), { on: '2026-12-02' }).verdicts.find((v) => v.rule === 'VIA-R-1' && v.structure === 'via')!;
     expect(fromTable.value).not.toBeNull();
     expect(fromTable.value).toBe(written.value);
     expect(fromTable.worstCorner?.map((c) => `${c.name}:${c.side}`)).toContain('via.conductor_resistivity:high');

@@ -21,20 +21,23 @@ function htmlFiles(dir: string): string[] {
 
 beforeAll(async () => {
   out = join(mkdtempSync(join(tmpdir(), 'plumbline-site-')), 'site');
-  const outcome = checkHandbook(new FolderSource(ROOT));
+  const outcome = checkHandbook(new FolderSource(ROOT), { on: "2026-12-02" });
   if (!outcome.ok) throw new Error('demo handbook does not load');
   await buildSite(outcome.handbook, outcome.results, out);
 }, 120_000);
 
 describe('demo site', () => {
   it('has a page per rule, per structure and per in-scope verdict, at the stable URLs', () => {
-    const outcome = checkHandbook(new FolderSource(ROOT));
+    const outcome = checkHandbook(new FolderSource(ROOT), { on: "2026-12-02" });
     if (!outcome.ok) throw new Error('unreachable');
     for (const r of outcome.handbook.rules) expect(existsSync(join(out, 'rules', r.id, 'index.html')), r.id).toBe(true);
     for (const s of outcome.handbook.structures) expect(existsSync(join(out, 'structures', s.id, 'index.html')), s.id).toBe(true);
     // The brief's example verdict URL: /rules/<RULE>/<structure>/
     expect(existsSync(join(out, 'rules', 'SN-AR-1', 'storage-node', 'index.html'))).toBe(true);
-    for (const p of ['index.html', 'matrix/index.html', 'rules/index.html', 'structures/index.html', 'methods/index.html', 'methods/geometry/index.html', 'schemas/index.html']) {
+    // A page per waiver, to link from a change request: /waivers/<id>/ (the demo has one).
+    expect(outcome.handbook.waivers.map((w) => w.id)).toEqual(['W-ISO-PT-1']);
+    for (const w of outcome.handbook.waivers) expect(existsSync(join(out, 'waivers', w.id, 'index.html')), w.id).toBe(true);
+    for (const p of ['index.html', 'matrix/index.html', 'rules/index.html', 'structures/index.html', 'waivers/index.html', 'methods/index.html', 'methods/geometry/index.html', 'schemas/index.html']) {
       expect(existsSync(join(out, p)), p).toBe(true);
     }
   });
@@ -68,7 +71,7 @@ describe('demo site', () => {
   });
 
   it('publishes the JSON Schemas as valid JSON', () => {
-    for (const f of ['structure.schema.json', 'rule.schema.json', 'materials.schema.json', 'handbook.schema.json']) {
+    for (const f of ['structure.schema.json', 'rule.schema.json', 'waiver.schema.json', 'materials.schema.json', 'handbook.schema.json']) {
       const schema = JSON.parse(readFileSync(join(out, 'schemas', f), 'utf8')) as { $schema?: string };
       expect(schema.$schema).toMatch(/json-schema\.org/);
     }
@@ -87,12 +90,27 @@ describe('demo site', () => {
     expect(fill).toContain('void ');
   });
 
+  it('shows the waived verdict with its waiver: who, until when, where written and the limit it must still meet', () => {
+    // W-ISO-PT-1 (waivers/isolation.yaml, its mapping at line 2 after a comment): ISO-PT-1 on
+    // cell-isolation-trench, last day 2027-06-30, still at least 0.98; judged on 2026-12-02.
+    const page = readFileSync(join(out, 'rules', 'ISO-PT-1', 'cell-isolation-trench', 'index.html'), 'utf8');
+    expect(page).toContain('data-status="waived"');
+    for (const fact of ['W-ISO-PT-1', 'Ines Vardaker', 'Tobiah Rensmark', '2027-06-30', 'waivers/isolation.yaml:2:1', '≥ 0.98', 'mask revision C']) expect(page, fact).toContain(fact);
+    const waiver = readFileSync(join(out, 'waivers', 'W-ISO-PT-1', 'index.html'), 'utf8');
+    expect(waiver).toContain('state-active');
+    expect(waiver).toContain('judged on 2026-12-02');
+    // The overview counts it apart from the failures.
+    const overview = readFileSync(join(out, 'index.html'), 'utf8');
+    expect(overview).toMatch(/<div class="tile tile-waived"><span class="n">1<\/span> waived/);
+    expect(overview).toMatch(/<span class="n">9<\/span> blocking failures/);
+  });
+
   it('renders rationale markdown with raw HTML switched off', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-md-'));
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
     const rulesFile = join(dir, 'rules', 'rules.yaml');
     writeFileSync(rulesFile, readFileSync(rulesFile, 'utf8').replace(/rationale: .*/, 'rationale: "**bold** <script>alert(1)</script>"'));
-    const outcome = checkHandbook(new FolderSource(dir));
+    const outcome = checkHandbook(new FolderSource(dir), { on: "2026-12-02" });
     if (!outcome.ok) throw new Error(JSON.stringify(outcome.diagnostics));
     const site = join(dir, 'site');
     await buildSite(outcome.handbook, outcome.results, site);
