@@ -204,7 +204,8 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .description('publish the report as a static site (written aside and swapped in; an invalid handbook leaves the old report untouched)')
     .option('--out <dir>', 'output folder: absent, empty, or a report plumbline wrote', 'site')
     .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
-    .action(async (opts: { out: string; on?: string }, cmd: Command) => {
+    .option('--no-history', "leave the handbook's git history out of the report (timelines, audit page)")
+    .action(async (opts: { out: string; on?: string; history: boolean }, cmd: Command) => {
       const root = rootOf(cmd);
       const { checkHandbook, FolderSource } = await core();
       const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc() });
@@ -214,10 +215,12 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       }
       printWarnings(io, outcome.handbook.warnings);
       const { buildSite } = await import('../report/site.ts');
+      const on = opts.on ?? todayUtc();
+      const history = opts.history ? (await import('../report/site-history.ts')).siteHistory(root, outcome.handbook.meta.links ?? {}, TOOL_VERSION, on) : undefined;
       const { writeFailure } = await import('../report/publish.ts');
       const out = resolve(root, opts.out);
       try {
-        const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline build', onWait: (h) => io.err(`waiting for another build of ${out} (pid ${h.pid}, started ${h.started}) to finish`) });
+        const stats = await buildSite(outcome.handbook, outcome.results, out, { command: 'plumbline build', extras: { tool: TOOL_VERSION, ...(history ? { history } : {}) }, onWait: (h) => io.err(`waiting for another build of ${out} (pid ${h.pid}, started ${h.started}) to finish`) });
         stats.recovered.forEach((n) => io.err(n));
         io.out(`wrote ${stats.pages} pages to ${out}\nopen ${resolve(out, 'index.html')}`);
         setExit(0);

@@ -1,6 +1,7 @@
 // What history and diff print: a terminal listing of transitions by commit, and the Markdown a
 // reviewer pastes into a change request. Pure text from the records; no git, no file system.
 import { formatMargin } from '../report/format.ts';
+import { urls } from '../report/urls.ts';
 import { changeText, type HistoryReport, type Transition, type WaiverEvent } from './history.ts';
 
 export interface Links {
@@ -101,7 +102,7 @@ function section(title: string, ts: Transition[], links: Links): string[] {
   const out = ['', `#### ${title} (${ts.length})`, ''];
   for (const t of ts) {
     const name = `${t.rule} on ${t.structure}`;
-    const url = pageUrl(links, t.kind === 'removed' ? `/rules/${t.rule}/` : `/rules/${t.rule}/${t.structure}/`);
+    const url = pageUrl(links, t.kind === 'removed' ? urls.rule(t.rule) : urls.verdict(t.rule, t.structure));
     const label = url ? `[${md(name)}](${url})` : `**${md(name)}**`;
     out.push(`- ${label}: ${md(statusChange(t))}${valueChange(t) ? `, ${md(valueChange(t))}` : ''}${t.severity === 'advisory' ? ' (advisory)' : ''}${t.renamedFrom ? ` (structure renamed from ${md(t.renamedFrom)})` : ''}`);
     for (const c of t.causes) out.push(`  - ${md(changeText(c))}`);

@@ -5,7 +5,8 @@ import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Selector, type Structure, type Waiver } from '../model/types.ts';
-import { countsChart, marginChart, sweepChart, valueChart } from './charts.ts';
+import { countsChart, marginChart, sweepChart, trendChart, valueChart } from './charts.ts';
+import type { HistoryPages } from './history-pages.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { renderFigure } from './figures.ts';
@@ -17,15 +18,8 @@ import { describeDiagnostic } from '../diagnostics/messages.ts';
 import { CAUTION, STATUS_WORDS, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
-export const urls = {
-  rule: (id: string) => `/rules/${id}/`,
-  structure: (id: string) => `/structures/${id}/`,
-  verdict: (rule: string, structure: string) => `/rules/${rule}/${structure}/`,
-  engine: (id: string) => `/methods/${id}/`,
-  quantity: (name: string) => `/methods/${name.split('.')[0]}/#${name.replace('.', '-')}`,
-  waivers: '/waivers/',
-  waiver: (id: string) => `/waivers/${id}/`,
-};
+export { urls } from './urls.ts';
+import { urls } from './urls.ts';
 
 export interface VerdictRow {
   rule: string;
@@ -98,7 +92,14 @@ function unitOfStep(v: Verdict, from: string): string {
   return v.trace?.inputs.find((i) => i.name === from)?.unit ?? QUANTITIES.get(from)?.unit ?? '1';
 }
 
-export async function assembleReport(h: Handbook, results: Results) {
+/** What a build adds to the handbook's own data: the tool's version, and the handbook's history
+ * when it lives in a git repository. */
+export interface ReportExtras {
+  tool?: string;
+  history?: HistoryPages;
+}
+
+export async function assembleReport(h: Handbook, results: Results, extras: ReportExtras = {}) {
   const ruleById = new Map(h.rules.map((r) => [r.id, r]));
   const structureById = new Map(h.structures.map((s) => [s.id, s]));
   const plans = new PlanCache();
@@ -322,6 +323,8 @@ export async function assembleReport(h: Handbook, results: Results) {
     rules,
     structures,
     verdicts: verdictPages,
+    tool: extras.tool ?? '',
+    history: await historyOf(extras.history),
     matrix,
     engines,
     schemas: Object.entries(SCHEMAS).map(([file, make]) => ({ file, url: `/schemas/${file}`, json: JSON.stringify(make(), null, 2) })),
@@ -329,6 +332,17 @@ export async function assembleReport(h: Handbook, results: Results) {
 }
 
 export type ReportData = Awaited<ReturnType<typeof assembleReport>>;
+
+/** History page data, with a margin chart for each verdict whose margin was known at two revisions or more. */
+async function historyOf(pages: HistoryPages | undefined) {
+  if (!pages) return null;
+  const trends: Record<string, string> = {};
+  for (const [key, points] of Object.entries(pages.margins)) {
+    const known = points.filter((p): p is typeof p & { margin: number } => p.margin !== null && Number.isFinite(p.margin));
+    if (known.length >= 2) trends[key] = await trendChart(known);
+  }
+  return { ...pages, trends };
+}
 
 const SWEEP_POINTS = 48;
 

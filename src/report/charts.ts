@@ -105,6 +105,36 @@ const KINDS: Record<string, ChartKind> = {
       ],
     } as TopLevelSpec,
   },
+  trend: {
+    datasets: ['points'],
+    xTitleSignal: false,
+    spec: {
+      $schema: SCHEMA,
+      width: 520,
+      height: 180,
+      data: { name: 'points' },
+      layer: [
+        {
+          mark: { type: 'line', color: PALETTE.ink, strokeWidth: 1.2, interpolate: 'step-after' },
+          encoding: {
+            x: { field: 'index', type: 'quantitative', title: 'revisions that changed the handbook, oldest to newest', axis: { tickMinStep: 1, format: 'd' } },
+            y: { field: 'shown', type: 'quantitative', title: 'margin to the limit (%, clipped at ±100)', scale: { domain: { unionWith: [-10, 10] }, clamp: true } },
+          },
+        },
+        {
+          mark: { type: 'point', filled: true, size: 42 },
+          encoding: {
+            x: { field: 'index', type: 'quantitative' },
+            y: { field: 'shown', type: 'quantitative' },
+            color: { field: 'status', type: 'nominal', scale: STATUS_SCALE, legend: null },
+            shape: { field: 'status', type: 'nominal', scale: { domain: ['pass', 'fail', 'waived'], range: ['circle', 'cross', 'diamond'] }, legend: null },
+            tooltip: [{ field: 'commit' }, { field: 'day' }, { field: 'pct' }],
+          },
+        },
+        { mark: { type: 'rule', color: PALETTE.fail, strokeDash: [4, 3] }, encoding: { y: { datum: 0, type: 'quantitative' } } },
+      ],
+    } as TopLevelSpec,
+  },
   sweep: {
     datasets: ['curve', 'companion', 'overlay', 'own', 'limit'],
     xTitleSignal: true,
@@ -221,6 +251,7 @@ export async function renderChart(kind: ChartKindName, datasets: Record<string, 
     await view.runAsync();
     return (await view.toSVG())
       .replace(/^<svg /, '<svg role="img" ')
+      .replace(/^(<svg[^>]*?) viewBox="[^"]*"/, '$1')
       .replace(/ width="(\d+(?:\.\d+)?)" height="(\d+(?:\.\d+)?)"/, (_m, w, h) => ` width="${w}" height="${h}" viewBox="0 0 ${w} ${h}" style="max-width:100%;height:auto"`);
   });
   c.queue = job.catch(() => undefined);
@@ -279,4 +310,19 @@ export function sweepChart(
 export function countsChart(counts: Record<string, number>): Promise<string> {
   const shown = COUNTED.filter((status) => status !== 'waived' || (counts.waived ?? 0) > 0);
   return renderChart('counts', { rows: shown.map((status) => ({ status, n: counts[status] ?? 0 })) });
+}
+
+export interface TrendPoint {
+  index: number;
+  commit: string;
+  day: string;
+  margin: number;
+  status: string;
+}
+
+/** A verdict's margin at each revision that changed the handbook: a step line, a mark per
+ * revision coloured and shaped by its verdict, the limit as a dashed line at zero. */
+export function trendChart(points: TrendPoint[]): Promise<string> {
+  const shown = points.map((p) => ({ ...p, shown: Math.max(-1, Math.min(1, p.margin)) * 100, pct: `${(p.margin * 100).toFixed(1)} %` }));
+  return renderChart('trend', { points: shown });
 }

@@ -66,7 +66,7 @@ export interface HistoryPages {
   byStructure: Record<string, TimelineEntry[]>;
   margins: Record<string, MarginPoint[]>;
   /** Newest month first; entries newest first. */
-  months: Array<{ month: string; entries: AuditEntry[] }>;
+  months: Array<{ month: string; verdicts: number; waivers: number; entries: AuditEntry[] }>;
 }
 
 const KIND: Record<Transition['kind'], string> = {
@@ -146,8 +146,11 @@ export function historyPages(h: HistoryReport, links: Links, urls: { verdict: (r
   const months: HistoryPages['months'] = [];
   for (const { e } of order) {
     const month = e.day.slice(0, 7);
-    if (months[months.length - 1]?.month !== month) months.push({ month, entries: [] });
-    months[months.length - 1]!.entries.push(e);
+    if (months[months.length - 1]?.month !== month) months.push({ month, verdicts: 0, waivers: 0, entries: [] });
+    const m = months[months.length - 1]!;
+    m.entries.push(e);
+    if (e.what === 'verdict') m.verdicts++;
+    else m.waivers++;
   }
   return { ...(builtFrom ? { builtFrom } : {}), ...(note ? { note } : {}), revisions: h.revisions.length, byVerdict, byRule, byStructure, margins, months };
 }

@@ -6,7 +6,7 @@ import { fileURLToPath } from 'node:url';
 import Eleventy from '@11ty/eleventy';
 import type { Results } from '../checker/evaluate.ts';
 import type { Handbook } from '../model/types.ts';
-import { assembleReport, type ReportData } from './assemble.ts';
+import { assembleReport, type ReportData, type ReportExtras } from './assemble.ts';
 import { guardOutput, publish, type LockOptions } from './publish.ts';
 
 const PACKAGE_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
@@ -41,9 +41,9 @@ export async function renderSite(report: ReportData, outDir: string): Promise<vo
  * Assemble and publish: the output folder is checked (it must be absent, empty or an earlier report,
  * and must not hold the handbook), locked, rendered aside and swapped in (see publish.ts).
  */
-export async function buildSite(h: Handbook, results: Results, outDir: string, opts: LockOptions = {}): Promise<{ pages: number; recovered: string[] }> {
+export async function buildSite(h: Handbook, results: Results, outDir: string, opts: LockOptions & { extras?: ReportExtras } = {}): Promise<{ pages: number; recovered: string[] }> {
   guardOutput(outDir, h.root);
-  const report = await assembleReport(h, results);
+  const report = await assembleReport(h, results, opts.extras);
   let pages = 0;
   const { recovered } = await publish(outDir, h.root, async (dir) => {
     await renderSite(report, dir);
