@@ -73,7 +73,7 @@ export interface HistoryFlags {
 
 /** A progress bar on stderr, only when it is a terminal (never in --json, never in a log). */
 async function progressBar(enabled: boolean): Promise<{ update: (done: number, total: number) => void; stop: () => void }> {
-  if (!enabled || !process.stderr.isTTY) return { update: () => {}, stop: () => {} };
+  if (!enabled || !process.stderr.isTTY || !process.stdout.isTTY) return { update: () => {}, stop: () => {} };
   const { SingleBar, Presets } = (await import('cli-progress')).default;
   const bar = new SingleBar({ format: 'evaluating revisions {bar} {value}/{total}', stream: process.stderr, clearOnComplete: true, hideCursor: true }, Presets.shades_classic);
   let started = false;

@@ -5,8 +5,8 @@
 import { execFileSync } from 'node:child_process';
 import { Refusal } from '../diagnostics/refusal.ts';
 import process from 'node:process';
-import { realpathSync } from 'node:fs';
-import { relative, resolve, sep } from 'node:path';
+import { readFileSync, realpathSync } from 'node:fs';
+import { join, relative, resolve, sep } from 'node:path';
 import { HANDBOOK_INPUTS, MAX_FILE_BYTES, escapeName, extName, joinPath } from '../model/source.ts';
 import { RevisionSource, type BlobStore, type TreeEntry } from '../model/revision-source.ts';
 
@@ -89,6 +89,8 @@ export class GitRepo implements BlobStore {
   /** Git's own folder shared by all worktrees (caches live in a folder of ours inside it). */
   readonly commonDir: string;
   readonly shallow: boolean;
+  /** Commits at the edge of a shallow clone: their parents are missing, so they are a starting point, not new. */
+  readonly shallowRoots = new Set<string>();
   private readonly oidBytes: number;
   private readonly trees = new Map<string, RawEntry[]>();
   private readonly sizes = new Map<string, number>();
@@ -129,6 +131,13 @@ export class GitRepo implements BlobStore {
       }
     })();
     const repo = new GitRepo(realTop, rel.split(sep).join('/'), resolve(realTop, common), shallow === 'true', head.length === 64 ? 64 : 40);
+    if (repo.shallow) {
+      try {
+        for (const oid of readFileSync(join(repo.commonDir, 'shallow'), 'utf8').split('\n')) if (oid.trim()) repo.shallowRoots.add(oid.trim());
+      } catch {
+        // no list: every root is then taken as a root
+      }
+    }
     return repo;
   }
 
@@ -287,7 +296,18 @@ function entryOf(path: string, e: RawEntry): TreeEntry {
   return { path, kind: 'other', oid: e.oid, mode: e.mode, what: `an entry of mode ${e.mode}`, problem: 'not-a-regular-file' };
 }
 
-/** git with a fixed environment: C locale, no pager, no prompts, no user's diff drivers. */
+/**
+ * The environment git runs in: the user's, without the variables that point git at another
+ * repository (a hook exports GIT_DIR and GIT_WORK_TREE; the handbook's own folder decides here),
+ * in the C locale, with no pager and no prompts.
+ */
+function gitEnv(): NodeJS.ProcessEnv {
+  const env: NodeJS.ProcessEnv = {};
+  for (const [k, v] of Object.entries(process.env)) if (!/^GIT_(DIR|WORK_TREE|INDEX_FILE|OBJECT_DIRECTORY|ALTERNATE_OBJECT_DIRECTORIES|COMMON_DIR|NAMESPACE|CEILING_DIRECTORIES|DISCOVERY_ACROSS_FILESYSTEM)$/.test(k)) env[k] = v;
+  return { ...env, LC_ALL: 'C', LANG: 'C', GIT_PAGER: 'cat', GIT_TERMINAL_PROMPT: '0', GIT_OPTIONAL_LOCKS: '0' };
+}
+
+/** git with a fixed environment (see gitEnv). */
 function runGit(cwd: string, args: string[], input?: string): Buffer {
   try {
     return execFileSync('git', ['-c', 'core.quotepath=off', '-c', 'log.showSignature=false', ...args], {
@@ -295,7 +315,7 @@ function runGit(cwd: string, args: string[], input?: string): Buffer {
       input,
       maxBuffer: 1 << 30,
       stdio: ['pipe', 'pipe', 'pipe'],
-      env: { ...process.env, LC_ALL: 'C', LANG: 'C', GIT_PAGER: 'cat', GIT_TERMINAL_PROMPT: '0', GIT_OPTIONAL_LOCKS: '0' },
+      env: gitEnv(),
     });
   } catch (err) {
     const e = err as NodeJS.ErrnoException & { stderr?: Buffer };

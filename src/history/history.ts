@@ -147,7 +147,8 @@ export function recordOf(source: HandbookSource, cache: HistoryCache): RevisionR
   if (!loaded.ok) {
     const errors = loaded.diagnostics.filter((d) => !isWarning(d));
     const first = errors[0];
-    return { ok: false, problems: errors.length, ...(first ? { firstProblem: formatDiagnostic({ ...first, revision: source.label || undefined }) } : {}), rows: [], waivers: [] };
+    // Worded without the revision: the record is cached by tree, and another commit may share it.
+    return { ok: false, problems: errors.length, ...(first ? { firstProblem: formatDiagnostic({ ...first, revision: undefined }) } : {}), rows: [], waivers: [] };
   }
   const { rows } = evaluateRows(loaded.handbook, cache);
   return { ok: true, problems: 0, rows, waivers: waiverSpecsOf(loaded.handbook) };
@@ -242,7 +243,9 @@ function kindOf(a: VerdictRow | undefined, b: VerdictRow, moved: number): Transi
     if (s === 'waived' && t === 'fail') return 'unwaived';
     return 'status';
   }
-  if (a.margin !== null && b.margin !== null && Math.abs(b.margin - a.margin) >= moved) return 'moved';
+  // A severity change moves a failure into (or out of) what blocks a change: always listed.
+  if (a.severity !== b.severity && (s === 'fail' || t === 'fail')) return 'status';
+  if (a.margin !== null && b.margin !== null && b.margin !== a.margin && Math.abs(b.margin - a.margin) >= moved) return 'moved';
   return null;
 }
 
@@ -365,7 +368,8 @@ export function walkHistory(repo: GitRepo, cache: HistoryCache, opts: HistoryOpt
       const per = ps.map((p) => compareRows(rowsAt(p.rec, on), now, info, moved, structureRenames(repo, p.oid, c.oid, p.rec, rec)));
       const mine = per.length === 1 ? per[0]! : per[0]!.filter((t) => per.every((list) => list.some((u) => sameChange(u, t))));
       transitions.push(...mine);
-    } else if (rec.ok && !ps.length && !parentsOf(c).length && !(since && c.oid === since)) {
+    } else if (rec.ok && !ps.length && !(since && c.oid === since) && !repo.shallowRoots.has(c.oid) && c.parents.every((p) => keys.has(p))) {
+      // The first revision that loads (the handbook was added, or every earlier one failed): all new.
       transitions.push(...compareRows(new Map(), now, info, moved));
     }
     // What the committed ledger says against what the engines say now.
@@ -409,7 +413,7 @@ function summaryOf(commit: CommitInfo, rec: RevisionRecord, rows: Map<string, Ve
     margins[k] = r.margin;
     verdicts[k] = r.verdict;
   }
-  return { commit, loaded: rec.ok, problems: rec.problems, ...(rec.firstProblem ? { firstProblem: rec.firstProblem } : {}), counts, margins, verdicts };
+  return { commit, loaded: rec.ok, problems: rec.problems, ...(rec.firstProblem ? { firstProblem: `${commit.short}:${rec.firstProblem}` } : {}), counts, margins, verdicts };
 }
 
 /** When each waiver was added, changed, removed (by which commit) and when it expired. */

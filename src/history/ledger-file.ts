@@ -18,5 +18,5 @@ export function readLedger(root: string): { text: string } | null | { problem: s
 
 /** Write the ledger; 'unchanged' when the file already says exactly this. */
 export function writeLedger(root: string, text: string): 'written' | 'unchanged' {
-  return writeOwnFile(join(root, LEDGER_FILE), text, (old) => old.split('\n')[0] === LEDGER_HEADER);
+  return writeOwnFile(join(root, LEDGER_FILE), text, (old) => old.split(/\r?\n/)[0] === LEDGER_HEADER);
 }

@@ -77,7 +77,8 @@ export type ParsedLedger = { ok: true; lines: Map<string, LedgerLine> } | { ok: 
 
 /** Read a ledger back (a committed one, to compare with what the engines say now). */
 export function parseLedger(text: string): ParsedLedger {
-  const all = text.split('\n');
+  // A checkout that turned LF into CRLF (core.autocrlf) still holds the same ledger.
+  const all = text.replace(/\r\n/g, '\n').split('\n');
   if (all[0] !== LEDGER_HEADER) return { ok: false, why: 'its first line is not the header of a ledger of this format' };
   const lines = new Map<string, LedgerLine>();
   for (const [i, raw] of all.entries()) {
@@ -105,7 +106,7 @@ export function ledgerDifferences(committed: string, current: string): { differe
     for (const l of text.split('\n')) if (l && !l.startsWith('#')) m.set(l.split('\t').slice(0, 2).join(' '), l);
     return m;
   };
-  const a = index(committed);
+  const a = index(committed.replace(/\r\n/g, '\n'));
   const b = index(current);
   const keys = [...new Set([...a.keys(), ...b.keys()])].sort(byCodePoint);
   const differences: LedgerDifference[] = [];
@@ -115,5 +116,5 @@ export function ledgerDifferences(committed: string, current: string): { differe
     if (was !== now) differences.push({ key, ...(was !== undefined ? { was } : {}), ...(now !== undefined ? { now } : {}) });
   }
   const headOf = (t: string) => t.split('\n').filter((l) => l.startsWith('#')).join('\n');
-  return { differences, header: headOf(committed) !== headOf(current) };
+  return { differences, header: headOf(committed.replace(/\r\n/g, '\n')) !== headOf(current) };
 }

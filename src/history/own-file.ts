@@ -17,7 +17,7 @@ export function writeOwnFile(path: string, text: string, isOurs: (old: string) =
     if (!st.isFile()) throw new Refusal('file-not-ours', { path, reason: st.isSymbolicLink() ? 'a symbolic link' : 'not a regular file' });
     // Files plumbline writes are small; one that is large is not one of ours.
     const old = st.size <= 64 << 20 ? readFileSync(path, 'utf8') : '';
-    if (!isOurs(old)) throw new Refusal('file-not-ours', { path, reason: 'it is not a file plumbline wrote' });
+    if (!isOurs(old)) throw new Refusal('file-not-ours', { path, reason: 'not a file plumbline wrote' });
     if (old === text) return 'unchanged';
   }
   const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);

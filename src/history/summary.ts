@@ -94,7 +94,8 @@ export interface DiffSummary {
 
 /** Transitions that introduce a blocking failure: a CI job gates on them. */
 export function introducesBlocking(ts: readonly Transition[]): Transition[] {
-  return ts.filter((t) => t.to === 'fail' && t.from !== 'fail' && t.severity === 'blocking');
+  // A failure that was advisory and is now blocking counts too (the severity changed, not the verdict).
+  return ts.filter((t) => t.to === 'fail' && t.severity === 'blocking' && (t.from !== 'fail' || t.causes.some((c) => c.name.endsWith(' severity'))));
 }
 
 function section(title: string, ts: Transition[], links: Links): string[] {

@@ -69,6 +69,13 @@ describe('diff', () => {
     expect([r.code, r.out.includes('No verdict changes')]).toEqual([0, true]);
   });
 
+  it('never hands git a revision that reads as an option', () => {
+    const g = GitRepo.at(repo.dir);
+    const before = g.spawned;
+    expect(() => g.resolveCommit('--output=/tmp/plumbline-x')).toThrow(expect.objectContaining({ code: 'unknown-revision' }));
+    expect(g.spawned).toBe(before);
+  });
+
   it('refuses an unknown revision and a folder outside git, with exit 2', async () => {
     expect((await cli(repo.dir, 'diff', 'no-such-branch')).code).toBe(2);
     expect((await cli(repo.dir, 'diff', '--', '--output=/tmp/x')).code).toBe(2);

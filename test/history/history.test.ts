@@ -203,3 +203,45 @@ describe('ledger disagreements', () => {
     ]);
   });
 });
+
+describe('edges of a history', () => {
+  it('lists a handbook added after the first commit as new, and the shallow edge as a start, not as new', () => {
+    const repo = new TestRepo();
+    repo.write({ 'README.md': 'a repository that gains a handbook later\n' });
+    repo.commit('Readme', ada, '2026-01-01T09:00:00+00:00');
+    repo.write({ 'handbook.yaml': HANDBOOK, 'structures/t.yaml': trench('t', '25 nm', '200 nm'), 'rules/geometry.yaml': arRule('10') });
+    const added = repo.commit('Add the handbook', ada, '2026-01-02T09:00:00+00:00');
+    const h = walkHistory(GitRepo.at(repo.dir), new HistoryCache(), {});
+    expect(h.transitions.map((t) => [t.kind, t.commit.oid === added])).toEqual([['new', true]]);
+    const clone = `${repo.dir}-shallow`;
+    repo.git('clone', '-q', '--depth', '1', `file://${repo.dir}`, clone);
+    const s = walkHistory(GitRepo.at(clone), new HistoryCache(), {});
+    expect([s.shallow, s.transitions.length]).toEqual([true, 0]);
+  });
+
+  it('lists an advisory failure made blocking, and diff gates on it', async () => {
+    const repo = new TestRepo();
+    const advisory = arRule('10').replace('at_most: 10\n', 'at_most: 10\n  severity: advisory\n');
+    repo.write({ 'handbook.yaml': HANDBOOK, 'structures/t.yaml': trench('t', '25 nm', '260 nm'), 'rules/geometry.yaml': advisory });
+    repo.commit('Advisory', ada, '2026-01-01T09:00:00+00:00');
+    repo.write({ 'rules/geometry.yaml': arRule('10') });
+    const r = await cli(repo.dir, 'diff', 'HEAD', '--json', '--on', '2026-01-02');
+    const j = JSON.parse(r.out) as { introduces_blocking_failure: boolean; transitions: Array<{ kind: string }> };
+    expect([r.code, j.introduces_blocking_failure, j.transitions.map((t) => t.kind)]).toEqual([1, true, ['status']]);
+  });
+
+  it('reads the handbook folder it is given, whatever GIT_DIR a hook exported', async () => {
+    const repo = new TestRepo('hb');
+    repo.write({ 'handbook.yaml': HANDBOOK, 'structures/t.yaml': trench('t', '25 nm', '200 nm'), 'rules/geometry.yaml': arRule('10') });
+    repo.commit('Start', ada, '2026-01-01T09:00:00+00:00');
+    const before = process.env.GIT_DIR;
+    process.env.GIT_DIR = `${repo.dir}/../.git`;
+    try {
+      const h = walkHistory(GitRepo.at(repo.dir), new HistoryCache(), {});
+      expect(h.transitions.map((t) => t.kind)).toEqual(['new']);
+    } finally {
+      if (before === undefined) delete process.env.GIT_DIR;
+      else process.env.GIT_DIR = before;
+    }
+  });
+});
