@@ -4,10 +4,7 @@
 import { FolderSource } from '../model/folder-source.ts';
 import type { HistoryCache, RevisionRecord } from './cache.ts';
 import type { GitRepo } from './git.ts';
-import { compareRows, recordOf, type CommitInfo, type Transition } from './history.ts';
-import { rowKey, type VerdictRow } from './rows.ts';
-import { waiveRow } from './waive.ts';
-import { baseName, extName } from '../model/source.ts';
+import { compareRows, recordOf, rowsAt, structureFileRenames, type CommitInfo, type Transition } from './history.ts';
 
 export interface DiffResult {
   base: { commit: string; short: string };
@@ -18,12 +15,6 @@ export interface DiffResult {
   transitions: Transition[];
 }
 
-function rowsAt(rec: RevisionRecord, on: string): Map<string, VerdictRow> {
-  return new Map(rec.rows.map((r) => [rowKey(r), waiveRow(r, rec.waivers, on)]));
-}
-
-const stem = (p: string) => baseName(p).slice(0, baseName(p).length - extName(p).length);
-
 export function diffRevisions(repo: GitRepo, cache: HistoryCache, root: string, base: string, head: string | undefined, on: string, moved: number): DiffResult {
   const baseOid = repo.resolveCommit(base);
   const headOid = head !== undefined ? repo.resolveCommit(head) : undefined;
@@ -32,8 +23,7 @@ export function diffRevisions(repo: GitRepo, cache: HistoryCache, root: string, 
   const headRecord = headOid ? recordOf(repo.source(headOid, short(headOid)), cache) : recordOf(new FolderSource(root), cache);
   const info: CommitInfo = headOid ? { oid: headOid, short: short(headOid), author: '', email: '', date: '', subject: '' } : { oid: '', short: 'working tree', author: '', email: '', date: '', subject: '' };
   // Structure files git sees renamed (against the working tree: tracked files only).
-  const renames = new Map<string, string>();
-  for (const [o, n] of repo.renames(baseOid, headOid)) if (o.startsWith('structures/') && n.startsWith('structures/')) renames.set(stem(o), stem(n));
+  const renames = structureFileRenames(repo, baseOid, headOid);
   const transitions = baseRecord.ok && headRecord.ok ? compareRows(rowsAt(baseRecord, on), rowsAt(headRecord, on), info, moved, renames) : [];
   return { base: { commit: baseOid, short: short(baseOid) }, head: headOid ? { commit: headOid, short: short(headOid) } : 'working tree', baseRecord, headRecord, transitions };
 }

@@ -10,7 +10,7 @@ import { formatDiagnostic } from '../diagnostics/messages.ts';
 import { isWarning } from '../diagnostics/diagnostic.ts';
 import { loadHandbook } from '../model/load.ts';
 import type { HandbookSource } from '../model/source.ts';
-import { HANDBOOK_INPUTS, baseName, extName } from '../model/source.ts';
+import { HANDBOOK_INPUTS, stemOf } from '../model/source.ts';
 import type { TreeEntry } from '../model/revision-source.ts';
 import type { Status } from '../checker/evaluate.ts';
 import type { HistoryCache, RevisionRecord } from './cache.ts';
@@ -264,8 +264,15 @@ function transition(kind: TransitionKind, a: VerdictRow | undefined, b: VerdictR
   };
 }
 
+/** Structure ids whose files git sees renamed between two commits (or a commit and the working tree). */
+export function structureFileRenames(repo: GitRepo, from: string, to?: string): Map<string, string> {
+  const ids = new Map<string, string>();
+  for (const [o, n] of repo.renames(from, to)) if (o.startsWith('structures/') && n.startsWith('structures/')) ids.set(stemOf(o), stemOf(n));
+  return ids;
+}
+
 /** Rows of a record as the checker says them on `on`. */
-function rowsAt(rec: RevisionRecord, on: string): Map<string, VerdictRow> {
+export function rowsAt(rec: RevisionRecord, on: string): Map<string, VerdictRow> {
   return new Map(rec.rows.map((r) => {
     const w = waiveRow(r, rec.waivers, on);
     return [rowKey(w), w];
@@ -280,11 +287,7 @@ function structureRenames(repo: GitRepo, from: string, to: string, before: Revis
   const came = [...now].filter((s) => !was.has(s));
   if (!gone.length || !came.length) return new Map();
   const ids = new Map<string, string>();
-  const stem = (p: string) => baseName(p).slice(0, baseName(p).length - extName(p).length);
-  for (const [o, n] of repo.renames(from, to)) {
-    if (!o.startsWith('structures/') || !n.startsWith('structures/')) continue;
-    if (gone.includes(stem(o)) && came.includes(stem(n))) ids.set(stem(o), stem(n));
-  }
+  for (const [o, n] of structureFileRenames(repo, from, to)) if (gone.includes(o) && came.includes(n)) ids.set(o, n);
   return ids;
 }
 

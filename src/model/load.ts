@@ -38,7 +38,7 @@ import { formatValue } from '../report/format.ts';
 import { isUnitProblem, parseValue } from './units.ts';
 import { checkRelation, describeCorner, structureRelations, type Relation } from './relations.ts';
 import { isYamlFailure, parseYamlSource, pointerToField, positionOf, type YamlSource } from './yaml-source.ts';
-import { HANDBOOK_INPUTS, baseName, decodeUtf8, extName, type HandbookSource } from './source.ts';
+import { HANDBOOK_INPUTS, baseName, decodeUtf8, extName, stemOf, type HandbookSource } from './source.ts';
 
 /** A handbook (with the warnings of its loading in `handbook.warnings`), or every problem found. */
 export type LoadResult = { ok: true; handbook: Handbook } | { ok: false; diagnostics: Diagnostic[] };
@@ -1150,12 +1150,6 @@ function isConsequence(d: Diagnostic, broken: Broken): boolean {
 /** Diagnostics in a stable order, references to broken items dropped: the causes remain. */
 function finish(out: Diagnostic[], broken: Broken): Diagnostic[] {
   return sortDiagnostics(out.filter((d) => !isConsequence(d, broken)));
-}
-
-/** A file's name without its extension: a structure's id. */
-function stemOf(path: string): string {
-  const name = baseName(path);
-  return name.slice(0, name.length - extName(name).length);
 }
 
 /** What a structure file says it defines, read from its raw value even when it fails to load. */

@@ -58,6 +58,12 @@ export function baseName(path: string): string {
   return path.slice(path.lastIndexOf('/') + 1);
 }
 
+/** A file's name without its extension: a structure's id (`structures/a/cup.yaml` → `cup`). */
+export function stemOf(path: string): string {
+  const name = baseName(path);
+  return name.slice(0, name.length - extName(name).length);
+}
+
 /** `.yaml` of `x.yaml`, '' without a dot (a leading dot does not start an extension). */
 export function extName(path: string): string {
   const b = baseName(path);
