@@ -83,22 +83,30 @@ export function synergyRatio(k: number, s0: number, rho: number, g: number): num
 
 /**
  * Fraction of ions that reach the bottom of an opening of aperture w (the narrower of its top and
- * bottom) at depth h, when their polar angles spread as a Rayleigh distribution of width σ about
- * the normal: for each angle α the aperture seen through the depth is shifted by h·tanα, and the
- * overlap of the top and bottom apertures (a lens of two circles for a hole, 1 − shift/w for a
- * slot) is the fraction that passes [line-of-sight estimate, derived].
+ * bottom) at depth h, when their polar angles α spread as a Rayleigh distribution of width σ about
+ * the normal and their azimuths ψ are uniform [line-of-sight estimate, derived]:
+ * - round hole: the aperture seen through the depth is shifted by h·tanα, and the lens-shaped
+ *   overlap of the top and bottom circles is the fraction that passes;
+ * - long slot: only the cross-trench part of the shift, d·|cos ψ| with d = h·tanα/w, removes an ion,
+ *   so the fraction is max(0, 1 − d·|cos ψ|) averaged over ψ: 1 − 2d/π for d ≤ 1 and
+ *   (2/π)[π/2 − arccos(1/d) − d + √(d² − 1)] beyond (ions travelling along the trench still pass).
  */
 export function ionTransmission(width: number, depth: number, spread: number, elongated = false): number {
   if (depth <= 0) return 1;
   if (width <= 0) return 0;
-  const overlap = (alpha: number) => {
-    const d = (depth * Math.tan(alpha)) / width;
-    if (d >= 1) return 0;
-    return elongated ? 1 - d : (2 / Math.PI) * (Math.acos(d) - d * Math.sqrt(1 - d * d));
-  };
-  const cutoff = Math.min(Math.atan(width / depth), 12 * spread);
   const rayleigh = (alpha: number) => (alpha / (spread * spread)) * Math.exp(-(alpha * alpha) / (2 * spread * spread));
-  return integrate((alpha) => rayleigh(alpha) * overlap(alpha), 0, cutoff, 8);
+  const shift = (alpha: number) => (depth * Math.tan(alpha)) / width;
+  const grazing = Math.atan(width / depth); // d = 1: the whole aperture is shifted out of line
+  const tail = Math.min(12 * spread, Math.PI / 2 - 1e-9);
+  if (!elongated) {
+    const lens = (d: number) => (d >= 1 ? 0 : (2 / Math.PI) * (Math.acos(d) - d * Math.sqrt(1 - d * d)));
+    return integrate((alpha) => rayleigh(alpha) * lens(shift(alpha)), 0, Math.min(grazing, tail), 8);
+  }
+  const slot = (d: number) => (d <= 1 ? 1 - (2 * d) / Math.PI : (2 / Math.PI) * (Math.PI / 2 - Math.acos(1 / d) - d + Math.sqrt(d * d - 1)));
+  const passing = (alpha: number) => rayleigh(alpha) * slot(shift(alpha));
+  // Split at d = 1, where the azimuthal average has a kink.
+  if (tail <= grazing) return integrate(passing, 0, tail, 8);
+  return integrate(passing, 0, grazing, 8) + integrate(passing, grazing, tail, 8);
 }
 
 /**
