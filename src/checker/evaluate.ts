@@ -4,7 +4,7 @@
 import type { Param, Rule, Structure, Handbook, Comparison, Selector, Waiver } from '../model/types.ts';
 import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
-import type { Figure } from '../engines/quantity.ts';
+import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
 
 /** `waived`: a failure an unexpired waiver of the handbook excuses (see `Verdict.waiver`). */
@@ -205,7 +205,53 @@ function evaluatePlan(plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Com
       if (worse) worst = pt;
     }
   }
-  return { nominal, decisive: worst!, corners: count };
+  return { nominal, decisive: withoutIdleInputs(plan, worst!, tol), corners: count };
+}
+
+/**
+ * The worst corner with every toleranced input the value does not depend on put back at nominal,
+ * so the corner lists only the inputs that decide it (a keep-out radius that reads the depth only
+ * for a validity flag does not list the depth).
+ */
+function withoutIdleInputs(plan: ReadyPlan, worst: Point, tol: number[]): Point {
+  let point = worst;
+  const target = comparable(worst);
+  for (const i of tol) {
+    const inputs = point.inputs.slice();
+    inputs[i] = plan.params[i]!.value;
+    const sides = point.sides.slice();
+    sides[i] = 'nominal';
+    const trial = evaluatePoint(plan, inputs, sides);
+    if (Object.is(comparable(trial), target)) point = trial;
+  }
+  return point;
+}
+
+/** The validity ranges a step's arguments leave (a `holds` check needs every argument known). */
+function validityWarnings(def: QuantityDef, args: Array<{ arg: string; value: number | null }>): string[] {
+  const warnings: string[] = [];
+  const known = Object.fromEntries(args.filter((a) => a.value !== null).map((a) => [a.arg, a.value as number]));
+  for (const check of def.validity ?? []) {
+    if ('holds' in check) {
+      if (args.every((a) => a.value !== null) && !check.holds(known)) warnings.push(check.why);
+      continue;
+    }
+    const v = known[check.arg];
+    if (v === undefined) continue;
+    if ((check.min !== undefined && v < check.min) || (check.max !== undefined && v > check.max)) warnings.push(check.why);
+  }
+  return warnings;
+}
+
+/** Every step's validity warnings at these inputs, once each, in step order. */
+function planWarnings(plan: ReadyPlan, inputs: ArrayLike<number>, run: ReturnType<typeof runPlan>): string[] {
+  const all = plan.steps.flatMap((s) =>
+    validityWarnings(
+      s.def,
+      s.args.map(([arg, src]) => ({ arg, value: 'param' in src ? inputs[src.param]! : (run.values[src.step] ?? null) })),
+    ),
+  );
+  return [...new Set(all)];
 }
 
 function traceOf(plan: ReadyPlan, point: Point): Trace {
@@ -225,17 +271,7 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
       const value = 'param' in src ? point.inputs[src.param]! : (run.values[src.step] ?? null);
       return { arg, symbol: s.variant.symbols?.[arg] ?? arg, from, value };
     });
-    const warnings: string[] = [];
-    const known = Object.fromEntries(args.filter((a) => a.value !== null).map((a) => [a.arg, a.value as number]));
-    for (const check of s.def.validity ?? []) {
-      if ('holds' in check) {
-        if (args.every((a) => a.value !== null) && !check.holds(known)) warnings.push(check.why);
-        continue;
-      }
-      const v = known[check.arg];
-      if (v === undefined) continue;
-      if ((check.min !== undefined && v < check.min) || (check.max !== undefined && v > check.max)) warnings.push(check.why);
-    }
+    const warnings = validityWarnings(s.def, args);
     const value = run.values[i] ?? null;
     return {
       name: s.def.name,
@@ -457,6 +493,8 @@ export interface StructureQuantity {
   unbounded?: 'above' | 'below';
   /** How the value was reached, when the engine says (e.g. which span governs). */
   note?: string;
+  /** Validity ranges the value or the steps it rests on leave (the value is still computed). */
+  outside_validity?: string[];
 }
 
 /** Every quantity the engines can compute for a structure, at nominal; and what blocks the others. */
@@ -476,14 +514,18 @@ export function evaluateStructure(s: Structure, plans: PlanCache = new PlanCache
     const plan = plans.get(s, name, film);
     if (plan.status === 'incomplete') incomplete[key] = plan.missing;
     if (plan.status !== 'ready') continue;
-    const run = runPlan(plan, plan.params.map((p) => p.value));
+    const inputs = plan.params.map((p) => p.value);
+    const run = runPlan(plan, inputs);
     const last = plan.steps.length - 1;
     const value = run.values[last] ?? null;
     const unit = QUANTITIES.get(name)!.unit;
-    quantities[key] =
-      value === null
+    const warnings = planWarnings(plan, inputs, run);
+    quantities[key] = {
+      ...(value === null
         ? { value: null, unit, reason: run.reasons[last] ?? 'no value', ...(run.unbounded[last] ? { unbounded: run.unbounded[last] } : {}) }
-        : { value, unit, ...(run.notes[last] ? { note: run.notes[last] } : {}) };
+        : { value, unit, ...(run.notes[last] ? { note: run.notes[last] } : {}) }),
+      ...(warnings.length ? { outside_validity: warnings } : {}),
+    };
   }
   return { quantities, incomplete };
 }

@@ -86,6 +86,8 @@ export function renderStructureQuantities(s: Structure, quantities: Record<strin
     rows.push([name, q.value === null ? `none: ${q.reason}` : formatValue(q.value, q.unit), QUANTITIES.get(name.replace(/\[.*\]$/, ''))?.title ?? '']);
   }
   const lines = [`${s.id} (${s.kind}): ${s.title}`, '', table(rows)];
+  const flagged = Object.entries(quantities).filter(([, q]) => q.outside_validity?.length);
+  if (flagged.length) lines.push('', 'Outside the model’s validity range (values are computed but not to be trusted):', ...flagged.flatMap(([n, q]) => q.outside_validity!.map((w) => `  ! ${n}: ${w}`)));
   const blocked = Object.entries(incomplete);
   if (blocked.length) lines.push('', 'Not computable without more inputs:', ...blocked.map(([n, m]) => `  ${n}: needs ${m.join(', ')}`));
   return lines.join('\n');

@@ -229,6 +229,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
         url: urls.quantity(baseName(name)),
         valueText: q.value === null ? valuePhrase({ value: null, unit: q.unit, ...(q.reason ? { reason: q.reason } : {}), ...(q.unbounded ? { unbounded: q.unbounded } : {}) }) : formatValue(q.value, q.unit),
         valueIsText: q.value === null,
+        warnings: q.outside_validity ?? [],
       })),
       incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(baseName(name))!.title, missing: missing.join(', ') })),
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
