@@ -1,6 +1,6 @@
 // Results → report data: everything the templates show, already worded and formatted. Templates
 // only lay it out; no physics and no pass/fail logic lives in them.
-import { appliesTo, evaluateStructure, PlanCache, type Results, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
+import { appliesTo, evaluateStructure, PlanCache, type Results, type StructureQuantity, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
@@ -229,8 +229,9 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
         url: urls.quantity(baseName(name)),
         valueText: q.value === null ? valuePhrase({ value: null, unit: q.unit, ...(q.reason ? { reason: q.reason } : {}), ...(q.unbounded ? { unbounded: q.unbounded } : {}) }) : formatValue(q.value, q.unit),
         valueIsText: q.value === null,
-        warnings: q.outside_validity ?? [],
+        flagged: (q.outside_validity?.length ?? 0) > 0,
       })),
+      outsideValidity: flagsByReason(quantities),
       incomplete: Object.entries(incomplete).map(([name, missing]) => ({ name, title: QUANTITIES.get(baseName(name))!.title, missing: missing.join(', ') })),
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
       waivers: h.waivers.filter((w) => appliesTo(w, s)).map((w) => waiverLink(w, useById.get(w.id), results.on)),
@@ -580,4 +581,11 @@ function waiverAlerts(h: Handbook, results: Results): Array<{ id: string; url: s
     else if (use.unused) out.push({ id: use.id, url, text: unusedPhrase(use) });
   }
   return h.waivers.length ? out : [];
+}
+
+/** A structure's validity flags, one entry per reason with the quantities it affects. */
+function flagsByReason(quantities: Record<string, StructureQuantity>): Array<{ why: string; quantities: string[] }> {
+  const byWhy = new Map<string, string[]>();
+  for (const [name, q] of Object.entries(quantities)) for (const why of q.outside_validity ?? []) byWhy.set(why, [...(byWhy.get(why) ?? []), name]);
+  return [...byWhy].map(([why, names]) => ({ why, quantities: names }));
 }

@@ -137,6 +137,27 @@ describe('report in chromium', () => {
     await page.close();
   });
 
+  it('flags on the structure page a computed value outside its model’s range, though no rule reads it', async () => {
+    // The demo via's p-channel mobility shift along ⟨110⟩ at its edge is far beyond the 20 % of the
+    // linear piezoresistance model; no rule limits that shift, so only the structure page says so.
+    const page = await browser.newPage();
+    await page.goto(pathToFileURL(join(site, 'structures/package-tsv/index.html')).href);
+    const row = page.locator('table.plain tr', { has: page.locator('code', { hasText: /^thermomech\.mobility_shift_p110$/ }) });
+    await expect(row.count()).resolves.toBe(1);
+    const flag = row.locator('a.flag');
+    await expect(flag.count()).resolves.toBe(1);
+    await flag.click();
+    // The mark leads to the list of reasons, which names the quantity it affects.
+    const reasons = page.locator('#outside-validity');
+    await expect(reasons.isVisible()).resolves.toBe(true);
+    const item = reasons.locator('li', { has: page.locator('code', { hasText: /^thermomech\.mobility_shift_p110$/ }) });
+    await expect(item.count()).resolves.toBe(1);
+    // A quantity inside its range carries no mark.
+    const plain = page.locator('table.plain tr', { has: page.locator('code', { hasText: /^geometry\.aspect_ratio$/ }) });
+    await expect(plain.locator('a.flag').count()).resolves.toBe(0);
+    await page.close();
+  });
+
   it('loads nothing from outside the report and is never wider than a 1280 px window, on every page', async () => {
     // Markdown images that point out of the report and protocol-relative ones were requests to
     // outside hosts; long unbroken titles and links widened every page (regressions).
