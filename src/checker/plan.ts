@@ -32,20 +32,13 @@ export interface Run {
 }
 
 /** The shape facts of a structure that quantities branch on. */
+/**
+ * A structure's shape facts: everything but its identity, inputs and place, so a new shape fact
+ * reaches the engines without being listed here.
+ */
 export function shapeOf(structure: Structure, film?: string): Shape {
-  return {
-    kind: structure.kind,
-    ...(structure.array ? { array: structure.array } : {}),
-    ...(structure.drying ? { drying: structure.drying } : {}),
-    ...(structure.etch ? { etch: structure.etch } : {}),
-    ...(structure.deposition ? { deposition: structure.deposition } : {}),
-    ...(structure.fill ? { fill: structure.fill } : {}),
-    ...(structure.cell ? { cell: structure.cell } : {}),
-    ...(structure.via ? { via: true as const } : {}),
-    ...(structure.isolation ? { isolation: true as const } : {}),
-    ...(structure.waferOrientation ? { waferOrientation: structure.waferOrientation } : {}),
-    ...(film !== undefined ? { film } : {}),
-  };
+  const { id: _id, title: _title, tags: _tags, description: _description, params: _params, materialRoles: _roles, file: _file, pos: _pos, ...facts } = structure;
+  return { ...facts, ...(film !== undefined ? { film } : {}) };
 }
 
 export function buildPlan(structure: Structure, quantity: string, film?: string): Plan {

@@ -1,5 +1,6 @@
 // Results → report data: everything the templates show, already worded and formatted. Templates
 // only lay it out; no physics and no pass/fail logic lives in them.
+import { exampleShapes } from '../model/shape-examples.ts';
 import { appliesTo, evaluateStructure, PlanCache, type Results, type StructureQuantity, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
@@ -437,26 +438,29 @@ function worstWord(vs: Verdict[]): string {
 }
 
 /** Formula of each variant a quantity has, for the methods page: every kind with every array it can have. */
+/**
+ * Every formula a quantity has over the example shapes of every kind and block, each labelled by
+ * where it applies: the kinds, and the block alternative when the formula differs from the base.
+ */
 function variantsOf(name: string): Array<{ label: string; formulaHtml: string }> {
   const q = QUANTITIES.get(name)!;
-  const seen = new Map<string, string[]>();
-  for (const kind of KINDS) {
-    const arrays: ArrayLayout[] = isElongated(kind) ? ['lines'] : ['square', 'hexagonal'];
-    for (const array of arrays) {
-      // Standing kinds are shown drying without supports, openings with an etch recipe that has
-      // calibration points: the simplest shapes that have every formula.
-      const v = q.variant({
-        kind,
-        array,
-        ...(isOpening(kind) ? { etch: { calibrationPoints: 1 } } : { drying: { liquid: 'water', supportCount: 0, supportHold: 'pinned' as const } }),
-      });
-      if (!('formula' in v)) continue;
-      const list = seen.get(v.formula) ?? [];
-      list.push(isElongated(kind) ? kind : `${kind} (${array})`);
-      seen.set(v.formula, list);
-    }
+  const seen = new Map<string, { kinds: Set<string>; when: Set<string> }>();
+  const baseFormula = new Map<string, string>();
+  for (const ex of exampleShapes()) {
+    const v = q.variant(ex.shape);
+    if (!('formula' in v)) continue;
+    const where = isElongated(ex.kind) ? ex.kind : `${ex.kind} (${ex.array})`;
+    if (ex.alternative === undefined) baseFormula.set(where, v.formula);
+    else if (baseFormula.get(where) === v.formula) continue;
+    const entry = seen.get(v.formula) ?? { kinds: new Set(), when: new Set() };
+    entry.kinds.add(where);
+    if (ex.alternative !== undefined) entry.when.add(ex.alternative);
+    seen.set(v.formula, entry);
   }
-  return [...seen.entries()].map(([formula, kinds]) => ({ label: kinds.join(', '), formulaHtml: texToMathml(formula, true) }));
+  return [...seen.entries()].map(([formula, { kinds, when }]) => ({
+    label: `${[...kinds].join(', ')}${when.size ? ` — with ${[...when].join(' or ')}` : ''}`,
+    formulaHtml: texToMathml(formula, true),
+  }));
 }
 
 type WaiverState = WaiverUse['state'] | 'not-judged';

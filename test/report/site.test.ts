@@ -8,6 +8,7 @@ import { run } from '../../src/cli/main.ts';
 import { checkHandbook } from '../../src/pipeline.ts';
 import { FolderSource } from '../../src/model/folder-source.ts';
 import { buildSite } from '../../src/report/site.ts';
+import { ENGINES } from '../../src/engines/index.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 let out: string;
@@ -88,6 +89,21 @@ describe('demo site', () => {
     const fill = readFileSync(join(out, 'rules', 'ISO-FILL-1', 'periphery-isolation-trench', 'index.html'), 'utf8');
     expect(fill).toMatch(/<svg class="figure"[^>]*aria-label="Fill profile/);
     expect(fill).toContain('void ');
+  });
+
+  it('shows at least one formula for every quantity on its methods page', () => {
+    // Each quantity section of an engine page holds its formulas in formula blocks (its symbol in
+    // the heading is MathML too, so the block is what counts).
+    const missing: string[] = [];
+    for (const engine of ENGINES) {
+      const page = readFileSync(join(out, 'methods', engine.id, 'index.html'), 'utf8');
+      for (const q of engine.quantities) {
+        const start = page.indexOf(`id="${q.name.replace('.', '-')}"`);
+        const section = page.slice(start, page.indexOf('</section>', start));
+        if (start < 0 || !/class="formula"><span class="katex"><math/.test(section)) missing.push(q.name);
+      }
+    }
+    expect(missing).toEqual([]);
   });
 
   it('shows the waived verdict with its waiver: who, until when, where written and the limit it must still meet', () => {
