@@ -239,7 +239,9 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       const { writeFailure } = await import('../report/publish.ts');
       let serving;
       try {
-        serving = await serveSite(rootOf(cmd), resolve(rootOf(cmd), opts.out), opts.port, io);
+        const root = rootOf(cmd);
+        const { FolderSource, checkHandbook } = await core();
+        serving = await serveSite(root, resolve(root, opts.out), opts.port, io, () => checkHandbook(new FolderSource(root), { on: todayUtc() }));
       } catch (err) {
         throw writeFailure(err) ?? err;
       }

@@ -9,8 +9,10 @@ import { createReadStream, realpathSync, statSync, watch, type FSWatcher } from 
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from 'node:http';
 import { extname, join, resolve } from 'node:path';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
-import { FolderSource, isInside } from '../model/folder-source.ts';
-import { checkHandbook } from '../pipeline.ts';
+import { isInside } from '../model/folder-source.ts';
+import type { Diagnostic } from '../diagnostics/diagnostic.ts';
+import type { Handbook } from '../model/types.ts';
+import type { Results } from '../checker/evaluate.ts';
 import { ensureFolder, guardOutput, writeFailure } from './publish.ts';
 import { Refusal } from '../diagnostics/refusal.ts';
 import { HANDBOOK_INPUTS } from '../model/source.ts';
@@ -96,7 +98,13 @@ function listen(server: Server, port: number): Promise<number> {
   });
 }
 
-export async function serveSite(root: string, outDir: string, port: number, io: ServeIo): Promise<Serving> {
+/**
+ * Loads and checks the handbook afresh for each rebuild. The caller supplies it (reading the
+ * clock for the day waivers are judged on), so the report never reaches back up the pipeline.
+ */
+export type Recheck = () => { ok: false; diagnostics: Diagnostic[] } | { ok: true; handbook: Handbook; results: Results };
+
+export async function serveSite(root: string, outDir: string, port: number, io: ServeIo, recheck: Recheck): Promise<Serving> {
   const out = resolve(outDir);
   guardOutput(out, root);
   // Rebuilds run one after another; a change during a build queues one more. Whatever one rebuild
@@ -104,7 +112,7 @@ export async function serveSite(root: string, outDir: string, port: number, io: 
   // good report: a rejected step never stops the chain.
   let chain: Promise<void> = Promise.resolve();
   const once = async (): Promise<void> => {
-    const outcome = checkHandbook(new FolderSource(root), { on: new Date().toISOString().slice(0, 10) });
+    const outcome = recheck();
     if (!outcome.ok) {
       io.err(formatDiagnostics(outcome.diagnostics, 'the last good report is still served'));
       return;

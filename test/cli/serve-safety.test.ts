@@ -9,6 +9,11 @@ import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { run } from '../../src/cli/main.ts';
 import { serveSite, type Serving } from '../../src/report/serve.ts';
+import { checkHandbook } from '../../src/pipeline.ts';
+import { FolderSource } from '../../src/model/folder-source.ts';
+
+/** What the serve command hands the server: the handbook checked afresh, on a fixed day. */
+const recheckOf = (root: string) => () => checkHandbook(new FolderSource(root), { on: '2026-12-02' });
 
 const ROOT = resolve(import.meta.dirname, '../..');
 let serving: Serving;
@@ -35,7 +40,7 @@ beforeAll(async () => {
   mkdirSync(join(hb, 'site-secret'));
   writeFileSync(join(hb, 'site-secret', 'secret.txt'), 'secret');
   writeFileSync(join(dir, 'outside.txt'), 'outside');
-  serving = await serveSite(hb, join(hb, 'site'), 0, { out: () => undefined, err: () => undefined });
+  serving = await serveSite(hb, join(hb, 'site'), 0, { out: () => undefined, err: () => undefined }, recheckOf(hb));
   base = `http://127.0.0.1:${serving.port}`;
   // Links planted inside the report that point out of it: to a file beside the handbook, and into
   // the sibling folder whose name starts like the report's (a prefix check would let it through).
@@ -131,7 +136,7 @@ describe('serve on a handbook that does not load yet', () => {
     const good = readFileSync(file, 'utf8');
     writeFileSync(file, good.replace('kind: pillar', 'kind: pilar'));
     const errors: string[] = [];
-    const s = await serveSite(dir, join(dir, 'site'), 0, { out: () => undefined, err: (e) => errors.push(e) });
+    const s = await serveSite(dir, join(dir, 'site'), 0, { out: () => undefined, err: (e) => errors.push(e) }, recheckOf(dir));
     try {
       expect(errors.join('\n')).toContain('unknown structure kind');
       expect((await fetch(`http://127.0.0.1:${s.port}/`)).status).toBe(404);
