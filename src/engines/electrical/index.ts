@@ -1,43 +1,98 @@
 // Electrical job of a storage cell: the capacitance of a cylinder electrode and the bit-line signal
 // it gives, at read and after the refresh interval; the capacitance and height the requirement
-// takes. (Isolation, fins and vias come next; see the project notes.)
+// takes. Fins and through-silicon vias follow; isolation trenches are in isolation.ts.
 //
-// Capacitance of each electrode surface as a cylindrical (coaxial) capacitor,
-// C = 2π·ε₀·k·h / ln(r_outer/r_inner) (Gauss's law; e.g. Griffiths, Introduction to
-// Electrodynamics, ch. 2), the floor as a parallel plate ε₀·k·A/t; charge sharing with the bit line
-// ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital Integrated
-// Circuits, ch. 12 [memory for chapter]).
+// Capacitance of each electrode wall as a cylindrical (coaxial) capacitor per unit height,
+// 2π·ε₀·k / ln(r_outer/r_inner) (Gauss's law; e.g. Griffiths, Introduction to Electrodynamics,
+// ch. 2), summed up the tapered wall; the floor as a parallel plate ε₀·k·A/t; charge sharing with
+// the bit line ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital
+// Integrated Circuits, ch. 12 [memory for chapter]).
 import { noted, noValue, variant, type Engine, type NoValue, type QuantityDef, type Shape } from '../quantity.ts';
 import { cavity } from '../geometry/index.ts';
+import { integrate } from '../numeric.ts';
 
 /** Permittivity of free space, CODATA 2018 (F/m). */
 export const EPSILON_0 = 8.8541878128e-12;
+/** Elementary charge (C) and Boltzmann's constant (J/K), exact since the SI of 2019. */
+export const Q = 1.602176634e-19;
+const KB = 1.380649e-23;
+
+// Silicon at 300 K, one choice for every quantity of this folder: Sze & Ng, Physics of
+// Semiconductor Devices, 3rd ed., Appendix G [memory for the appendix] list ε_Si = 11.9 and
+// n_i = 9.65e9 cm⁻³. Many texts use 11.7, which would narrow every depletion width by 0.85 %.
+export const SI_RELATIVE_PERMITTIVITY = 11.9;
+export const EPS_SI = SI_RELATIVE_PERMITTIVITY * EPSILON_0;
+export const N_I = 9.65e15; // m⁻³
+const TEMPERATURE = 300; // K
+/** Thermal voltage k_BT/q at 300 K. */
+export const THERMAL_VOLTAGE = (KB * TEMPERATURE) / Q;
+/** The silicon facts above as a reader sees them among a quantity's assumptions. */
+export const SILICON_FACTS = `Silicon at 300 K: ε_Si = ${SI_RELATIVE_PERMITTIVITY}·ε₀, n_i = 9.65e9 cm⁻³ (Sze & Ng, 3rd ed., Appendix G; 11.7·ε₀ is also quoted).`;
+
+/**
+ * Where f, negative at lo and not at hi, changes sign, by bisection to 1e-13 of hi: the last x
+ * found with f(x) < 0 (so a predicate written as −1/+1 gives a point where it still holds).
+ */
+function bisect(f: (x: number) => number, lo: number, hi: number): number {
+  for (let i = 0; i < 200 && hi - lo > 1e-13 * hi; i++) {
+    const mid = (lo + hi) / 2;
+    if (f(mid) < 0) lo = mid;
+    else hi = mid;
+  }
+  return lo;
+}
 
 export interface CellGeometry {
-  /** Outer diameter of the electrode, its wall, its height. */
+  /** Outer diameter of the electrode at its top and at its base, its height and wall (measured across). */
   cd: number;
-  wall: number;
+  bottom: number;
   height: number;
+  wall: number;
+  /** Thickness (measured across) and relative permittivity of the dielectric. */
   thickness: number;
   k: number;
 }
 
-/** Capacitance of each electrode surface: coaxial for the walls, parallel plate for the floor. */
+/** What a unit of wall height gives at radius r outside and inside the electrode, and the floor of radius r. */
+interface SurfaceModel {
+  outer: (r: number) => number;
+  inner: (r: number) => number;
+  floor: (r: number) => number;
+}
+
+/** Coaxial walls (the film around the outer wall, within the inner one); the floor a plate inside the inner film. */
+function coaxial({ thickness: t, k }: CellGeometry): SurfaceModel {
+  const c = 2 * Math.PI * EPSILON_0 * k;
+  return { outer: (r) => c / Math.log((r + t) / r), inner: (r) => c / Math.log(r / (r - t)), floor: (r) => (EPSILON_0 * k * Math.PI * (r - t) ** 2) / t };
+}
+
+/** Parallel plates of the electrode's own area: the approximation the derivation compares with. */
+function plates({ thickness: t, k }: CellGeometry): SurfaceModel {
+  const plate = (area: number) => (EPSILON_0 * k * area) / t;
+  return { outer: (r) => plate(2 * Math.PI * r), inner: (r) => plate(2 * Math.PI * r), floor: (r) => plate(Math.PI * r * r) };
+}
+
+/**
+ * Each electrode surface summed up its straight tapered wall: the outer radius runs from CD_b/2 at
+ * the base to CD/2 at the top, the inner one from the cavity's floor to its rim. Inner wall and
+ * floor give nothing where no plate fits inside (the quantities say so before they get here).
+ */
+function surfaces(g: CellGeometry, m: SurfaceModel): { outer: number; inner: number; bottom: number } {
+  const outer = integrate((z) => m.outer(g.bottom / 2 + ((g.cd - g.bottom) * z) / (2 * g.height)), 0, g.height, 4);
+  const c = cavity(g.cd, g.bottom, g.height, g.wall);
+  if ('reason' in c || Math.min(c.top, c.bottom) / 2 <= g.thickness) return { outer, inner: 0, bottom: 0 };
+  const inner = integrate((z) => m.inner(c.bottom / 2 + ((c.top - c.bottom) * z) / (2 * c.depth)), 0, c.depth, 4);
+  return { outer, inner, bottom: m.floor(c.bottom / 2) };
+}
+
+/** Capacitance of each electrode surface: coaxial up the tapered walls, a parallel plate on the floor. */
 export function surfaceCapacitances(g: CellGeometry): { outer: number; inner: number; bottom: number } {
-  const ro = g.cd / 2;
-  const ri = g.cd / 2 - g.wall;
-  const outer = (2 * Math.PI * EPSILON_0 * g.k * g.height) / Math.log((ro + g.thickness) / ro);
-  const inner = ri > g.thickness ? (2 * Math.PI * EPSILON_0 * g.k * (g.height - g.wall)) / Math.log(ri / (ri - g.thickness)) : 0;
-  const bottom = ri > g.thickness ? (EPSILON_0 * g.k * Math.PI * (ri - g.thickness) ** 2) / g.thickness : 0;
-  return { outer, inner, bottom };
+  return surfaces(g, coaxial(g));
 }
 
 /** The same surfaces as parallel plates of the electrode's own area (the approximation compared). */
 export function parallelPlateCapacitances(g: CellGeometry): { outer: number; inner: number; bottom: number } {
-  const ro = g.cd / 2;
-  const ri = g.cd / 2 - g.wall;
-  const plate = (area: number) => (EPSILON_0 * g.k * area) / g.thickness;
-  return { outer: plate(2 * Math.PI * ro * g.height), inner: plate(2 * Math.PI * ri * (g.height - g.wall)), bottom: plate(Math.PI * ri * ri) };
+  return surfaces(g, plates(g));
 }
 
 /** Signal of the weaker stored state: min(p, 1 − p)·V·C_s/(C_s + C_BL), less the charge leaked. */
@@ -47,10 +102,12 @@ export function bitlineSignal(cs: number, cbl: number, v: number, precharge: num
 }
 
 const CELL_SOURCE = 'Charge sharing with the bit line, ΔV = (V_cell − V_pre)·C_s/(C_s + C_BL) (e.g. Rabaey, Chandrakasan & Nikolić, Digital Integrated Circuits, 2nd ed., memory chapter; chapter recalled)';
-const COAX_SOURCE = 'Coaxial capacitor 2π·ε₀·k·h/ln(r₂/r₁) (Gauss’s law; e.g. Griffiths, Introduction to Electrodynamics, ch. 2); floor as a parallel plate; ε₀ from CODATA 2018';
+const COAX_SOURCE = 'Coaxial capacitor 2π·ε₀·k·h/ln(r₂/r₁) (Gauss’s law; e.g. Griffiths, Introduction to Electrodynamics, ch. 2), per unit height along the taper; floor as a parallel plate; ε₀ from CODATA 2018';
+const TAPER_ASSUMPTION = 'Straight tapered walls (from the base CD to the top CD), each height slice a long coaxial capacitor at its own radius, with the wall and dielectric thickness measured across (normal to a wall within 1° of vertical they differ by under 0.02 %); the outer wall faces the plate over the full height, the inner one from the floor (one wall thick) up; fringe fields at the rim and the corner at the floor ignored.';
 
 const cellInputs = {
   cd: 'geometry.cd',
+  bottom: 'geometry.bottom_cd',
   wall: 'geometry.wall',
   height: 'geometry.height',
   thickness: 'cell.dielectric_thickness',
@@ -81,8 +138,18 @@ function cellOnly(shape: Shape): { notApplicable: string } | { incomplete: strin
   return null;
 }
 
-function capacitanceOf(shape: Shape, a: Record<string, number>): number {
-  const c = surfaceCapacitances({ cd: a.cd!, wall: a.wall!, height: a.height!, thickness: a.thickness!, k: a.k! });
+/** The inputs a cell's capacitance reads: the gap to the neighbours bounds the film on the outer wall. */
+function cellInputsOf(shape: Shape): Record<string, string> {
+  return { ...cellInputs, ...(shape.cell!.surfaces.includes('outer') ? { space: 'geometry.space' } : {}) };
+}
+
+function cellOf(a: Record<string, number>): CellGeometry {
+  return { cd: a.cd!, bottom: a.bottom!, height: a.height!, wall: a.wall!, thickness: a.thickness!, k: a.k! };
+}
+
+function capacitanceOf(shape: Shape, a: Record<string, number>, model: (g: CellGeometry) => SurfaceModel = coaxial): number {
+  const g = cellOf(a);
+  const c = surfaces(g, model(g));
   return shape.cell!.surfaces.reduce((sum, s) => sum + c[s], 0);
 }
 
@@ -93,11 +160,11 @@ function capacitanceOf(shape: Shape, a: Record<string, number>): number {
  */
 function noRoomForPlate(shape: Shape, a: Record<string, number>): string | null {
   const surfaces = shape.cell!.surfaces;
-  // Inside, the narrowest inner radius counts: a tapered cup narrows toward its floor, and the
-  // vertical-wall capacitance must not count a plate where none fits.
+  // Inside, the narrowest inner radius counts: a re-entrant cup narrows toward its floor, and no
+  // plate may be counted where none fits.
   let ri = a.cd! / 2 - a.wall!;
-  if (a.bottom !== undefined && (surfaces.includes('inner') || surfaces.includes('bottom'))) {
-    const c = cavity(a.cd!, a.bottom, a.height!, a.wall!);
+  if (surfaces.includes('inner') || surfaces.includes('bottom')) {
+    const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
     if ('reason' in c) return c.reason;
     ri = Math.min(c.top, c.bottom) / 2;
   }
@@ -117,9 +184,9 @@ const storageCapacitance: QuantityDef = {
   title: 'Storage capacitance',
   unit: 'F',
   symbol: 'C_s',
-  description: 'Capacitance of the cylinder electrode over the surfaces that carry the dielectric: each wall as a coaxial capacitor, the floor as a parallel plate.',
+  description: 'Capacitance of the cylinder electrode over the surfaces that carry the dielectric: each wall as a coaxial capacitor summed up its taper, the floor as a parallel plate.',
   source: COAX_SOURCE,
-  assumptions: ['Vertical walls at the top CD; the outer wall faces the plate over the full height, the inner one from the floor (one wall thick) up; fringe fields at the rim ignored.'],
+  assumptions: [TAPER_ASSUMPTION],
   better: 'higher',
   sweep: { input: () => 'geometry.height', from: 0.25, to: 2 },
   variant: (shape) => {
@@ -127,23 +194,20 @@ const storageCapacitance: QuantityDef = {
     if (no) return no;
     const surfaces = shape.cell!.surfaces;
     const terms: Record<string, string> = {
-      outer: '\\frac{2\\pi\\varepsilon_0 k H}{\\ln\\frac{r_o + t_d}{r_o}}',
-      inner: '\\frac{2\\pi\\varepsilon_0 k (H - t_w)}{\\ln\\frac{r_i}{r_i - t_d}}',
-      bottom: '\\frac{\\varepsilon_0 k \\pi (r_i - t_d)^2}{t_d}',
+      outer: '\\int_0^H \\frac{2\\pi\\varepsilon_0 k\\,dz}{\\ln\\frac{r_o + t_d}{r_o}}',
+      inner: '\\int_{t_w}^H \\frac{2\\pi\\varepsilon_0 k\\,dz}{\\ln\\frac{r_i}{r_i - t_d}}',
+      bottom: '\\frac{\\varepsilon_0 k \\pi (r_f - t_d)^2}{t_d}',
     };
     return variant({
       label: `electrode surfaces: ${surfaces.join(', ')}`,
-      // The gap to the neighbours bounds the dielectric on the outer wall.
-      inputs: { ...cellInputs, ...(surfaces.includes('outer') ? { space: 'geometry.space' } : {}), ...(surfaces.includes('inner') || surfaces.includes('bottom') ? { bottom: 'geometry.bottom_cd' } : {}) },
+      inputs: cellInputsOf(shape),
       symbols: SYMBOLS,
-      formula: `C_s = ${surfaces.map((s) => terms[s]).join(' + ')},\\;\\; r_o = \\tfrac{\\mathrm{CD}}{2},\\; r_i = r_o - t_w`,
+      formula: `C_s = ${surfaces.map((s) => terms[s]).join(' + ')},\\;\\; r_o(z) = \\tfrac{1}{2}\\left[\\mathrm{CD}_b + (\\mathrm{CD} - \\mathrm{CD}_b)\\tfrac{z}{H}\\right],\\; r_i = r_o - t_w,\\; r_f = r_i(t_w)`,
       compute: (a: Record<string, number>) => {
         const full = noRoomForPlate(shape, a);
         if (full) return noValue(full);
         const coax = capacitanceOf(shape, a);
-        const g = { cd: a.cd!, wall: a.wall!, height: a.height!, thickness: a.thickness!, k: a.k! };
-        const pp = parallelPlateCapacitances(g);
-        const plate = shape.cell!.surfaces.reduce((sum, s) => sum + pp[s], 0);
+        const plate = capacitanceOf(shape, a, plates);
         return noted(coax, `a parallel-plate estimate on the electrode's own area would give ${((plate / coax - 1) * 100).toFixed(1)} % ${plate >= coax ? 'more' : 'less'}`);
       },
     });
@@ -212,30 +276,54 @@ const requiredCapacitance: QuantityDef = {
     }),
 };
 
+/**
+ * The cell's inputs at another height: the same straight wall down from the same top, cut or
+ * extended at the base; the gap to the neighbours follows the widest CD (s = p − max(CD, CD_b)).
+ */
+function atHeight(a: Record<string, number>, h: number): Record<string, number> {
+  const bottom = a.cd! + ((a.bottom! - a.cd!) * h) / a.height!;
+  const widest = (base: number) => Math.max(a.cd!, base);
+  return { ...a, height: h, bottom, ...(a.space !== undefined ? { space: a.space + widest(a.bottom!) - widest(bottom) } : {}) };
+}
+
 const requiredHeight: QuantityDef = {
   name: 'electrical.required_height',
   title: 'Height the signal requirement takes',
   unit: 'm',
   symbol: 'H_{req}',
-  description: 'Height of the cylinder at its CD, wall and dielectric that would just meet the signal requirement at the end of the refresh interval (the capacitance is linear in the height, so it is solved directly).',
+  description: 'Height of the cylinder at its top CD, taper, wall and dielectric that would just meet the signal requirement at the end of the refresh interval (the storage capacitance grows with the height; the height is found by bisection).',
   source: `${COAX_SOURCE}; inverted for the height`,
+  assumptions: [`${TAPER_ASSUMPTION} The taper continues at the same angle below the structure's base when the cell must be taller.`],
   better: 'lower',
   variant: (shape) => {
     const no = cellOnly(shape);
     if (no) return no;
     return variant({
-      inputs: { ...cellInputs, ...(shape.cell!.surfaces.includes('outer') ? { space: 'geometry.space' } : {}), ...(shape.cell!.surfaces.some((x) => x !== 'outer') ? { bottom: 'geometry.bottom_cd' } : {}), creq: 'electrical.required_capacitance' },
+      inputs: { ...cellInputsOf(shape), creq: 'electrical.required_capacitance' },
       symbols: SYMBOLS,
-      formula: 'C_s(H_{req}) = C_{req},\\;\\; C_s(H) = \\alpha H + \\beta',
+      formula: 'C_s(H_{req}) = C_{req}',
       compute: (a: Record<string, number>) => {
         const full = noRoomForPlate(shape, a);
         if (full) return noValue(full);
-        // C_s(H) is affine in H: two evaluations give slope and intercept.
-        const at = (h: number) => capacitanceOf(shape, { ...a, height: h });
-        const beta = at(0);
-        const alpha = at(1) - beta;
-        if (!(alpha > 0)) return noValue('the electrode surfaces chosen do not grow with the height');
-        return (a.creq! - beta) / alpha;
+        const fits = (h: number) => atHeight(a, h).bottom! > 0 && noRoomForPlate(shape, atHeight(a, h)) === null;
+        const short = (h: number) => capacitanceOf(shape, atHeight(a, h)) - a.creq!;
+        // A shorter cell fits wherever this one does (its base is nearer the top's CD); a cup is
+        // at least one wall tall, and one that low already meeting the requirement needs no more.
+        let lo = shape.cell!.surfaces.some((s) => s !== 'outer') ? a.wall! : 0;
+        if (lo > 0 && short(lo * (1 + 1e-9)) >= 0) return lo;
+        let hi = a.height!;
+        for (let i = 0; i < 60 && short(hi) < 0; i++) {
+          if (!fits(2 * hi)) {
+            // Taller, the taper closes the cup or the gap: the tallest cell that still fits must do.
+            const tallest = bisect((h) => (fits(h) ? -1 : 1), hi, 2 * hi);
+            if (short(tallest) < 0) return noValue(`no height reaches the required capacitance: above ${(tallest * 1e9).toFixed(0)} nm the taper leaves no room for the plate electrode`, 'above');
+            [lo, hi] = [hi, tallest];
+            break;
+          }
+          [lo, hi] = [hi, 2 * hi];
+        }
+        if (short(hi) < 0) return noValue('the electrode surfaces chosen do not grow with the height', 'above');
+        return bisect(short, lo, hi);
       },
     });
   },
@@ -298,7 +386,7 @@ export function wireInductance(length: number, radius: number): number {
 }
 
 const viaInputs = { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', depth: 'geometry.depth', liner: 'via.liner_thickness' };
-const VIA_SYMBOLS: Record<string, string> = { cd: '\\mathrm{CD}', bottom: '\\mathrm{CD}_b', depth: 'L', liner: 't_l', rho: '\\rho', k: 'k_l', r: 'R', c: 'C' };
+const VIA_SYMBOLS: Record<string, string> = { cd: '\\mathrm{CD}', bottom: '\\mathrm{CD}_b', depth: 'L', liner: 't_l', rho: '\\rho', k: 'k_l', r: 'R', c: 'C_{ox}' };
 
 function viaOnly(shape: Shape): { notApplicable: string } | { incomplete: string[] } | null {
   if (shape.kind !== 'via') return { notApplicable: 'via parasitics concern through-silicon vias' };
@@ -340,14 +428,19 @@ function linerFills(cd: number, bottom: number, liner: number): NoValue | null {
   return noValue(`the liner fills the via ${bottom < cd ? 'toward its bottom' : 'at its top'} (its narrowest radius is not more than the liner): no conductor runs the whole depth`);
 }
 
+const LINER_SOURCE = 'Coaxial capacitor 2π·ε₀·k·L/ln(r_ox/r_cu) (Gauss’s law; Katti et al., IEEE Trans. Electron Devices 57, 256 (2010))';
+
 const viaCapacitance: QuantityDef = {
   name: 'electrical.via_capacitance',
-  title: 'Via liner capacitance',
+  title: 'Via liner capacitance (oxide only: upper bound)',
   unit: 'F',
-  symbol: 'C',
-  description: 'Capacitance between the via conductor and the silicon across the liner, as a coaxial capacitor along the depth.',
-  source: 'Coaxial capacitor 2π·ε₀·k·L/ln(r_ox/r_cu) (Katti et al., IEEE Trans. Electron Devices 57, 256 (2010), who add the depletion capacitance in series)',
-  assumptions: ['Liner only: the series depletion capacitance of the silicon (which lowers C) is not included; top CD along the depth.'],
+  symbol: 'C_{ox}',
+  description: 'Capacitance between the via conductor and the silicon across the liner alone, as a coaxial capacitor at the top (widest) CD along the whole depth: an upper bound of the via’s capacitance, reached only when the silicon at the liner is accumulated. With the substrate doping given, electrical.via_min_capacitance adds the depleted silicon in series.',
+  source: `${LINER_SOURCE}; the depletion capacitance Katti et al. add in series is left out`,
+  assumptions: [
+    'Liner only: the silicon is taken as a conductor at the liner, so the series depletion capacitance (which can only lower C) is left out.',
+    'Top (widest) CD along the whole depth: the narrower liner toward the bottom of a tapered via would lower C too.',
+  ],
   better: 'lower',
   sweep: { input: () => 'via.liner_thickness', from: 0.25, to: 3 },
   variant: (shape) =>
@@ -355,8 +448,62 @@ const viaCapacitance: QuantityDef = {
     variant({
       inputs: { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', depth: 'geometry.depth', liner: 'via.liner_thickness', k: 'via.liner_dielectric_constant' },
       symbols: VIA_SYMBOLS,
-      formula: 'C = \\frac{2\\pi\\varepsilon_0 k_l L}{\\ln\\frac{\\mathrm{CD}/2}{\\mathrm{CD}/2 - t_l}}',
+      formula: 'C_{ox} = \\frac{2\\pi\\varepsilon_0 k_l L}{\\ln\\frac{\\mathrm{CD}/2}{\\mathrm{CD}/2 - t_l}}',
       compute: ({ cd, bottom, depth, liner, k }) => linerFills(cd, bottom, liner) ?? (2 * Math.PI * EPSILON_0 * k * depth) / Math.log(cd / 2 / (cd / 2 - liner)),
+    }),
+};
+
+/** Surface potential at the onset of strong inversion, 2φ_F = 2(k_BT/q)·ln(N/n_i) (Sze & Ng, ch. 4). */
+export function inversionPotential(doping: number): number {
+  return 2 * THERMAL_VOLTAGE * Math.log(doping / N_I);
+}
+
+/**
+ * Outer radius of the silicon depleted around a liner of outer radius r at surface potential ψ
+ * (depletion approximation). Gauss's law in the annulus gives E(ρ) = qN(r_d² − ρ²)/(2ε_Si·ρ), so
+ * ψ = (qN/2ε_Si)[r_d²·ln(r_d/r) − (r_d² − r²)/2] (the cylindrical solution Katti et al. use),
+ * solved for r_d. ψ grows with r_d, and the annulus is never thicker than a planar depletion layer
+ * at the same ψ (its field is the stronger), which brackets the root.
+ */
+export function depletionRadius(r: number, doping: number, psi: number): number {
+  const excess = (rd: number) => ((Q * doping) / (2 * EPS_SI)) * (rd * rd * Math.log(rd / r) - (rd * rd - r * r) / 2) - psi;
+  return bisect(excess, r, r + Math.sqrt((2 * EPS_SI * psi) / (Q * doping)));
+}
+
+/** Per unit length at liner radius r: the liner (conductor radius r − t) in series with the silicon depleted to inversion onset. */
+function depletedPerLength(r: number, liner: number, k: number, doping: number): number {
+  const oxide = (2 * Math.PI * EPSILON_0 * k) / Math.log(r / (r - liner));
+  const silicon = (2 * Math.PI * EPS_SI) / Math.log(depletionRadius(r, doping, inversionPotential(doping)) / r);
+  return 1 / (1 / oxide + 1 / silicon);
+}
+
+const viaMinCapacitance: QuantityDef = {
+  name: 'electrical.via_min_capacitance',
+  title: 'Via capacitance at maximum depletion (high-frequency minimum)',
+  unit: 'F',
+  symbol: 'C_{min}',
+  description: 'Capacitance between the via conductor and the silicon when the silicon around the liner is depleted as deeply as a high-frequency signal sees it (at the onset of inversion): the liner in series with the cylindrical depletion layer, summed along the tapered depth. The oxide-only liner capacitance is its upper bound.',
+  source: 'Katti et al., IEEE Trans. Electron Devices 57, 256 (2010): liner 2π·ε₀·k·L/ln(r_ox/r_cu) in series with the depletion layer 2π·ε_Si·L/ln(r_dep/r_ox), r_dep from the cylindrical Poisson equation; the deepest depletion at the surface potential 2φ_F of inversion onset (Sze & Ng, Physics of Semiconductor Devices, 3rd ed., ch. 4)',
+  assumptions: [
+    'Depletion approximation in uniformly doped silicon of either type, the via biased toward inversion. The inversion charge does not follow a high-frequency signal, so the depletion at inversion onset is the deepest it sees: the minimum of the high-frequency C–V curve. Oxide charge, interface states and the work-function difference move the bias at which the minimum is reached, not the minimum; a fast sweep into deep depletion goes lower.',
+    'Each depth slice a long coaxial capacitor at its own liner radius (the taper followed); no neighbouring via within the depletion radius.',
+    SILICON_FACTS,
+  ],
+  better: 'lower',
+  sweep: { input: () => 'via.substrate_doping', from: 0.1, to: 10 },
+  variant: (shape) =>
+    viaOnly(shape) ??
+    variant({
+      inputs: { cd: 'geometry.cd', bottom: 'geometry.bottom_cd', depth: 'geometry.depth', liner: 'via.liner_thickness', k: 'via.liner_dielectric_constant', n: 'via.substrate_doping' },
+      symbols: { ...VIA_SYMBOLS, n: 'N' },
+      formula:
+        'C_{min} = \\int_0^L \\left[\\frac{\\ln\\frac{r}{r - t_l}}{2\\pi\\varepsilon_0 k_l} + \\frac{\\ln\\frac{r_d}{r}}{2\\pi\\varepsilon_{Si}}\\right]^{-1} dz,\\;\\; r(z) = \\tfrac{1}{2}\\left[\\mathrm{CD} + (\\mathrm{CD}_b - \\mathrm{CD})\\tfrac{z}{L}\\right],\\;\\; \\frac{qN}{2\\varepsilon_{Si}}\\left[r_d^2\\ln\\frac{r_d}{r} - \\frac{r_d^2 - r^2}{2}\\right] = 2\\frac{k_BT}{q}\\ln\\frac{N}{n_i}',
+      compute: ({ cd, bottom, depth, liner, k, n }) => {
+        const fills = linerFills(cd, bottom, liner);
+        if (fills) return fills;
+        if (!(n > N_I)) return noValue('the substrate doping is not above the intrinsic density: no depletion layer forms');
+        return integrate((z) => depletedPerLength((cd + ((bottom - cd) * z) / depth) / 2, liner, k, n), 0, depth, 2);
+      },
     }),
 };
 
@@ -384,15 +531,15 @@ const viaRc: QuantityDef = {
   title: 'Via RC product',
   unit: 's',
   symbol: 'RC',
-  description: 'Resistance times liner capacitance of the via: its intrinsic delay scale.',
-  source: 'R·C of the two quantities above',
+  description: 'Resistance times the oxide-only liner capacitance of the via (its upper bound): the largest intrinsic delay scale.',
+  source: 'R·C of the via resistance and the oxide-only liner capacitance',
   better: 'lower',
   variant: (shape) =>
     viaOnly(shape) ??
     variant({
       inputs: { r: 'electrical.via_resistance', c: 'electrical.via_capacitance' },
       symbols: VIA_SYMBOLS,
-      formula: '\\tau = R\\,C',
+      formula: '\\tau = R\\,C_{ox}',
       compute: ({ r, c }) => r * c,
     }),
 };
@@ -400,6 +547,6 @@ const viaRc: QuantityDef = {
 export const electricalEngine: Engine = {
   id: 'electrical',
   title: 'Electrical: cells, fins and vias',
-  summary: 'Storage-cell capacitance (coaxial surfaces) and bit-line signal at read and after refresh, the capacitance and height the requirement takes; fin effective width; via resistance, liner capacitance, inductance and RC.',
-  quantities: [storageCapacitance, senseSignal, retentionSignal, requiredCapacitance, requiredHeight, effectiveWidth, widthPerFootprint, viaResistance, viaCapacitance, viaInductance, viaRc],
+  summary: 'Storage-cell capacitance (coaxial surfaces along the taper) and bit-line signal at read and after refresh, the capacitance and height the requirement takes; fin effective width; via resistance, liner capacitance (oxide-only upper bound, and the high-frequency minimum with the silicon depleted), inductance and RC.',
+  quantities: [storageCapacitance, senseSignal, retentionSignal, requiredCapacitance, requiredHeight, effectiveWidth, widthPerFootprint, viaResistance, viaCapacitance, viaMinCapacitance, viaInductance, viaRc],
 };

@@ -1,28 +1,33 @@
 // Isolation trenches: does the fill withstand the voltage between neighbours, and do the depletion
 // regions of the two junctions stay apart along the path around the trench?
 //
-// One-sided abrupt junction (Sze & Ng, Physics of Semiconductor Devices, 3rd ed., ch. 2):
-// W = √(2ε_Si(V_bi + V_R)/(qN)), V_bi = (k_BT/q)·ln(N·N⁺/n_i²). The junction's heavy side N⁺ and the
-// intrinsic density are fixed here and stated: N⁺ = 1e20 cm⁻³, n_i(300 K) = 9.65e9 cm⁻³ [memory],
-// ε_Si = 11.7·ε₀ (Sze & Ng list 11.9).
+// Abrupt junction with the majority-carrier tails (Sze & Ng, Physics of Semiconductor Devices,
+// 3rd ed., ch. 2): W = √(2ε_Si(N + N⁺)(V_bi + V_R − 2kT/q)/(q·N·N⁺)), of which the side doped N
+// takes the share N⁺/(N + N⁺); V_bi = (k_BT/q)·ln(N·N⁺/n_i²). The −2kT/q is a kT/q for each
+// majority-carrier tail. The junction's heavy side is fixed here and stated: N⁺ = 1e20 cm⁻³; the
+// silicon facts (ε_Si, n_i, 300 K) are those of ./index.ts.
 import { noValue, variant, type Engine, type QuantityDef, type Shape } from '../quantity.ts';
-import { EPSILON_0 } from './index.ts';
+import { EPS_SI, N_I, Q, SILICON_FACTS, THERMAL_VOLTAGE } from './index.ts';
 
-export const Q = 1.602176634e-19; // C, exact (SI 2019)
-export const KB = 1.380649e-23; // J/K, exact (SI 2019)
-export const EPS_SI = 11.7 * EPSILON_0;
 export const N_PLUS = 1e26; // m⁻³ (1e20 cm⁻³)
-export const N_I = 9.65e15; // m⁻³ (9.65e9 cm⁻³ at 300 K)
-const T = 300;
 
-/** Built-in potential of an n⁺/p (or p⁺/n) junction on a side doped N (m⁻³). */
-export function builtIn(doping: number): number {
-  return ((KB * T) / Q) * Math.log((doping * N_PLUS) / (N_I * N_I));
+/** Built-in potential of an abrupt junction between a side doped N and one doped N⁺ (m⁻³). */
+export function builtIn(doping: number, heavy = N_PLUS): number {
+  return THERMAL_VOLTAGE * Math.log((doping * heavy) / (N_I * N_I));
 }
 
-/** Depletion width of a one-sided abrupt junction under reverse bias v. */
-export function depletionWidth(doping: number, v: number): number {
-  return Math.sqrt((2 * EPS_SI * (builtIn(doping) + v)) / (Q * doping));
+/** Potential the depleted charge holds under reverse bias v: V_bi + v less 2kT/q for the two majority-carrier tails. */
+export function depletedPotential(doping: number, v: number, heavy = N_PLUS): number {
+  return builtIn(doping, heavy) + v - 2 * THERMAL_VOLTAGE;
+}
+
+/**
+ * Depletion width on the side doped N of an abrupt junction with a side doped N⁺ under reverse
+ * bias v: that side's share N⁺/(N + N⁺) of the whole width, √(2ε_Si·N⁺·φ/(q·N·(N + N⁺))) with
+ * φ = V_bi + v − 2kT/q; for N⁺ ≫ N it is the one-sided √(2ε_Si·φ/(qN)).
+ */
+export function depletionWidth(doping: number, v: number, heavy = N_PLUS): number {
+  return Math.sqrt((2 * EPS_SI * heavy * depletedPotential(doping, v, heavy)) / (Q * doping * (doping + heavy)));
 }
 
 function isolationOnly(shape: Shape): { notApplicable: string } | { incomplete: string[] } | null {
@@ -95,8 +100,12 @@ const punchthroughMargin: QuantityDef = {
   unit: '1',
   symbol: 'L_p/(W_V + W_0)',
   description: 'Leakage path over the room the two junctions’ depletion regions take along it (one at the full voltage, one unbiased): above 1 they stay apart.',
-  source: 'One-sided abrupt junction, W = √(2ε_Si(V_bi + V)/(qN)) (Sze & Ng, Physics of Semiconductor Devices, 3rd ed., ch. 2)',
-  assumptions: ['n⁺ junctions (1e20 cm⁻³) in a uniformly doped well; depletion measured along the path; 300 K; ε_Si = 11.7·ε₀.'],
+  source: 'Abrupt junction with the majority-carrier tails, W = √(2ε_Si(V_bi + V − 2kT/q)/(qN)) on the lightly doped side (Sze & Ng, Physics of Semiconductor Devices, 3rd ed., ch. 2)',
+  assumptions: [
+    'n⁺ junctions (1e20 cm⁻³) in a uniformly doped well, each depleting the well by its share N⁺/(N + N⁺) of the junction width; depletion measured along the path.',
+    'The −2kT/q counts a kT/q for each majority-carrier tail, as Sze & Ng do. Against an n⁺ side this heavy a Poisson–Boltzmann solution gives 1.1–1.9 kT/q with majority carriers only and 2.0–5.6 kT/q with every carrier (the n⁺ electrons spill into the well) over 1e16–2e17 cm⁻³ and 0–20 V: the width here lies between the two, at most 1.3 % narrower and 5.6 % wider (both at 1e16 cm⁻³ unbiased).',
+    SILICON_FACTS,
+  ],
   better: 'higher',
   sweep: { input: () => 'isolation.voltage', from: 0.1, to: 2 },
   variant: (shape) =>
@@ -104,9 +113,9 @@ const punchthroughMargin: QuantityDef = {
     variant({
       inputs: { path: 'isolation.leakage_path', n: 'isolation.doping', v: 'isolation.voltage' },
       symbols: SYMBOLS,
-      formula: '\\frac{L_p}{W(V) + W(0)},\\;\\; W(V) = \\sqrt{\\frac{2\\varepsilon_{Si}(V_{bi} + V)}{qN}},\\;\\; V_{bi} = \\frac{k_BT}{q}\\ln\\frac{N N^+}{n_i^2}',
+      formula: '\\frac{L_p}{W(V) + W(0)},\\;\\; W(V) = \\sqrt{\\frac{2\\varepsilon_{Si} N^+ (V_{bi} + V - 2k_BT/q)}{qN(N + N^+)}},\\;\\; V_{bi} = \\frac{k_BT}{q}\\ln\\frac{N N^+}{n_i^2}',
       compute: ({ path, n, v }) => {
-        if (builtIn(n) <= 0) return noValue('the well doping is too low for the junction model');
+        if (depletedPotential(n, 0) <= 0) return noValue('the well doping is too low for the junction model');
         return path / (depletionWidth(n, v) + depletionWidth(n, 0));
       },
     }),
