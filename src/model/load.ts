@@ -603,6 +603,12 @@ function structureFromFile(loaded: Loaded, materials: Map<string, Material>): St
         if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
       }
     }
+    // A material without an isotropic stand-in (a crystal's) is isotropic: isotropic models read its own pair.
+    for (const own of ['youngs_modulus', 'poisson_ratio']) {
+      const p = params.get(`materials.${role}.${own}`);
+      const stand = `materials.${role}.isotropic_${own}`;
+      if (p && !params.has(stand)) params.set(stand, { ...p, name: stand });
+    }
   }
 
   const cell = isMapping(raw.cell) ? readCell(report, raw.cell, kindKnown ? kind : undefined, params, materials) : undefined;

@@ -24,8 +24,10 @@ export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {
 };
 
 export const MATERIAL_PROPERTIES: Record<string, ParamSpec> = {
-  youngs_modulus: { unit: 'Pa', description: "Young's modulus", min: 0, exclusiveMin: true },
-  poisson_ratio: { unit: '1', description: "Poisson's ratio", min: -1, max: 0.5 },
+  youngs_modulus: { unit: 'Pa', description: "Young's modulus; for a crystal, along the wafer normal (the axis of a standing structure)", min: 0, exclusiveMin: true },
+  poisson_ratio: { unit: '1', description: "Poisson's ratio; for a crystal, for load along the wafer normal with lateral strain in the wafer plane", min: -1, max: 0.5 },
+  isotropic_youngs_modulus: { unit: 'Pa', description: "Young's modulus of an isotropic stand-in for a crystal, read by isotropic models; an isotropic material without it uses its youngs_modulus", min: 0, exclusiveMin: true },
+  isotropic_poisson_ratio: { unit: '1', description: "Poisson's ratio of that isotropic stand-in; an isotropic material without it uses its poisson_ratio", min: -1, max: 0.5 },
   thermal_expansion: { unit: '1/K', description: 'Linear thermal expansion coefficient near room temperature' },
   dielectric_constant: { unit: '1', description: 'Relative permittivity (static)', min: 1 },
   resistivity: { unit: 'ohm*m', description: 'Electrical resistivity at 20 °C', min: 0, exclusiveMin: true },
@@ -98,6 +100,7 @@ export const VIA_PARAMS: Record<string, ParamSpec> = {
   conductor_resistivity: { unit: 'ohm*m', description: 'Resistivity of the via conductor.', min: 0, exclusiveMin: true },
   liner_thickness: { unit: 'm', description: 'Thickness of the insulating liner between conductor and silicon.', min: 0, exclusiveMin: true },
   liner_dielectric_constant: { unit: '1', description: 'Relative permittivity of the liner.', min: 1 },
+  substrate_doping: { unit: '1/m^3', description: 'Doping of the silicon around the via (either type), for the depletion capacitance in series with the liner.', min: 0, exclusiveMin: true },
 };
 
 /** Inputs of an `isolation:` block. */
@@ -110,7 +113,11 @@ export const ISOLATION_PARAMS: Record<string, ParamSpec> = {
 /** Thermo-mechanical blocks: `anneal`, `keep_out`, `film`, `wafer` (their inputs are `<block>.<name>`). */
 export const THERMOMECH_PARAMS: Record<string, Record<string, ParamSpec>> = {
   anneal: { temperature_change: { unit: 'K', meaning: 'difference', description: 'Temperature change from the stress-free state to the state of use (negative on cooling), in K.' } },
-  keep_out: { mobility_shift: { unit: '1', description: 'Largest relative mobility change allowed in a transistor.', min: 0, exclusiveMin: true } },
+  keep_out: {
+    mobility_shift: { unit: '1', description: 'Largest relative mobility change allowed in a transistor.', min: 0, exclusiveMin: true },
+    channel_doping: { unit: '1/m^3', description: 'Doping of the transistor channels near the via (sets the piezoresistance factor).', min: 0, exclusiveMin: true },
+    temperature: { unit: 'K', description: 'Operating temperature of those transistors (sets the piezoresistance factor).', min: 0, exclusiveMin: true },
+  },
   film: {
     stress: { unit: 'Pa', description: 'Biaxial stress of the film on the wafer (tensile positive).' },
     thickness: { unit: 'm', description: 'Film thickness.', min: 0, exclusiveMin: true },

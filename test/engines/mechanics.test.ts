@@ -9,14 +9,25 @@
 //   deflection 3γcosθ·H⁴/(E·s·W³) (Namatsu et al., Appl. Phys. Lett. 66, 2655 (1995), from memory);
 // - the critical height H⁴ = E·W³·s²/(24γcosθ), derived in the engine's header (spring model) and
 //   re-derived here by finding where δ(s − 2δ) = δ₁·s loses its root, numerically;
-// - limits: no surface tension, a 90° contact angle, a support at the top.
+// - limits: no surface tension, a 90° contact angle, a support at the top;
+// - the contact-angle dependence of both loads: Tanaka's line pressure ∝ cosθ, and the meniscus
+//   force between vertical cylinders ∝ cos²θ (Kralchevsky & Nagayama, Langmuir 10, 23 (1994):
+//   F = 2πγQ₁Q₂/L with capillary charges Q = r·sinψ_c, ψ_c = 90° − θ at a vertical wall), by hand;
+// - the materials table's silicon, loaded as a handbook reads it, against the anisotropic moduli of
+//   Hopcroft, Nix & Kenny's constants (J. Microelectromech. Syst. 19, 229 (2010)) computed by a
+//   tensor method (./anisotropic-silicon.ts): E along [001] for a round body, the plane-strain
+//   (plate) modulus for a line (Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells, ch. 1).
 // No published worked example of Tanaka's formula was reachable; the stress check evaluates the
-// published closed form by hand instead.
+// published closed form by hand instead. Lines in the closed-form checks have ν = 0, where the
+// plate modulus is E itself.
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { factorBeam, meshBeam, sectionAt, uniformLoad } from '../../src/engines/mechanics/beam.ts';
+import { loadHandbook } from '../../src/model/load.ts';
+import { MemorySource } from '../../src/model/memory-source.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
+import { plateModulusAlong, youngsAlong } from './anisotropic-silicon.ts';
 
 // ── An independent beam solver ────────────────────────────────────────────────────────────────
 
@@ -203,11 +214,12 @@ function line(W: number, H: number, pitch: number, E: number, gamma: number, con
   return s;
 }
 
-function addDrying(s: Structure, E: number, gamma: number, contactDeg: number, supports: number[], strength = 1e9): void {
+function addDrying(s: Structure, E: number, gamma: number, contactDeg: number, supports: number[], strength = 1e9, poisson = 0): void {
   const pos = { file: 'test', line: 1, column: 1 };
   const set = (name: string, value: number, unit: string) =>
     s.params.set(name, { name, value, unit, written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
   set('materials.body.youngs_modulus', E, 'Pa');
+  set('materials.body.poisson_ratio', poisson, '1');
   set('materials.body.fracture_strength', strength, 'Pa');
   set('drying.surface_tension', gamma, 'N/m');
   set('drying.contact_angle', deg(contactDeg), 'rad');
@@ -379,5 +391,72 @@ describe('validity flags', () => {
   it('stay quiet for a sparse array', () => {
     // 40 nm on a 200 nm pitch: CD/p = 0.2; 400 nm tall is ten widths.
     expect(warnings(verdictFor(40, 200))).toEqual([]);
+  });
+});
+
+describe('contact-angle dependence of the capillary loads', () => {
+  it('a line’s Laplace pressure follows cosθ (Tanaka et al.): 1.8 MPa in water at 60° for a 40 nm gap', () => {
+    // 2·0.072·cos 60°/40 nm = 0.072/40e-9 = 1.8e6 Pa (hand), half the 3.6 MPa at 0°.
+    expectRel(q(line(20, 200, 60, 169e9, 0.072, 60), 'mechanics.capillary_pressure')?.value, 1.8e6, 9);
+  });
+
+  it('the meniscus force between round neighbours follows cos²θ (Kralchevsky & Nagayama): a quarter at 60°', () => {
+    // 40 nm pillars on a 100 nm pitch in water: F(0°) = 2π·0.072·(20 nm)²/100 nm = 1.80956e-9 N;
+    // at 60° both capillary charges r·cos θ halve, so F = 4.5239e-10 N — not the half a cosθ law gives.
+    const force = (contactDeg: number) => {
+      const s = makeStructure('pillar', { cd: 40 * nm, height: 400 * nm, pitch: 100 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+      addDrying(s, 169e9, 0.072, contactDeg, []);
+      return q(s, 'mechanics.meniscus_force')?.value;
+    };
+    expectRel(force(0), 1.80956e-9, 5);
+    expectRel(force(60), 4.5239e-10, 4);
+    // A non-wetting liquid (120°): Q₁Q₂ = r²cos²θ > 0, the same attraction as at 60°.
+    expectRel(force(120), 4.5239e-10, 4);
+  });
+});
+
+/** A handbook with one structure drying from water in plain table silicon, loaded as a user's is. */
+function tableSilicon(kind: 'line' | 'pillar') {
+  const geometry = kind === 'line' ? '{ cd: 20 nm, height: 200 nm, pitch: 60 nm, sidewall_angle: 90 deg, length: 2 um }' : '{ cd: 40 nm, height: 400 nm, pitch: 200 nm, sidewall_angle: 90 deg, array: square }';
+  const files = {
+    'handbook.yaml': 'title: Table silicon\n',
+    'rules/r.yaml': '- id: S-1\n  title: Stands\n  applies_to: {}\n  quantity: mechanics.collapse_margin\n  at_least: 1\n  rationale: Test rule.\n',
+    'structures/s.yaml': `id: s\ntitle: Silicon ${kind}\nkind: ${kind}\ngeometry: ${geometry}\nmaterials: { body: silicon }\ndrying: { liquid: water, contact_angle: 0 deg }\n`,
+  };
+  const r = loadHandbook(new MemorySource(files));
+  if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+  return r.handbook.structures[0]!;
+}
+
+describe('silicon from the materials table bends with the modulus along the wafer normal', () => {
+  const gamma = 0.07197; // IAPWS R1-76 at 25 °C, the table's water
+
+  it('holds the table to Hopcroft’s ⟨100⟩ values: E 130 GPa, ν 0.28', () => {
+    const s = tableSilicon('pillar');
+    expect(s.params.get('materials.body.youngs_modulus')!.value / 1e9).toBeCloseTo(130, 0);
+    expect(s.params.get('materials.body.poisson_ratio')!.value).toBeCloseTo(0.28, 2);
+    expectRel(s.params.get('materials.body.youngs_modulus')!.value, youngsAlong([0, 0, 1]), 3);
+  });
+
+  it('a pillar: its tip deflects F·H³/(3·E[001]·I) under the meniscus force at its top', () => {
+    // E[001] from the compliance tensor: 130.13 GPa; the former table's 169 GPa (⟨110⟩) made the
+    // deflection 0.770 of this.
+    const s = tableSilicon('pillar');
+    const F = (2 * Math.PI * gamma * (20 * nm) ** 2) / (200 * nm);
+    const I = (Math.PI * (40 * nm) ** 4) / 64;
+    expectRel(q(s, 'mechanics.tip_deflection')?.value, (F * (400 * nm) ** 3) / (3 * youngsAlong([0, 0, 1]) * I), 3);
+  });
+
+  it('a long line: 3γH⁴/(E′·s·W³) with the anisotropic plate modulus, exact along ⟨100⟩ and 2.5 % safe along ⟨110⟩', () => {
+    // Plane strain along the line's length, stress along [001]: E′ = 1/(s_zz − s_zl²/s_ll) from the
+    // compliance tensor, 141.06 GPa for a ⟨100⟩ line and 144.70 GPa for a ⟨110⟩ line. The former
+    // table (169 GPa, no plate modulus) gave 0.835 of the ⟨100⟩ deflection.
+    const s = tableSilicon('line');
+    const deflection = q(s, 'mechanics.tip_deflection')!.value!;
+    const closed = (e: number) => (3 * gamma * (200 * nm) ** 4) / (e * 40 * nm * (20 * nm) ** 3);
+    expectRel(deflection, closed(plateModulusAlong([0, 0, 1], [1, 0, 0])), 3);
+    const along110 = deflection / closed(plateModulusAlong([0, 0, 1], [1, 1, 0]));
+    expect(along110).toBeGreaterThan(1);
+    expect(along110).toBeLessThan(1.03);
   });
 });

@@ -1,16 +1,27 @@
 // Thermo-mechanics. Sources beside each check:
 // - Smith, Phys. Rev. 94, 42 (1954): piezoresistance coefficients of silicon (published table);
+// - the doping factor P(N, T): Richter, Pedersen & Thomsen's p-type fit (J. Appl. Phys. 104, 023715
+//   (2008)) evaluated by hand, and held against Harley & Kenny's independent fit to the measured
+//   p-type coefficients of Kerr, Tufte and Mason (J. Microelectromech. Syst. 9, 226 (2000) [memory
+//   for volume and page]; credited so in Barlian et al., Proc. IEEE 97, 513 (2009), Fig. 12),
+//   P = 0.2014·log10(1.53e22 cm⁻³/N, as transcribed in the PiezoD cantilever code);
 // - the via stress against an independent finite-element solution of the axisymmetric
 //   plane-strain elasticity equations with thermal strain (written in this test);
+// - the materials table's silicon, loaded as a handbook reads it, against Hopcroft, Nix & Kenny's
+//   published moduli (J. Microelectromech. Syst. 19, 229 (2010)) and against an anisotropic (001)
+//   solution of the via edge stress (Stroh's formalism, ./anisotropic-silicon.ts);
 // - silicon's biaxial moduli from its elastic constants (Hopcroft, Nix & Kenny 2010: 180.3 and
 //   229.1 GPa for (001) and (111); the design references quote them rounded, 180.5 and 229);
 // - Stoney's equation evaluated by hand (no textbook worked example was reachable);
 // - the keep-out radius against the mobility map it is solved from.
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { freeSlidingProtrusion, piezo, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import { freeSlidingProtrusion, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import { loadHandbook } from '../../src/model/load.ts';
+import { MemorySource } from '../../src/model/memory-source.ts';
 import type { Param } from '../../src/model/types.ts';
 import { expectRel, makeRule, makeStructure, um } from '../helpers.ts';
+import { HOPCROFT_C, hillAverage, holeStiffness001, poissonOf, youngsAlong } from './anisotropic-silicon.ts';
 
 describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
   it('matches the published table', () => {
@@ -23,6 +34,39 @@ describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
     expectRel(piezo('p110').longitudinal, (6.6e-11 - 1.1e-11 + 138.1e-11) / 2, 12);
     // n-type along <100>: π_L − π_T = π11 − π12 = −102.2 − 53.4 = −155.6 (Smith's table).
     expectRel(piezo('n100').longitudinal - piezo('n100').transverse, -155.6e-11, 12);
+  });
+});
+
+describe('piezoresistance factor P(N, T)', () => {
+  const cm3 = 1e6; // cm⁻³ → m⁻³
+
+  it('follows Richter et al.’s p-type fit (worked by hand)', () => {
+    // 300 K, 1e19 cm⁻³: (1e19/6e19)^0.43 = e^(−0.43·1.79176) = 0.46281; (1e19/7e20)^1.6 = e^(−1.6·4.24850)
+    // = 0.0011167; P = 1/1.46393 = 0.68310.
+    expect(piezoFactor('p110', 1e19 * cm3, 300)).toBeCloseTo(0.6831, 4);
+    // 400 K, 1e18 cm⁻³: Θ = 4/3, Θ^−0.9 = 0.77192, Θ^−0.1 = 0.97164, (1/60)^0.43 = 0.17196,
+    // Θ^−3 (1/700)^1.6 = 1.18e-5; P = 0.77192/1.16709 = 0.66138.
+    expect(piezoFactor('p100', 1e18 * cm3, 400)).toBeCloseTo(0.6614, 4);
+  });
+
+  it('agrees with Harley & Kenny’s fit to measured p-type coefficients at 300 K within 7 %', () => {
+    // Harley & Kenny: P = 0.2014·log10(1.53e22/N): 0.8428 at 1e18, 0.6414 at 1e19, 0.5006 at 5e19,
+    // 0.4400 at 1e20 cm⁻³ (hand). Two fits to different data: they differ by up to 6.5 % (at 1e19).
+    for (const n of [1e18, 1e19, 5e19, 1e20]) {
+      const measured = 0.2014 * Math.log10(1.53e22 / n);
+      expect(Math.abs(piezoFactor('p110', n * cm3, 300) / measured - 1), `N = ${n}`).toBeLessThan(0.07);
+    }
+  });
+
+  it('is 1 for light doping at 300 K (Smith’s coefficients) and scales n-type ⟨100⟩ as 300 K/T', () => {
+    // Kanda normalises P to lightly doped silicon at 300 K; n-type π11 − π12 (valley repopulation) is
+    // ∝ 1/kT when nondegenerate (Herring's many-valley model, common practice): 300/350 = 0.85714.
+    // Richter's fit at 1e15 cm⁻³, 300 K: (1e15/6e19)^0.43 = e^(−0.43·11.0021) = 0.008821 → P = 0.99126.
+    expect(piezoFactor('p110', 1e15 * cm3, 300)).toBeCloseTo(0.99126, 4);
+    expect(piezoFactor('n100', 1e15 * cm3, 300)).toBe(1);
+    expect(piezoFactor('n100', 1e15 * cm3, 350)).toBeCloseTo(0.85714, 5);
+    // n-type π44 (the ⟨110⟩ difference) barely changes with N and T (Kanda & Matsuda 2007).
+    expect(piezoFactor('n110', 1e17 * cm3, 350)).toBe(1);
   });
 });
 
@@ -107,6 +151,79 @@ describe('stress around a via (cylinder in a matrix, plane strain)', () => {
   });
 });
 
+/** A handbook with one copper via in plain table silicon, loaded as a user's handbook is. */
+function tableVia(substrate: string) {
+  const files = {
+    'handbook.yaml': 'title: Via in table silicon\n',
+    'rules/r.yaml': '- id: V-1\n  title: Via stress\n  applies_to: { kinds: [via] }\n  quantity: thermomech.via_stress\n  at_most: 1 GPa\n  rationale: Test rule.\n',
+    'structures/via.yaml': [
+      'id: via',
+      'title: Copper via',
+      'kind: via',
+      'geometry: { cd: 10 um, depth: 100 um, pitch: 50 um, array: square }',
+      'via: { conductor: { material: copper }, liner: { material: silicon-dioxide, thickness: 200 nm } }',
+      'anneal: { temperature_change: -250 K }',
+      `materials: { substrate: ${substrate} }`,
+      '',
+    ].join('\n'),
+  };
+  const r = loadHandbook(new MemorySource(files));
+  if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+  return r.handbook.structures[0]!;
+}
+
+describe('the materials table’s silicon in the isotropic via model', () => {
+  const s = tableVia('silicon');
+  const value = (name: string) => s.params.get(name)!.value;
+
+  it('hands the substrate Hopcroft’s ⟨100⟩ pair and the Voigt–Reuss–Hill isotropic stand-in', () => {
+    // Published (Hopcroft, Nix & Kenny 2010): E⟨100⟩ 130, E⟨110⟩ 169, E⟨111⟩ 188 GPa; ν 0.28 for
+    // ⟨100⟩/⟨010⟩, 0.064 for ⟨110⟩/⟨1-10⟩, 0.36 for ⟨110⟩/⟨001⟩ — here from the tensor computation
+    // on their C11, C12, C44, to the published rounding.
+    expect(youngsAlong([1, 0, 0]) / 1e9).toBeCloseTo(130, 0);
+    expect(youngsAlong([1, 1, 0]) / 1e9).toBeCloseTo(169, 0);
+    expect(youngsAlong([1, 1, 1]) / 1e9).toBeCloseTo(188, 0);
+    expect(poissonOf([1, 0, 0], [0, 1, 0])).toBeCloseTo(0.28, 2);
+    expect(Math.abs(poissonOf([1, 1, 0], [1, -1, 0]) - 0.064)).toBeLessThan(0.003); // 0.0622 unrounded
+    expect(poissonOf([1, 1, 0], [0, 0, 1])).toBeCloseTo(0.36, 2);
+    // The table: the [001] pair, and the Hill average as the isotropic stand-in (to its 4 digits).
+    expectRel(value('materials.substrate.youngs_modulus'), youngsAlong([0, 0, 1]), 3);
+    expectRel(value('materials.substrate.poisson_ratio'), poissonOf([0, 0, 1], [1, 0, 0]), 2);
+    const hill = hillAverage();
+    expectRel(value('materials.substrate.isotropic_youngs_modulus'), hill.e, 3);
+    expectRel(value('materials.substrate.isotropic_poisson_ratio'), hill.nu, 2);
+  });
+
+  it('keeps an isotropic material’s own pair for isotropic models (no stand-in in the table)', () => {
+    const glass = tableVia('silicon-dioxide');
+    expect(glass.params.get('materials.substrate.isotropic_youngs_modulus')!.value).toBe(glass.params.get('materials.substrate.youngs_modulus')!.value);
+    expect(glass.params.get('materials.substrate.isotropic_poisson_ratio')!.value).toBe(glass.params.get('materials.substrate.poisson_ratio')!.value);
+  });
+
+  it('puts the edge stress of a copper via within 0–6 % above the anisotropic (001) solution', () => {
+    // Independent reference: the (001) plane of cubic silicon by Stroh's formalism. A circular
+    // inclusion in that four-fold plane expands uniformly (Eshelby), so the matrix answers with a
+    // uniform pressure p = κ·u/a; κ = 2μ for an isotropic plane (checked first). With ε_zz = 0 the
+    // matrix's free in-plane strain is (1 + ν₃₁)αΔT, ν₃₁ = −S12/S11 = C12/(C11 + C12) = 0.27831.
+    const lame = { c11: 60e9 + 2 * 40e9, c12: 60e9, c44: 40e9 };
+    expectRel(holeStiffness001(lame).kappa, 80e9, 6);
+    const { kappa, spread } = holeStiffness001();
+    expect(spread).toBeLessThan(1e-9);
+    expect(kappa / 1e9).toBeCloseTo(126.18, 1); // between 2(C11 − C12)/2 = 101.8 and 2C44 = 159.2 GPa
+    const nu31 = HOPCROFT_C.c12 / (HOPCROFT_C.c11 + HOPCROFT_C.c12);
+    const [e1, nu1, a1] = [value('via.conductor_youngs_modulus'), value('via.conductor_poisson_ratio'), value('via.conductor_thermal_expansion')];
+    const k1 = e1 / ((1 + nu1) * (1 - 2 * nu1));
+    const anisotropic = -((k1 * kappa) / (k1 + kappa)) * ((1 + nu1) * a1 - (1 + nu31) * value('materials.substrate.thermal_expansion')) * -250;
+    // Copper 120 GPa/0.34/16.8 ppm/K: 419.7 MPa. The engine with the Hill stand-in: 438.3 MPa (+4.4 %);
+    // with the table's former 169 GPa/0.064 (⟨110⟩ uniaxial) it was 502.6 MPa (+19.8 %), and the
+    // (001) pair 130.1 GPa/0.278 gives 360.3 MPa (−14.2 %).
+    expect(anisotropic / 1e6).toBeCloseTo(419.7, 0);
+    const ratio = evaluateStructure(s).quantities['thermomech.via_stress']!.value! / anisotropic;
+    expect(ratio).toBeGreaterThan(1);
+    expect(ratio).toBeLessThan(1.06);
+  });
+});
+
 describe('wafer bow (Stoney, biaxial)', () => {
   it('uses silicon biaxial moduli of 180.3 GPa (001) and 229.1 GPa (111)', () => {
     expect(siliconBiaxialModulus('001') / 1e9).toBeCloseTo(180.3, 0);
@@ -114,7 +231,10 @@ describe('wafer bow (Stoney, biaxial)', () => {
   });
 });
 
-/** A 10 µm copper via in isotropic silicon (E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K). */
+/**
+ * A 10 µm copper via in isotropic silicon (E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K), channels
+ * lightly doped (1e15 cm⁻³) at 300 K.
+ */
 function copperVia(depth: number, dT: number): { s: ReturnType<typeof makeStructure>; set: (name: string, value: number) => void } {
   const s = makeStructure('via', { cd: 10 * um, depth }, { array: 'square' });
   const pos = { file: 'test', line: 1, column: 1 };
@@ -124,10 +244,12 @@ function copperVia(depth: number, dT: number): { s: ReturnType<typeof makeStruct
   set('via.conductor_youngs_modulus', 120e9);
   set('via.conductor_poisson_ratio', 0.34);
   set('via.conductor_thermal_expansion', 16.7e-6);
-  set('materials.substrate.youngs_modulus', 130e9);
-  set('materials.substrate.poisson_ratio', 0.28);
+  set('materials.substrate.isotropic_youngs_modulus', 130e9);
+  set('materials.substrate.isotropic_poisson_ratio', 0.28);
   set('materials.substrate.thermal_expansion', 2.6e-6);
   set('anneal.temperature_change', dT);
+  set('keep_out.channel_doping', 1e21);
+  set('keep_out.temperature', 300);
   return { s, set };
 }
 
@@ -143,10 +265,11 @@ describe('keep-out radius and bow of a via structure', () => {
 
   it('puts the keep-out circle where the mobility map, rotated around the via, reaches the threshold', () => {
     // Map: σ_rr = σ₀(a/r)², σ_θθ = −σ_rr; for a channel along x at polar angle φ, σ_L = σ_xx =
-    // σ_rr cos²φ + σ_θθ sin²φ, σ_T = σ_yy; Δμ/μ = −(π_L σ_L + π_T σ_T). Scan φ at r = r_koz.
+    // σ_rr cos²φ + σ_θθ sin²φ, σ_T = σ_yy; Δμ/μ = −P(π_L σ_L + π_T σ_T). Scan φ at r = r_koz.
     const s0 = q['thermomech.via_stress']!.value!;
     for (const channel of ['n100', 'p110'] as const) {
       const { longitudinal, transverse } = piezo(channel);
+      const factor = piezoFactor(channel, 1e21, 300);
       const r = q[`thermomech.keep_out_radius_${channel}`]!.value!;
       let worst = 0;
       for (let k = 0; k < 3600; k++) {
@@ -154,7 +277,7 @@ describe('keep-out radius and bow of a via structure', () => {
         const srr = s0 * (5e-6 / r) ** 2;
         const sxx = srr * Math.cos(phi) ** 2 - srr * Math.sin(phi) ** 2;
         const syy = srr * Math.sin(phi) ** 2 - srr * Math.cos(phi) ** 2;
-        worst = Math.max(worst, Math.abs(longitudinal * sxx + transverse * syy));
+        worst = Math.max(worst, factor * Math.abs(longitudinal * sxx + transverse * syy));
       }
       expectRel(worst, 0.05, 6);
     }
@@ -165,10 +288,11 @@ describe('keep-out radius and bow of a via structure', () => {
     const def = thermomechEngine.quantities.find((d) => d.name === 'thermomech.keep_out_radius_p110')!;
     const v = def.variant({ kind: 'via', via: true });
     if (!('compute' in v)) throw new Error('keep-out radius does not apply to a via');
-    const out = v.compute({ s0, cd: 10e-6, limit: 0.05 });
+    const out = v.compute({ s0, cd: 10e-6, limit: 0.05, doping: 1e21, temperature: 300 });
     const fig = typeof out === 'object' && 'figure' in out ? out.figure : undefined;
     if (fig?.type !== 'mobility-map') throw new Error('no mobility map');
     const { longitudinal, transverse } = piezo('p110');
+    const factor = piezoFactor('p110', 1e21, 300);
     let inside = 0;
     for (let j = 0; j < fig.n; j++) {
       for (let i = 0; i < fig.n; i++) {
@@ -186,12 +310,25 @@ describe('keep-out radius and bow of a via structure', () => {
         const sn = y / r;
         const sxx = srr * c * c - srr * sn * sn;
         const syy = srr * sn * sn - srr * c * c;
-        expect(Math.abs(v - -(longitudinal * sxx + transverse * syy))).toBeLessThan(1e-12);
+        expect(Math.abs(v - -factor * (longitudinal * sxx + transverse * syy))).toBeLessThan(1e-12);
         if (r > fig.keepOut) expect(Math.abs(v)).toBeLessThanOrEqual(0.05 + 1e-12);
         else if (Math.abs(v) > 0.05) inside++;
       }
     }
     expect(inside).toBeGreaterThan(0);
+  });
+
+  it('shrinks a p-channel keep-out zone with the channel doping by √P (Richter et al.)', () => {
+    // Smith's coefficients hold for light doping only: at 1e19 cm⁻³ and 300 K, P = 0.68310 (worked
+    // above), so r = a·√(0.68310·138.1e-11·|σ₀|/5 %), √(0.68310/0.99126) = 0.83013 of the light-doping
+    // radius. Without the factor (the former model) the two radii were equal.
+    const doped = copperVia(50 * um, -300);
+    doped.set('keep_out.mobility_shift', 0.05);
+    doped.set('keep_out.channel_doping', 1e25);
+    const s0 = q['thermomech.via_stress']!.value!;
+    const r = evaluateStructure(doped.s).quantities['thermomech.keep_out_radius_p110']!.value!;
+    expectRel(r, 5e-6 * Math.sqrt((0.6831 * 138.1e-11 * Math.abs(s0)) / 0.05), 4);
+    expectRel(r / q['thermomech.keep_out_radius_p110']!.value!, 0.83013, 4);
   });
 
   it('raises the conductor by the mismatch plus its Poisson push (hand: 211.5 nm × 1.36925 = 289.6 nm)', () => {
@@ -227,6 +364,24 @@ describe('validity flags on the verdict', () => {
   it('flags a via shallower than three diameters and not a deep one', () => {
     expect(warningsFor(20)).toMatch(/plane strain/);
     expect(warningsFor(50)).toBe('');
+  });
+
+  const keepOutWarnings = (channel: string, doping: number, temperature: number) => {
+    const { s, set } = copperVia(50 * um, -100);
+    set('keep_out.mobility_shift', 0.05);
+    set('keep_out.channel_doping', doping);
+    set('keep_out.temperature', temperature);
+    const v = evaluateRule(makeRule({ quantity: `thermomech.keep_out_radius_${channel}`, comparison: 'at_most', limit: 1e-3 }), s, new PlanCache());
+    return v.trace!.steps.flatMap((st) => st.warnings).join(' ');
+  };
+  it('flags the piezoresistance factor outside its range: degenerate n-type, heavy p-type, far from room temperature', () => {
+    // n-type ⟨100⟩ holds its nondegenerate 300 K/T up to about 1e17 cm⁻³; the p-type fit up to 1e20 cm⁻³;
+    // both near room temperature. Inside: no flag.
+    expect(keepOutWarnings('n100', 1e22, 300)).toBe('');
+    expect(keepOutWarnings('n100', 1e24, 300)).toMatch(/degeneracy/);
+    expect(keepOutWarnings('p110', 1e25, 350)).toBe('');
+    expect(keepOutWarnings('p110', 3e26, 300)).toMatch(/1e20 cm⁻³/);
+    expect(keepOutWarnings('p110', 1e21, 450)).toMatch(/room temperature/);
   });
 });
 

@@ -26,9 +26,12 @@ describe('built-in materials', () => {
     expect(prop('water', 'surface_tension')).toBeCloseTo(gamma, 5);
   });
 
-  it('isopropanol surface tension is about 21 mN/m near room temperature', () => {
-    // CRC Handbook of Chemistry and Physics: 2-propanol 20.93 mN/m at 25 °C (from memory).
-    expect(prop('isopropanol', 'surface_tension')).toBeCloseTo(0.0209, 3);
+  it('isopropanol surface tension lies in its stated range near room temperature', () => {
+    // 21.7 mN/m at 20 °C (Wikipedia, isopropyl alcohol data page); 20.93 mN/m at 25 °C (CRC Handbook,
+    // from memory): the table's typical 20.9 mN/m at 25 °C sits at the low end of 20.9–21.7 mN/m.
+    const gamma = prop('isopropanol', 'surface_tension');
+    expect(gamma).toBeGreaterThanOrEqual(0.0209);
+    expect(gamma).toBeLessThanOrEqual(0.0217);
   });
 
   it('silicon expansion coefficient follows Okada & Tokumaru at 293 K', () => {
@@ -39,9 +42,16 @@ describe('built-in materials', () => {
     expect(prop('silicon', 'thermal_expansion') / alpha).toBeCloseTo(1, 3);
   });
 
-  it('silicon modulus along <110> is 169 GPa', () => {
-    // Hopcroft, Nix & Kenny, J. Microelectromech. Syst. 19, 229 (2010): E<110> = 169 GPa.
-    expect(prop('silicon', 'youngs_modulus')).toBe(169e9);
+  it('silicon gives the (001) wafer normal’s pair and an explicitly isotropic stand-in', () => {
+    // Hopcroft, Nix & Kenny, J. Microelectromech. Syst. 19, 229 (2010): E<100> = 130 GPa, ν = 0.28 for
+    // <100> load (the wafer normal of a (001) wafer) — not the 169 GPa / 0.064 of <110> load.
+    expect(prop('silicon', 'youngs_modulus') / 1e9).toBeCloseTo(130, 0);
+    expect(prop('silicon', 'poisson_ratio')).toBeCloseTo(0.28, 2);
+    // Voigt–Reuss–Hill average of their C11 = 165.7, C12 = 63.9, C44 = 79.6 GPa (hand): K = 97.83,
+    // G_V = (101.8 + 238.8)/5 = 68.12, G_R = 5/(4(S11 − S12) + 3S44) = 64.95, G = 66.54 GPa;
+    // E = 9KG/(3K + G) = 162.7 GPa, ν = (3K − 2G)/(2(3K + G)) = 0.2228.
+    expect(prop('silicon', 'isotropic_youngs_modulus') / 1e9).toBeCloseTo(162.7, 1);
+    expect(prop('silicon', 'isotropic_poisson_ratio')).toBeCloseTo(0.223, 3);
   });
 
   it('dielectric constants follow Robertson (2004)', () => {
@@ -50,9 +60,31 @@ describe('built-in materials', () => {
     for (const [id, value] of Object.entries(k)) expect(prop(id, 'dielectric_constant'), id).toBe(value);
   });
 
-  it('copper resistivity is 1.68 µΩ·cm at 20 °C', () => {
-    // CRC Handbook, electrical resistivity of pure metals: Cu 1.678 µΩ·cm at 293 K (from memory).
-    expect(prop('copper', 'resistivity')).toBeCloseTo(1.68e-8, 10);
+  it('copper resistivity lies in its stated range at 20 °C', () => {
+    // 16.7–17.2 nΩ·m quoted in the hypertextbook.com compilation "Resistivity of Copper"; annealed
+    // commercial copper 1.70–1.7241 µΩ·cm (Calcutt, Introduction to Copper: Fact Sheets (2001), Table 5).
+    const rho = prop('copper', 'resistivity');
+    expect(rho).toBeGreaterThanOrEqual(1.67e-8);
+    expect(rho).toBeLessThanOrEqual(1.7241e-8);
+  });
+
+  it('copper and tungsten expansion and tungsten stiffness follow their published tables', () => {
+    // Calcutt (2001), Table 5: Cu 16.8e-6 /K over 25–100 °C. CRC Handbook 97th ed. and Cardarelli,
+    // Materials Handbook (2018), as compiled at matmake.com: W 411 GPa, ν 0.28, 4.5e-6 /K, 5.39 µΩ·cm.
+    expect(prop('copper', 'thermal_expansion')).toBeCloseTo(16.8e-6, 9);
+    expect(prop('tungsten', 'youngs_modulus')).toBe(411e9);
+    expect(prop('tungsten', 'poisson_ratio')).toBe(0.28);
+    expect(prop('tungsten', 'thermal_expansion')).toBeCloseTo(4.5e-6, 9);
+    expect(prop('tungsten', 'resistivity')).toBeCloseTo(5.39e-8, 11);
+  });
+
+  it('presents no recalled value as sourced: each one is marked typical, with its range', () => {
+    for (const m of builtIn().values()) {
+      for (const [p, v] of Object.entries(m.properties)) {
+        expect(v.source, `${m.id}.${p}`).not.toMatch(/confirm/);
+        if (/recalled/.test(v.source)) expect(v.source, `${m.id}.${p}`).toMatch(/typical|range/);
+      }
+    }
   });
 
   it('every built-in value names a source', () => {

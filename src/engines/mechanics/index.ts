@@ -8,14 +8,19 @@
 //
 // Body. The standing structure is one continuous beam: clamped at its base, held laterally by its
 // support lattices (pinned, or clamped), free at its top unless a support is there, its section
-// following the taper (finite elements, ./beam.ts).
+// following the taper (finite elements, ./beam.ts). It bends with its axial stress along its height
+// (the wafer normal): a round body with the Young's modulus E along it; a long line, held in plane
+// strain along its length, with the plate modulus E' = E/(1 − ν²) (cylindrical bending of a plate,
+// Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells, ch. 1). For single-crystal silicon on a
+// (001) wafer the materials table gives E⟨100⟩ and ν for ⟨100⟩ load, so E' is the anisotropic plate
+// modulus 1/(S11 − S12²/S11) of lines along ⟨100⟩ exactly, and 2.5 % under that of lines along ⟨110⟩.
 //
 // Collapse. The load grows as the gap closes (ΔP ∝ 1/(s − 2δ) for lines, F ∝ 1/(p − 2δ) for round
 // bodies, neighbours bending toward each other), so the body is a spring of deflection δ₁ under the
 // initial load facing a load that rises with δ. It stands while an equilibrium exists before
 // contact: δ₁·d₀ ≤ max over δ ≤ min(s/2, d₀/4) of δ(d₀ − 2δ), with d₀ = s for lines and p for round
 // bodies. For lines that is δ₁ ≤ s/8 and, for a prismatic cantilever, the critical height
-// H⁴ = E·W³·s²/(24γcosθ) — √2 lower than the geometric criterion δ₁ = s/2 (Namatsu et al. 1995).
+// H⁴ = E'·W³·s²/(24γcosθ) — √2 lower than the geometric criterion δ₁ = s/2 (Namatsu et al. 1995).
 // Deflection grows as (length)⁴ under a line load and (length)³ under a point load, so the collapse
 // margin L_c/L = (δ_crit/δ₁)^¼ or ^⅓ is the factor by which every span could lengthen, at the same
 // sections, gap and load, before the structure collapses.
@@ -27,8 +32,13 @@ import { factorBeam, maxDeflection, meshBeam, peakStress, sectionAt, uniformLoad
 
 const TANAKA = 'Tanaka, Morigami & Atoda, Jpn. J. Appl. Phys. 32, 6059 (1993): Laplace pressure 2γcosθ/s on a line, root stress (6γcosθ/s)(H/W)²';
 const KRALCHEVSKY = 'Kralchevsky & Nagayama, Langmuir 10, 23 (1994): lateral capillary immersion force between vertical cylinders, F ≈ 2πγ·Q₁Q₂/L with Q = r·cosθ';
-const BEAM = 'Euler–Bernoulli beam by finite elements (Cook, Malkus, Plesha & Witt, Concepts and Applications of Finite Element Analysis, ch. 2), checked against Roark’s Formulas for Stress and Strain, Table 8.1';
+const BEAM = 'Euler–Bernoulli beam by finite elements (Cook, Malkus, Plesha & Witt, Concepts and Applications of Finite Element Analysis, ch. 2), checked against Roark’s Formulas for Stress and Strain, Table 8.1; a line bends as a plate in cylindrical bending, with E/(1 − ν²) (Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells, ch. 1)';
 const SPRING = 'Elastocapillary stability: the capillary load grows as the gap closes; the body stands while an equilibrium exists before contact (one-degree-of-freedom spring model, as in Mastrangelo & Hsu, J. Microelectromech. Syst. 2, 33 (1993))';
+
+/** Plate modulus of a long line in plane strain along its length (cylindrical bending): E/(1 − ν²). */
+export function plateModulus(modulus: number, poisson: number): number {
+  return modulus / (1 - poisson * poisson);
+}
 
 /** |cos θ|, exactly zero at 90° (floating-point cos(π/2) is 6e-17). */
 export function wettingFactor(contact: number): number {
@@ -49,6 +59,7 @@ export interface CollapseProblem {
   pitch: number;
   /** Narrowest gap to the neighbour. */
   gap: number;
+  /** Bending modulus: E for a round body, the plate modulus E/(1 − ν²) for a line. */
   modulus: number;
   /** Lines: capillary pressure (Pa). Round bodies: immersion force at the top (N), scaling with r². */
   load: number;
@@ -174,6 +185,8 @@ function collapseInputs(shape: Shape): Record<string, string> {
     modulus: 'materials.body.youngs_modulus',
     load: shape.kind === 'line' ? 'mechanics.capillary_pressure' : 'mechanics.meniscus_force',
   };
+  // A line bends as a plate: its Poisson ratio enters the plate modulus.
+  if (shape.kind === 'line') inputs.poisson = 'materials.body.poisson_ratio';
   if (shape.kind === 'cylinder') inputs.wall = 'geometry.wall';
   for (let i = 1; i <= (shape.drying?.supportCount ?? 0); i++) inputs[`support_${i}`] = `drying.support_${i}`;
   return inputs;
@@ -186,6 +199,7 @@ const COLLAPSE_SYMBOLS: Record<string, string> = {
   pitch: 'p',
   gap: 's',
   modulus: 'E',
+  poisson: '\\nu',
   wall: 't_w',
   strength: '\\sigma_f',
   length: 'L',
@@ -203,7 +217,7 @@ function problemOf(shape: Shape, a: Record<string, number>): CollapseProblem {
     ...(a.wall !== undefined ? { wall: a.wall } : {}),
     pitch: a.pitch!,
     gap: a.gap!,
-    modulus: a.modulus!,
+    modulus: a.poisson !== undefined ? plateModulus(a.modulus!, a.poisson) : a.modulus!,
     load: a.load!,
     supports: supports.sort((x, y) => x - y),
     hold: shape.drying?.supportHold ?? 'pinned',
@@ -296,6 +310,7 @@ const noLoad = (what: string): Outcome => noValue(`no capillary load (no liquid�
 const BODY_ASSUMPTIONS = [
   'One continuous Euler–Bernoulli beam clamped at its base; support lattices hold it laterally (pinned: free to rotate, or clamped); the section follows the straight taper.',
   'Small deflections, linear elastic body.',
+  'The bending stress runs along the height (the wafer normal): a round body bends with materials.body.youngs_modulus E, a long line (plane strain along its length) with the plate modulus E′ = E/(1 − ν²). For single-crystal silicon on a (001) wafer the table gives E⟨100⟩ = 130.1 GPa and ν = 0.278 (Hopcroft, Nix & Kenny 2010), so E′ = 141.1 GPa: exact for lines along ⟨100⟩, 2.5 % under the 144.7 GPa of lines along ⟨110⟩ (conservative).',
 ];
 
 const freeLength = collapseQuantity(
@@ -327,7 +342,7 @@ const tipDeflection = collapseQuantity(
   },
   (shape) =>
     shape.kind === 'line'
-      ? '\\left(E\\,I(z)\\,w\'\'\\right)\'\' = \\Delta P,\\;\\; \\delta_1 = \\max_z |w| \\;\\;(\\tfrac{\\Delta P H^4}{8EI} \\text{ for a prismatic free line})'
+      ? '\\left(E\'\\,I(z)\\,w\'\'\\right)\'\' = \\Delta P,\\;\\; E\' = \\frac{E}{1-\\nu^2},\\;\\; \\delta_1 = \\max_z |w| \\;\\;(\\tfrac{\\Delta P H^4}{8E\'I} \\text{ for a prismatic free line})'
       : '\\left(E\\,I(z)\\,w\'\'\\right)\'\' = F\\,\\delta(z - z_F),\\;\\; \\delta_1 = \\max_{z_F} w(z_F) \\;\\;(\\tfrac{F H^3}{3EI} \\text{ at the top of a prismatic free body})',
   (r) => noted(r.deflection, `at ${formatValue(r.at, 'm', 3)} above the base, in ${r.span.describe}`),
 );
@@ -339,13 +354,13 @@ const criticalHeight = collapseQuantity(
     unit: 'm',
     symbol: 'L_c',
     description: 'Length the governing span could reach — every span lengthened in proportion, at the same sections, gap and load — before the structure finds no equilibrium short of touching its neighbour. Without supports: the unsupported height at which it collapses.',
-    source: `${SPRING}; lines: prismatic limit H_c⁴ = E·W³·s²/(24γcosθ), with the load of ${TANAKA.split(':')[0]}`,
+    source: `${SPRING}; lines: prismatic limit H_c⁴ = E′·W³·s²/(24γcosθ), E′ = E/(1 − ν²), with the load of ${TANAKA.split(':')[0]}`,
     assumptions: ['Neighbours bend toward each other (pairwise collapse); the narrowest gap is used for both load and contact.', 'Gap and load held at this structure’s values as the spans lengthen.'],
     better: 'higher',
   },
   (shape) =>
     shape.kind === 'line'
-      ? 'L_c = L\\left(\\frac{s/8}{\\delta_1}\\right)^{1/4} \\;\\Rightarrow\\; L_c^4 = \\frac{E\\,W^3 s^2}{24\\,\\gamma\\cos\\theta_c} \\text{ (prismatic, free)}'
+      ? 'L_c = L\\left(\\frac{s/8}{\\delta_1}\\right)^{1/4} \\;\\Rightarrow\\; L_c^4 = \\frac{E\'\\,W^3 s^2}{24\\,\\gamma\\cos\\theta_c} \\text{ (prismatic, free)},\\;\\; E\' = \\frac{E}{1-\\nu^2}'
       : 'L_c = L\\left(\\frac{\\delta_{crit}}{\\delta_1}\\right)^{1/3},\\;\\; \\delta_{crit} = \\frac{\\delta^*(p - 2\\delta^*)}{p},\\;\\; \\delta^* = \\min\\left(\\tfrac{s}{2}, \\tfrac{p}{4}\\right)',
   (r) => (Number.isFinite(r.margin) ? noted(r.margin * r.span.length, r.span.describe) : noLoad('nothing pulls the structures together')),
   // Shown in the derivation: the span and the deflection that set L_c.

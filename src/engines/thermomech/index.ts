@@ -6,14 +6,17 @@
 // temperature change [derived; the classical shrink-fit/inclusion solution, Timoshenko & Goodier,
 // Theory of Elasticity]: in the matrix σ_rr = −σ_θθ = σ₀(a/r)² with
 // σ₀ = −[k₁m₂/(k₁ + m₂)]·[(1 + ν₁)α₁ − (1 + ν₂)α₂]·ΔT, k₁ = E₁/((1 + ν₁)(1 − 2ν₁)), m₂ = E₂/(1 + ν₂).
-// Mobility: Δμ/μ = −(π_L·σ_L + π_T·σ_T) with Smith's piezoresistance coefficients (Phys. Rev. 94, 42
-// (1954)) rotated to ⟨110⟩ (Kanda, IEEE Trans. Electron Devices 29, 64 (1982)); around the via
-// σ_L − σ_T follows σ_rr·cos 2φ, so the largest shift at distance r is |π_L − π_T|·|σ₀|(a/r)².
+// Both materials are isotropic here, so the substrate enters through its isotropic stand-in
+// (`isotropic_youngs_modulus`, `isotropic_poisson_ratio`; for silicon the Voigt–Reuss–Hill average).
+// Mobility: Δμ/μ = −P(N, T)·(π_L·σ_L + π_T·σ_T) with Smith's piezoresistance coefficients (Phys. Rev.
+// 94, 42 (1954)) rotated to ⟨110⟩ and scaled by the doping and temperature factor P(N, T) (Kanda,
+// IEEE Trans. Electron Devices 29, 64 (1982)); around the via σ_L − σ_T follows σ_rr·cos 2φ, so the
+// largest shift at distance r is P·|π_L − π_T|·|σ₀|(a/r)².
 // Bow: Stoney's equation with the substrate's biaxial modulus (Freund & Suresh, Thin Film
 // Materials, 2003): κ = 6σ_f·h_f/(M_s·h_s²), bow b = κ·R²/2 over a wafer of radius R.
-import { noValue, variant, type Engine, type Figure, type QuantityDef, type Shape } from '../quantity.ts';
+import { noValue, variant, type Engine, type Figure, type QuantityDef, type Shape, type ValidityCheck } from '../quantity.ts';
 
-/** Smith (1954), 1e-11 /Pa: n- and p-type silicon. */
+/** Smith (1954), 1e-11 /Pa: n- and p-type silicon, lightly doped, at room temperature. */
 export const SMITH = {
   n: { p11: -102.2e-11, p12: 53.4e-11, p44: -13.6e-11 },
   p: { p11: 6.6e-11, p12: -1.1e-11, p44: 138.1e-11 },
@@ -27,6 +30,42 @@ export function piezo(channel: Channel): { longitudinal: number; transverse: num
   if (channel.endsWith('100')) return { longitudinal: c.p11, transverse: c.p12 };
   return { longitudinal: (c.p11 + c.p12 + c.p44) / 2, transverse: (c.p11 + c.p12 - c.p44) / 2 };
 }
+
+/**
+ * Fit of P(N, T) for p-type silicon by Richter, Pedersen & Thomsen, J. Appl. Phys. 104, 023715
+ * (2008), N in cm⁻³, Θ = T/300 K: P = Θ^−θ / [1 + Θ^−β (N/N_b)^α + Θ^−η (N/N_c)^γ] (constants as
+ * transcribed in the PiezoD cantilever code, github.com/MicrosystemsLab/PiezoD).
+ */
+const RICHTER = { nb: 6e19, nc: 7e20, alpha: 0.43, gamma: 1.6, beta: 0.1, eta: 3, theta: 0.9 } as const;
+
+/**
+ * Kanda's piezoresistance factor P(N, T) for the coefficient difference a channel sees
+ * (|π_L − π_T|; N in m⁻³, T in K). p-type: Richter's fit (π44 sets ⟨110⟩; the small ⟨100⟩ pair is
+ * scaled alike, as Kanda does). n-type ⟨100⟩: π11 − π12 comes from valley repopulation, ∝ 1/kT in
+ * the nondegenerate limit of Kanda's factor, so P = 300 K/T. n-type ⟨110⟩: π44, which is nearly
+ * independent of doping and temperature below 1e20 cm⁻³ (Kanda & Matsuda, AIP Conf. Proc. 893, 173
+ * (2007)), so P = 1.
+ */
+export function piezoFactor(channel: Channel, doping: number, temperature: number): number {
+  const theta = temperature / 300;
+  if (channel === 'n100') return 1 / theta;
+  if (channel === 'n110') return 1;
+  const n = doping * 1e-6;
+  const r = RICHTER;
+  return theta ** -r.theta / (1 + theta ** -r.beta * (n / r.nb) ** r.alpha + theta ** -r.eta * (n / r.nc) ** r.gamma);
+}
+
+/** TeX of the factor each channel uses (N in cm⁻³ in the p-type fit). */
+const RICHTER_TEX = 'P = \\frac{\\Theta^{-0.9}}{1 + \\Theta^{-0.1}(N/6\\times10^{19})^{0.43} + \\Theta^{-3}(N/7\\times10^{20})^{1.6}},\\; \\Theta = \\frac{T}{300\\,\\mathrm{K}}';
+const FACTOR_TEX: Record<Channel, string> = { n100: 'P = \\frac{300\\,\\mathrm{K}}{T}', n110: 'P = 1', p100: RICHTER_TEX, p110: RICHTER_TEX };
+
+/** Doping (m⁻³) up to which each channel's factor holds: light doping for the nondegenerate n-type limit. */
+const FACTOR_MAX_DOPING: Record<Channel, { max: number; why: string }> = {
+  n100: { max: 1e23, why: 'above 1e17 cm⁻³ degeneracy and impurity scattering lower the n-type π11 − π12 below its light-doping value: the shift and keep-out radius are overstated (conservative).' },
+  n110: { max: 1e26, why: 'above 1e20 cm⁻³ the n-type π44 changes with doping (band tail): outside the range of the factor.' },
+  p100: { max: 1e26, why: 'above 1e20 cm⁻³ lies outside the range of the p-type fit of P(N, T).' },
+  p110: { max: 1e26, why: 'above 1e20 cm⁻³ lies outside the range of the p-type fit of P(N, T).' },
+};
 
 /** Stress at the via edge in the matrix, σ₀ (radial; hoop is −σ₀). */
 export function viaEdgeStress(e1: number, nu1: number, a1: number, e2: number, nu2: number, a2: number, dT: number): number {
@@ -42,14 +81,15 @@ export function matrixStress(s0: number, a: number, r: number): { radial: number
 }
 
 /**
- * Relative mobility change of a channel at (x, y) from the via centre, channel along x: with
- * σ_L = σ_rr cos²φ + σ_θθ sin²φ = σ₀(a/r)² cos 2φ and σ_T = −σ_L, Δμ/μ = −(π_L − π_T)·σ₀(a/r)²·cos 2φ.
+ * Relative mobility change of a channel at (x, y) from the via centre, channel along x, with the
+ * piezoresistance factor P: with σ_L = σ_rr cos²φ + σ_θθ sin²φ = σ₀(a/r)² cos 2φ and σ_T = −σ_L,
+ * Δμ/μ = −P·(π_L − π_T)·σ₀(a/r)²·cos 2φ.
  */
-export function mobilityShiftAt(channel: Channel, s0: number, a: number, x: number, y: number): number {
+export function mobilityShiftAt(channel: Channel, factor: number, s0: number, a: number, x: number, y: number): number {
   const { longitudinal, transverse } = piezo(channel);
   const r2 = x * x + y * y;
   const cos2phi = (x * x - y * y) / r2;
-  return -(longitudinal - transverse) * s0 * ((a * a) / r2) * cos2phi;
+  return -factor * (longitudinal - transverse) * s0 * ((a * a) / r2) * cos2phi;
 }
 
 function stressProfile(s0: number, a: number): Figure {
@@ -61,7 +101,7 @@ function stressProfile(s0: number, a: number): Figure {
   return { type: 'stress-profile', radius: a, points };
 }
 
-function mobilityMap(channel: Channel, s0: number, a: number, keepOut: number, threshold: number): Figure {
+function mobilityMap(channel: Channel, factor: number, s0: number, a: number, keepOut: number, threshold: number): Figure {
   const n = 41;
   const extent = 1.5 * Math.max(keepOut, 2 * a);
   const values: Array<number | null> = [];
@@ -69,7 +109,7 @@ function mobilityMap(channel: Channel, s0: number, a: number, keepOut: number, t
     const y = extent - ((j + 0.5) * 2 * extent) / n;
     for (let i = 0; i < n; i++) {
       const x = -extent + ((i + 0.5) * 2 * extent) / n;
-      values.push(x * x + y * y <= a * a ? null : mobilityShiftAt(channel, s0, a, x, y));
+      values.push(x * x + y * y <= a * a ? null : mobilityShiftAt(channel, factor, s0, a, x, y));
     }
   }
   return { type: 'mobility-map', channel: `${channel[0]}-channel ⟨${channel.slice(1)}⟩`, radius: a, keepOut, threshold, extent, n, values };
@@ -84,17 +124,21 @@ export function siliconBiaxialModulus(orientation: '001' | '111'): number {
 }
 
 const INCLUSION = 'Elastic cylinder in an elastic matrix, plane strain (classical inclusion solution, Timoshenko & Goodier, Theory of Elasticity); σ₀ = −[k₁m₂/(k₁ + m₂)][(1 + ν₁)α₁ − (1 + ν₂)α₂]ΔT';
-const PIEZO = 'Smith, Phys. Rev. 94, 42 (1954), piezoresistance of silicon; rotated to ⟨110⟩ as in Kanda, IEEE Trans. Electron Devices 29, 64 (1982); Δμ/μ ≈ −(π_L σ_L + π_T σ_T)';
+const PIEZO =
+  'Smith, Phys. Rev. 94, 42 (1954), piezoresistance of lightly doped silicon; rotated to ⟨110⟩ and scaled by the doping and temperature factor P(N, T) as in Kanda, IEEE Trans. Electron Devices 29, 64 (1982): p-type by the fit of Richter, Pedersen & Thomsen, J. Appl. Phys. 104, 023715 (2008); n-type ⟨100⟩ by its nondegenerate limit 300 K/T; n-type ⟨110⟩ (π44) unscaled, after Kanda & Matsuda, AIP Conf. Proc. 893, 173 (2007); Δμ/μ ≈ −P(π_L σ_L + π_T σ_T)';
 
+/** The substrate is the inclusion model's isotropic matrix: it reads the substrate's isotropic stand-in. */
 const stressInputs = {
   e1: 'via.conductor_youngs_modulus',
   nu1: 'via.conductor_poisson_ratio',
   a1: 'via.conductor_thermal_expansion',
-  e2: 'materials.substrate.youngs_modulus',
-  nu2: 'materials.substrate.poisson_ratio',
+  e2: 'materials.substrate.isotropic_youngs_modulus',
+  nu2: 'materials.substrate.isotropic_poisson_ratio',
   a2: 'materials.substrate.thermal_expansion',
   dT: 'anneal.temperature_change',
 };
+const ISOTROPIC_SUBSTRATE =
+  'The substrate enters as an isotropic matrix through its isotropic stand-in (materials.substrate.isotropic_youngs_modulus and isotropic_poisson_ratio; an isotropic material’s own pair): for single-crystal silicon the materials table gives the Voigt–Reuss–Hill average of its cubic constants, 162.7 GPa and 0.223, with which the edge stress of a copper via lies about 4 % above the anisotropic (001) solution (the (001) pair 130 GPa/0.28 quoted in via papers gives about 14 % less). In the crystal the hoop stress and the field away from the edge also vary with the angle around the via; that is not modelled.';
 const SYMBOLS: Record<string, string> = {
   e1: 'E_1',
   nu1: '\\nu_1',
@@ -107,6 +151,8 @@ const SYMBOLS: Record<string, string> = {
   cd: '\\mathrm{CD}',
   depth: 'h',
   limit: '\\Delta\\mu_{max}',
+  doping: 'N',
+  temperature: 'T',
   stress: '\\sigma_f',
   hf: 'h_f',
   hs: 'h_s',
@@ -128,6 +174,7 @@ const viaStress: QuantityDef = {
   source: INCLUSION,
   assumptions: [
     'Plane strain far below the wafer surface (near the surface the field is three-dimensional); isotropic elastic materials; the thin liner is left out.',
+    ISOTROPIC_SUBSTRATE,
     'The single-modulus form −EΔαΔT/2 quoted in some via papers differs from this two-material solution by up to about 1.5×.',
   ],
   validity: [
@@ -146,10 +193,27 @@ const viaStress: QuantityDef = {
     }),
 };
 
+/** Where the factor P(N, T) holds, on the channel doping and temperature. */
+function factorValidity(channel: Channel): ValidityCheck[] {
+  const doping = FACTOR_MAX_DOPING[channel];
+  return [
+    { arg: 'doping', max: doping.max, why: doping.why },
+    { arg: 'temperature', min: 200, max: 400, why: 'the piezoresistance factor holds near room temperature (about 200–400 K, a range recalled rather than read from the fit’s paper); outside it the shift is an extrapolation.' },
+  ];
+}
+
 function channelQuantities(channel: Channel): QuantityDef[] {
   const { longitudinal, transverse } = piezo(channel);
   const diff = Math.abs(longitudinal - transverse);
   const label = `${channel[0]}-type channel along ⟨${channel.slice(1)}⟩`;
+  const factorInputs = { doping: 'keep_out.channel_doping', temperature: 'keep_out.temperature' };
+  /** The largest shift at the via edge, P·|π_L − π_T|·|σ₀|. */
+  const edgeShift = (s0: number, doping: number, temperature: number) => piezoFactor(channel, doping, temperature) * diff * Math.abs(s0);
+  const factorTex = `${FACTOR_TEX[channel]},\\;\\; |\\pi_L - \\pi_T| = ${(diff * 1e11).toFixed(1)}\\times 10^{-11}\\,\\mathrm{Pa^{-1}}`;
+  const assumptions = [
+    'Bulk piezoresistance of silicon at the channel’s doping and temperature, applied to the carrier mobility; an inversion layer’s coefficients differ.',
+    'Linear piezoresistance (small shifts); stress in the (001) plane only.',
+  ];
   const shift: QuantityDef = {
     name: `thermomech.mobility_shift_${channel}`,
     title: `Mobility shift at the via edge, ${label}`,
@@ -157,16 +221,19 @@ function channelQuantities(channel: Channel): QuantityDef[] {
     symbol: `|\\Delta\\mu/\\mu|_{${channel}}`,
     description: `Largest relative mobility change of a ${label} at the via edge, over every angle around the via.`,
     source: PIEZO,
-    assumptions: ['Linear piezoresistance (small shifts); stress in the (001) plane only.'],
-    validity: [{ holds: ({ s0 }) => diff * Math.abs(s0!) <= 0.2, why: 'above a 20 % shift the linear piezoresistance model no longer holds.' }],
+    assumptions,
+    validity: [
+      { holds: ({ s0, doping, temperature }) => edgeShift(s0!, doping!, temperature!) <= 0.2, why: 'above a 20 % shift the linear piezoresistance model no longer holds.' },
+      ...factorValidity(channel),
+    ],
     better: 'lower',
     variant: (shape) =>
       viaOnly(shape) ??
       variant({
-        inputs: { s0: 'thermomech.via_stress' },
+        inputs: { s0: 'thermomech.via_stress', ...factorInputs },
         symbols: SYMBOLS,
-        formula: `\\left|\\frac{\\Delta\\mu}{\\mu}\\right| = |\\pi_L - \\pi_T|\\,|\\sigma_0| ,\\;\\; |\\pi_L - \\pi_T| = ${(diff * 1e11).toFixed(1)}\\times 10^{-11}\\,\\mathrm{Pa^{-1}}`,
-        compute: ({ s0 }) => diff * Math.abs(s0),
+        formula: `\\left|\\frac{\\Delta\\mu}{\\mu}\\right| = P\\,|\\pi_L - \\pi_T|\\,|\\sigma_0| ,\\;\\; ${factorTex}`,
+        compute: ({ s0, doping, temperature }) => edgeShift(s0, doping, temperature),
       }),
   };
   const koz: QuantityDef = {
@@ -176,23 +243,23 @@ function channelQuantities(channel: Channel): QuantityDef[] {
     symbol: `r_{koz,${channel}}`,
     description: `Distance from the via centre beyond which a ${label} shifts less than the threshold in every direction (the via radius when it never exceeds it).`,
     source: `${INCLUSION}; ${PIEZO}`,
-    assumptions: ['Single via in an infinite matrix: neighbouring vias’ fields add and widen the zone between them.'],
-    validity: [{ arg: 'limit', max: 0.2, why: 'a threshold above 20 % lies outside the linear piezoresistance model.' }],
+    assumptions: ['Single via in an infinite matrix: neighbouring vias’ fields add and widen the zone between them.', ...assumptions],
+    validity: [{ arg: 'limit', max: 0.2, why: 'a threshold above 20 % lies outside the linear piezoresistance model.' }, ...factorValidity(channel)],
     better: 'lower',
     variant: (shape) =>
       viaOnly(shape) ??
       variant({
-        inputs: { s0: 'thermomech.via_stress', cd: 'geometry.cd', limit: 'keep_out.mobility_shift' },
+        inputs: { s0: 'thermomech.via_stress', cd: 'geometry.cd', limit: 'keep_out.mobility_shift', ...factorInputs },
         symbols: SYMBOLS,
-        formula: 'r_{koz} = \\max\\left(\\frac{\\mathrm{CD}}{2},\\; \\frac{\\mathrm{CD}}{2}\\sqrt{\\frac{|\\pi_L - \\pi_T|\\,|\\sigma_0|}{\\Delta\\mu_{max}}}\\right)',
-        compute: ({ s0, cd, limit }) => {
+        formula: `r_{koz} = \\max\\left(\\frac{\\mathrm{CD}}{2},\\; \\frac{\\mathrm{CD}}{2}\\sqrt{\\frac{P\\,|\\pi_L - \\pi_T|\\,|\\sigma_0|}{\\Delta\\mu_{max}}}\\right),\\;\\; ${factorTex}`,
+        compute: ({ s0, cd, limit, doping, temperature }) => {
           const a = cd / 2;
-          const r = a * Math.sqrt((diff * Math.abs(s0)) / limit);
+          const r = a * Math.sqrt(edgeShift(s0, doping, temperature) / limit);
           const koz = Math.max(r, a);
           return {
             value: koz,
             note: r <= a ? 'the shift stays under the threshold everywhere outside the via' : 'set along and across the channel (cos 2φ = ±1), where the shift is largest',
-            figure: mobilityMap(channel, s0, a, koz, limit),
+            figure: mobilityMap(channel, piezoFactor(channel, doping, temperature), s0, a, koz, limit),
           };
         },
       }),
@@ -220,6 +287,7 @@ const protrusion: QuantityDef = {
   source: 'Elastic estimate derived from the cylinder-in-a-matrix solution (Timoshenko & Goodier, Theory of Elasticity) with a freely sliding conductor (σ_zz = 0); measured protrusions to compare with: Heryanto et al., J. Electron. Mater. (2012), doi:10.1007/s11664-012-2117-3',
   assumptions: [
     'Elastic, with the liner letting the conductor slide; plastic flow near the top, grain growth and the liner’s shear hold change the measured value either way.',
+    ISOTROPIC_SUBSTRATE,
     'The anneal excursion is the size of the stated temperature change; a negative value means the conductor sinks below the surface.',
   ],
   better: 'lower',
