@@ -17,11 +17,14 @@ function via(dT: number | [number, number, number], depth: number | [number, num
   set('via.conductor_youngs_modulus', 120e9);
   set('via.conductor_poisson_ratio', 0.34);
   set('via.conductor_thermal_expansion', 16.7e-6);
-  set('materials.substrate.youngs_modulus', 130e9);
-  set('materials.substrate.poisson_ratio', 0.28);
+  set('materials.substrate.isotropic_youngs_modulus', 130e9);
+  set('materials.substrate.isotropic_poisson_ratio', 0.28);
   set('materials.substrate.thermal_expansion', 2.6e-6);
   set('anneal.temperature_change', dT);
   set('keep_out.mobility_shift', 0.05);
+  // Lightly doped channels at room temperature: the piezoresistance factor is 1 (Kanda 1982).
+  set('keep_out.channel_doping', 1e21);
+  set('keep_out.temperature', 300);
   return s;
 }
 
