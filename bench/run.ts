@@ -1,11 +1,12 @@
 // Benchmarks: speed targets live here, never in timed tests. Run with `npm run bench`.
 // Each case prints its time against its target; the run exits 1 if a target is missed.
+import { loadHandbookFolder } from '../src/pipeline.ts';
 import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { evaluateHandbook } from '../src/checker/evaluate.ts';
-import { loadHandbookFolder } from '../src/model/folder-source.ts';
+
 import { buildSite } from '../src/report/site.ts';
 import { execFileSync } from 'node:child_process';
 import { GitRepo } from '../src/history/git.ts';

@@ -16,13 +16,26 @@
 //     │ renderSite          Eleventy into a temporary folder, then swapped in atomically
 //     ▼
 //   site/
-import { loadHandbook, type LoadResult } from './model/load.ts';
+import { loadHandbookWith, type LoadResult } from './model/load.ts';
+import { FolderSource } from './model/folder-source.ts';
+import { QUANTITIES } from './engines/index.ts';
 import { evaluateHandbook, type EvaluateOptions, type Results } from './checker/evaluate.ts';
 import type { Diagnostic } from './diagnostics/diagnostic.ts';
 import type { Handbook } from './model/types.ts';
 import type { HandbookSource } from './model/source.ts';
 
-export { loadHandbook, evaluateHandbook };
+export { evaluateHandbook };
+export type { LoadResult };
+
+/** Load a handbook, checking its rules against the engines' quantities. */
+export function loadHandbook(source: HandbookSource): LoadResult {
+  return loadHandbookWith(source, QUANTITIES);
+}
+
+/** Load the handbook in a folder on disk. */
+export function loadHandbookFolder(root: string): LoadResult {
+  return loadHandbook(new FolderSource(root));
+}
 
 export type CheckOutcome =
   | { ok: false; diagnostics: Diagnostic[] }

@@ -5,7 +5,7 @@ import type { StructureQuantity } from '../checker/evaluate.ts';
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
-import { formatMargin, formatValue } from '../report/format.ts';
+import { formatMargin, formatValue } from '../model/format.ts';
 import { CAUTION, STATUS_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {

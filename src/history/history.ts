@@ -6,9 +6,10 @@
 // (what the merge itself decided), so a change made on a branch is listed once, at its own commit,
 // and not again when the branch is merged. `firstParent` walks only the main line instead, where a
 // merge stands for everything its branch brought in.
+import { loadHandbook } from '../pipeline.ts';
 import { formatDiagnostic } from '../diagnostics/messages.ts';
 import { isWarning } from '../diagnostics/diagnostic.ts';
-import { loadHandbook } from '../model/load.ts';
+
 import type { HandbookSource } from '../model/source.ts';
 import { HANDBOOK_INPUTS, stemOf } from '../model/source.ts';
 import type { TreeEntry } from '../model/revision-source.ts';

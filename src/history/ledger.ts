@@ -3,7 +3,7 @@
 // verdict. The text is canonical: sorted, tab-separated, numbers formatted without locale, no dates
 // or times, so two runs anywhere give the same bytes. Format described in docs/history.md.
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
-import { formatMargin, formatValue } from '../report/format.ts';
+import { formatMargin, formatValue } from '../model/format.ts';
 import { rowKey, type VerdictRow } from './rows.ts';
 
 export const LEDGER_FILE = 'verdicts.ledger';

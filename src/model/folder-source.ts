@@ -5,7 +5,6 @@ import { closeSync, constants, fstatSync, lstatSync, openSync, readdirSync, read
 import { basename, dirname, isAbsolute, join, relative, sep } from 'node:path';
 import process from 'node:process';
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
-import { loadHandbook, type LoadResult } from './load.ts';
 import { MAX_FILE_BYTES, escapeName, type EntryKind, type HandbookSource, type ReadOutcome, type SourceEntry } from './source.ts';
 
 /** `child` is `parent` or lies inside it (both real, absolute paths). */
@@ -156,9 +155,4 @@ export class SingleFileSource implements HandbookSource {
   read(path: string): ReadOutcome {
     return path === this.file ? this.inner.read(this.name) : { ok: false, problem: { code: 'file-unreadable', found: 'no such file' } };
   }
-}
-
-/** Load the handbook in a folder on disk. */
-export function loadHandbookFolder(root: string): LoadResult {
-  return loadHandbook(new FolderSource(root));
 }

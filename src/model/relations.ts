@@ -4,7 +4,7 @@
 // combination of ends, not only at nominal: a support at 1.89 µm ± 60 nm on a 1.9 µm ± 40 nm body
 // is above the top at one corner.
 import type { Param } from './types.ts';
-import { formatValue } from '../report/format.ts';
+import { formatValue } from './format.ts';
 
 export interface Relation {
   /** Inputs it reads; a violation is reported at the first. */

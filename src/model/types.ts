@@ -200,6 +200,16 @@ export interface HandbookMeta {
   };
 }
 
+/**
+ * What loading needs to know of the engines' quantities: their names, units and titles, and which
+ * are quantities of one film step. The pipeline hands the engines' registry in, so the model
+ * imports no engine.
+ */
+export interface QuantityCatalogue {
+  get(name: string): { title: string; unit: string; steps?: unknown } | undefined;
+  keys(): IterableIterator<string>;
+}
+
 export interface Handbook {
   root: string;
   meta: HandbookMeta;

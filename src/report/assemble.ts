@@ -11,7 +11,7 @@ import type { HistoryPages } from './history-pages.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { renderFigure } from './figures.ts';
-import { displayScale, formatMargin, formatValue } from './format.ts';
+import { displayScale, formatMargin, formatValue } from '../model/format.ts';
 import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';

@@ -2,7 +2,7 @@
 // dimensions labelled. Tall structures are drawn with a compressed vertical scale, said on the
 // drawing, so a 60:1 node still fits the page.
 import { isElongated, isOpening, type Kind } from '../model/types.ts';
-import { formatValue } from './format.ts';
+import { formatValue } from '../model/format.ts';
 
 export interface SectionInput {
   kind: Kind;

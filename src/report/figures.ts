@@ -1,6 +1,6 @@
 // Figures engines hand to the report as data (never as drawings): drawn here as SVG.
 import type { Figure } from '../engines/quantity.ts';
-import { formatValue } from './format.ts';
+import { formatValue } from '../model/format.ts';
 
 const W = 520;
 const H = 360;

@@ -6,7 +6,7 @@ import type { HistoryReport, Transition, WaiverEvent } from '../history/history.
 import { changeText } from '../history/history.ts';
 import { commitUrl, type Links } from '../history/summary.ts';
 import { rowKey } from '../history/rows.ts';
-import { formatMargin } from './format.ts';
+import { formatMargin } from '../model/format.ts';
 
 /** The revision a report was built from. */
 export interface BuiltFrom {

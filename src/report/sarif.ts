@@ -12,7 +12,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, SourcePos, Structure } from '../model/types.ts';
 import { urls } from './urls.ts';
-import { formatMargin, formatValue } from './format.ts';
+import { formatMargin, formatValue } from '../model/format.ts';
 import { limitPhrase } from './words.ts';
 
 // ---------------------------------------------------------------------------------------------

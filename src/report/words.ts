@@ -1,7 +1,7 @@
 // Sentences about verdicts, shared by the terminal and the site.
 import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
 import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
-import { formatValue } from './format.ts';
+import { formatValue } from '../model/format.ts';
 
 export const CAUTION =
   'Caution: these results are engineering estimates from published models; confirm them on silicon before relying on them. ' +

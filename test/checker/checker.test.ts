@@ -1,10 +1,11 @@
 // Checker semantics: verdicts, signed margins, worst-case corners, not-applicable, incomplete,
 // unbounded and undefined values, determinism. The margin convention and the verdict rules are the
 // design brief's ("Verdicts"); every expected value is worked by hand in the comment beside it.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { evaluateHandbook, evaluateRule, margin, PlanCache, type Verdict } from '../../src/checker/evaluate.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import type { Handbook, Rule, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 

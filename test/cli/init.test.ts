@@ -1,6 +1,7 @@
 // `plumbline init`: the scaffold loads and passes with the real loader and checker, never replaces
 // or deletes anything, ignores exactly what a build leaves, ships a CI script that runs its steps
 // in order, and the package a team installs carries the runtime and nothing else.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { execFileSync, spawnSync } from 'node:child_process';
 import { chmodSync, copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -9,7 +10,7 @@ import { describe, expect, it, onTestFinished } from 'vitest';
 import { evaluateHandbook } from '../../src/checker/evaluate.ts';
 import { describeScaffold, scaffoldFiles, scaffoldHandbook } from '../../src/cli/init.ts';
 import { Refusal } from '../../src/diagnostics/refusal.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import { lockPathOf, publish } from '../../src/report/publish.ts';
 import { expectRel } from '../helpers.ts';
 

@@ -15,6 +15,7 @@
 // The expected places were read off the case files by hand. Every diagnostic of the run must be
 // listed (a follow-on error is a failure of the case too), and no message may quote more than a
 // short excerpt of a file.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { tmpdir } from 'node:os';
@@ -23,7 +24,6 @@ import { load } from 'js-yaml';
 import { describe, expect, it } from 'vitest';
 import type { Diagnostic } from '../../src/diagnostics/diagnostic.ts';
 import { formatDiagnostic } from '../../src/diagnostics/messages.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const CORPUS = resolve(import.meta.dirname);
 const BASE = join(CORPUS, '_base');

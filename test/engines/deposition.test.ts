@@ -5,12 +5,13 @@
 // - CVD: the closed-form diffusion–reaction solution against a finite-difference solution of the
 //   same equation (an independent numerical method).
 // - PVD: coaxial-disc and parallel-strip view factors against a first-flight ray count.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import { concentration, marchFill } from '../../src/engines/deposition/fill.ts';
 import {
   aldAspectRatio,
@@ -116,7 +117,6 @@ describe('PVD line-of-sight coverage', () => {
 });
 
 // ── Film steps on structures ──────────────────────────────────────────────────────────────────
-
 
 const ROOT = resolve(import.meta.dirname, '../..');
 

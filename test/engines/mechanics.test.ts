@@ -20,10 +20,11 @@
 // No published worked example of Tanaka's formula was reachable; the stress check evaluates the
 // published closed form by hand instead. Lines in the closed-form checks have ν = 0, where the
 // plate modulus is E itself.
+import { loadHandbook } from '../../src/pipeline.ts';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { factorBeam, meshBeam, sectionAt, uniformLoad } from '../../src/engines/mechanics/beam.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { MemorySource } from '../../src/model/memory-source.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';

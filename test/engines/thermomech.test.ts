@@ -14,10 +14,11 @@
 //   229.1 GPa for (001) and (111); the design references quote them rounded, 180.5 and 229);
 // - Stoney's equation evaluated by hand (no textbook worked example was reachable);
 // - the keep-out radius against the mobility map it is solved from.
+import { loadHandbook } from '../../src/pipeline.ts';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { freeSlidingProtrusion, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { MemorySource } from '../../src/model/memory-source.ts';
 import type { Param } from '../../src/model/types.ts';
 import { expectRel, makeRule, makeStructure, um } from '../helpers.ts';

@@ -1,5 +1,6 @@
 // `plumbline diff`: the change-request summary as a golden file, its links, its exit codes; and
 // the handbook read from a revision (links, large files, shallow clones).
+import { loadHandbook } from '../../src/pipeline.ts';
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -7,7 +8,7 @@ import { join, resolve } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { run } from '../../src/cli/main.ts';
 import { GitRepo } from '../../src/history/git.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { HANDBOOK, TestRepo, arRule, trench } from './repo.ts';
 
 const GOLDEN = resolve(import.meta.dirname, 'golden');

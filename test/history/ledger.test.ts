@@ -1,11 +1,12 @@
 // The verdict ledger: canonical bytes (any run, file order, locale or time zone), `--verify`
 // naming exactly the lines that differ, and a file plumbline did not write is never replaced.
+import { loadHandbook } from '../../src/pipeline.ts';
 import { execFileSync, spawnSync } from 'node:child_process';
 import { cpSync, lstatSync, mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { MemorySource } from '../../src/model/memory-source.ts';
 import { LEDGER_FILE, LEDGER_HEADER, ledgerText, parseLedger } from '../../src/history/ledger.ts';
 import { evaluateRows } from '../../src/history/rows.ts';

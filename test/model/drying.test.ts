@@ -1,10 +1,10 @@
 // The `drying:` block at load: where each problem is reported, and what the block becomes.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 

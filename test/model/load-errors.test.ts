@@ -2,10 +2,10 @@
 // Diagnostics are asserted by code, file, line, column and field (never by sentence). Lines and
 // columns are 1-based and were read off the fixture text by hand; the fixture line is quoted beside
 // each check.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import type { Diagnostic } from '../../src/diagnostics/diagnostic.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const FIXTURES = fileURLToPath(new URL('../fixtures/', import.meta.url));
 

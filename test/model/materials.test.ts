@@ -1,10 +1,10 @@
 // The built-in materials table against its published sources, and handbook materials that add
 // to it or override it.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 

@@ -1,10 +1,11 @@
 // Inputs outside the physical domain are load errors at the field, never values that reach an
 // engine: non-finite numbers, a tolerance that reaches past zero, an angle of 180°.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import { evaluateRule, PlanCache } from '../../src/checker/evaluate.ts';
 import { makeRule, makeStructure, nm } from '../helpers.ts';
 

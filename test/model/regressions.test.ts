@@ -2,6 +2,7 @@
 // changed meaning or lost their tolerance on the way to an engine, relations checked at nominal
 // only, files and ids dropped without a word, and messages that misled. Each failed before its fix.
 // Places (line:column) were read off the text written here by hand.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { cpSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -9,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateHandbook } from '../../src/checker/evaluate.ts';
 import type { Diagnostic } from '../../src/diagnostics/diagnostic.ts';
 import { formatDiagnostics } from '../../src/diagnostics/messages.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import type { Handbook } from '../../src/model/types.ts';
 import { expectRel } from '../helpers.ts';
 

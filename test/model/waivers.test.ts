@@ -1,11 +1,12 @@
 // Loading waivers: what a valid waiver becomes (fields, date, still_within in SI, position), how
 // waivers/ is read, and calendar dates. Bad waivers are cases of the corpus (test/corpus/waiver-*);
 // here diagnostics are asserted by code, field and place only, never by sentence.
+import { loadHandbook } from '../../src/pipeline.ts';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { calendarDateOf, daysInMonth, isCalendarDate, readCalendarDate, utcDateOf } from '../../src/model/calendar.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { MemorySource } from '../../src/model/memory-source.ts';
 import { HANDBOOK_INPUTS } from '../../src/model/source.ts';
 import { SCHEMAS } from '../../src/model/schema.ts';

@@ -8,6 +8,7 @@
 // values. Those the loader refuses are skipped (their refusal is the loader's job, tested apart).
 // runPlan turns a non-finite engine result into a null with the reason "the formula gave a
 // non-finite result": that reason must never appear.
+import { loadHandbook } from '../../src/pipeline.ts';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import fc from 'fast-check';
@@ -16,7 +17,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { shapeOf } from '../../src/checker/plan.ts';
 import { QUANTITIES } from '../../src/engines/index.ts';
-import { loadHandbook } from '../../src/model/load.ts';
+
 import { MemorySource } from '../../src/model/memory-source.ts';
 import type { Structure } from '../../src/model/types.ts';
 import { makeRule } from '../helpers.ts';

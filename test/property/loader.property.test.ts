@@ -1,10 +1,11 @@
 // Properties of loading: whatever bytes or YAML a handbook holds, the loader answers with its own
 // diagnostics (every one at a real place, with a sentence the catalogue can word) and never throws.
+import { loadHandbook } from '../../src/pipeline.ts';
 import fc from 'fast-check';
 import { dump } from 'js-yaml';
 import { describe, expect, it } from 'vitest';
 import { formatDiagnostic } from '../../src/diagnostics/messages.ts';
-import { loadHandbook, type LoadResult } from '../../src/model/load.ts';
+import { type LoadResult } from '../../src/model/load.ts';
 import { MemorySource } from '../../src/model/memory-source.ts';
 import { GEOMETRY_PARAMS, ETCH_PARAMS, DRYING_PARAMS, MATERIAL_PROPERTIES } from '../../src/model/parameters.ts';
 import { KINDS } from '../../src/model/types.ts';

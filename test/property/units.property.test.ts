@@ -5,7 +5,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { isUnitProblem, parseValue } from '../../src/model/units.ts';
-import { formatValue } from '../../src/report/format.ts';
+import { formatValue } from '../../src/model/format.ts';
 
 const RUNS = Number(process.env.FC_RUNS ?? 500);
 

@@ -5,13 +5,14 @@
 // (SARIF) Version 2.1.0 Plus Errata 01". The handbook is test/fixtures/ok_sarif, read through the
 // real loader and checker; lines and columns were read off its files by hand and are quoted beside
 // each check. Numbers in messages were worked by hand from the fixture's inputs.
+import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import type { ErrorObject } from 'ajv';
 import { sarifValidator, rawSchema, schemaText, type Json } from './sarif-schema.ts';
 import { describe, expect, it } from 'vitest';
 import { evaluateHandbook, type Results, type Status, type Verdict, type WaiverRef } from '../../src/checker/evaluate.ts';
-import { loadHandbookFolder } from '../../src/model/folder-source.ts';
+
 import type { Handbook } from '../../src/model/types.ts';
 import { urls } from '../../src/report/assemble.ts';
 import { compareWithBaseline, FINGERPRINT_KEY, REPO_ROOT, toSarif, type SarifLog, type SarifResult } from '../../src/report/sarif.ts';

@@ -25,7 +25,7 @@
 // margin L_c/L = (δ_crit/δ₁)^¼ or ^⅓ is the factor by which every span could lengthen, at the same
 // sections, gap and load, before the structure collapses.
 import { isElongated, type SupportHold } from '../../model/types.ts';
-import { formatValue } from '../../report/format.ts';
+import { formatValue } from '../../model/format.ts';
 import { bottomCd } from '../geometry/index.ts';
 import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
 import { factorBeam, maxDeflection, meshBeam, peakStress, sectionAt, uniformLoad, type SectionShape } from './beam.ts';
