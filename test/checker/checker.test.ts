@@ -7,6 +7,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { evaluateHandbook, evaluateRule, margin, PlanCache, type Verdict } from '../../src/checker/evaluate.ts';
 
 import type { Handbook, Rule, Structure } from '../../src/model/types.ts';
+import { depositionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 
 const DEMO_ROOT = fileURLToPath(new URL('../../', import.meta.url));
@@ -204,34 +205,19 @@ describe('the demo handbook, verdict by verdict', () => {
     const hc = (W: number) => ((E * W ** 3 * s ** 2) / (24 * gamma * Math.cos(deg(contactDeg)))) ** 0.25;
     return [hc(cd) / H, hc(cd + 4 * H * cot) / H];
   };
-  // CVD step coverage (Knudsen diffusion–reaction, reacting bottom) and PVD coaxial-disc factor.
-  const cvd = (s: number, L: number, d: number) => {
-    const phi = Math.sqrt(3 * s) * (L / d);
-    return 1 / (Math.cosh(phi) + (Math.sqrt(3 * s) / 4) * Math.sinh(phi));
-  };
-  const discs = (X: number) => (2 + X * X - X * Math.sqrt(X * X + 4)) / 2;
-  const sigma0 = () => {
-    const [e1, n1, a1, e2, n2, a2] = [120e9, 0.34, 16.5e-6, 130e9, 0.28, 2.509e-6];
-    const k1 = e1 / ((1 + n1) * (1 - 2 * n1));
-    const m2 = e2 / (1 + n2);
-    return -((k1 * m2) / (k1 + m2)) * ((1 + n1) * a1 - (1 + n2) * a2) * -250;
-  };
-  const koz = (dpi: number) => Math.max(4.15e-6, 4.15e-6 * Math.sqrt((dpi * Math.abs(sigma0())) / 0.05));
-  const bow = (stress: number, hf: number) => {
-    const m = 165.7e9 + 63.9e9 - (2 * 63.9e9 * 63.9e9) / 165.7e9;
-    return ((6 * stress * hf) / (m * 775e-6 * 775e-6)) * 0.15 * 0.15 / 2;
-  };
-  const punchThrough = () => {
-    const eps = 11.7 * 8.8541878128e-12;
-    const q = 1.602176634e-19;
-    const n = 2e23;
-    const vbi = ((1.380649e-23 * 300) / q) * Math.log((n * 1e26) / (9.65e15 * 9.65e15));
-    const w = (v: number) => Math.sqrt((2 * eps * (vbi + v)) / (q * n));
-    return (2 * 220e-9 + (22 - 440 * tanDeg(1.8)) * 1e-9) / (w(20) + w(0));
+  // CVD liners against an independent method: the reacting-wall test-particle Monte Carlo
+  // (src/engines/transport/montecarlo.ts, after Davis 1960) on the worst-corner profile; the
+  // engine solves the reactive-wall Clausing equation instead. Within 4σ of the count plus 1 %.
+  const mcCoverage = (shape: 'tube' | 'slot', depth: number, top: number, bottom: number, s: number, seed: number): [number, number] => {
+    const mc = depositionMonteCarlo({ shape, depth, topWidth: top, bottomWidth: bottom }, s, 100_000, { bins: 1, seed });
+    const tol = 4 * mc.bottomSigma + 0.01 * mc.bottom;
+    return [mc.bottom - tol, mc.bottom + tol];
   };
   const WATER = 0.07197; // IAPWS R1-76 at 25 °C
   const IPA = 0.0209; // CRC Handbook, 25 °C (from memory)
-  const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number]]> = [
+  /** A value worked by hand to five or six figures: compared to 5e-5, relatively. */
+  const approx = (x: number) => ({ approx: x });
+  const expected: Array<[rule: string, structure: string, status: Verdict['status'], value: number | null | [number, number] | { approx: number }]> = [
     // 7.2 µm + 0.1 µm over 110 nm − 5 nm: 7300/105 = 69.524 ≤ 70.
     ['CH-AR-1', 'channel-hole', 'pass', 7300 / 105],
     // θ low 89.82°: 105 nm − 2·7.3 µm·tan 0.18° = 105 − 45.867 = 59.13 nm ≥ 55 nm.
@@ -264,11 +250,17 @@ describe('the demo handbook, verdict by verdict', () => {
     ['SN-AR-1', 'storage-node-no-lattice', 'pass', 1940 / 32.5],
     ['SN-BASE-1', 'storage-node-no-lattice', 'pass', 32.5 * nm - 2 * 1940 * nm * tanDeg(0.25)],
     ['SN-SPACE-1', 'storage-node-no-lattice', 'pass', 16.5 * nm],
-    // Fin: silicon 169 GPa, water, θc 10°, top 8 nm, 65 nm tall, 89.1°, pitch 36 nm.
-    ['FIN-STAND-1', 'periphery-fin', 'pass', lineMarginBounds(169e9, WATER, 10, 8 * nm, 65 * nm, 89.1, 36 * nm)],
-    // Mandrels: polysilicon 160 GPa, θc 0°, top 19 nm, 235 nm tall, 89.7°, pitch 60 nm; IPA passes 1.05, water does not.
-    ['PAT-STAND-1', 'spacer-line-ipa', 'pass', lineMarginBounds(160e9, IPA, 0, 19 * nm, 235 * nm, 89.7, 60 * nm)],
-    ['PAT-STAND-1', 'spacer-line-water', 'fail', lineMarginBounds(160e9, WATER, 0, 19 * nm, 235 * nm, 89.7, 60 * nm)],
+    // Lines bend in plane strain along their length: plate modulus E/(1 − ν²).
+    // Fin: silicon along the (001) normal, 1/S₁₁ = 130.13 GPa and ν = −S₁₂/S₁₁ = 0.27831 from
+    // Hopcroft's C₁₁ = 165.7, C₁₂ = 63.9 GPa: 130.13/(1 − 0.07746) = 141.06 GPa; water, θc 10°, top
+    // 8 nm, 65 nm tall, 89.1°, pitch 36 nm: bounds [1.125, 1.533] straddle the 1.3 limit, and the
+    // beam finds 1.29: it fails.
+    ['FIN-STAND-1', 'periphery-fin', 'fail', lineMarginBounds(141.06e9, WATER, 10, 8 * nm, 65 * nm, 89.1, 36 * nm)],
+    // Mandrels: polysilicon (the Voigt–Reuss–Hill average of silicon, 162.7 GPa, ν 0.223, for a
+    // random texture): 162.7/(1 − 0.04973) = 171.21 GPa; θc 0°, top 19 nm, 235 nm tall, 89.7°,
+    // pitch 60 nm; IPA passes 1.05, water does not.
+    ['PAT-STAND-1', 'spacer-line-ipa', 'pass', lineMarginBounds(171.21e9, IPA, 0, 19 * nm, 235 * nm, 89.7, 60 * nm)],
+    ['PAT-STAND-1', 'spacer-line-water', 'fail', lineMarginBounds(171.21e9, WATER, 0, 19 * nm, 235 * nm, 89.7, 60 * nm)],
     // Round bodies: the values are checked against closed forms in test/engines/mechanics.test.ts;
     // here the verdicts: the lattice makes the node stand, and without it the node falls and overstresses.
     ['SN-STAND-1', 'storage-node', 'pass', null],
@@ -296,15 +288,20 @@ describe('the demo handbook, verdict by verdict', () => {
     // 5 nm dielectric: the film fills the bottom of the cup, so the lined-opening dose model has no
     // value there and the verdict fails.
     ['SN-DIEL-1', 'storage-node', 'fail', null],
-    // (and the value is indeed absent, with the reason: asserted below the table.)
-    // Trench liner (CVD, s = 0.0008), worst corner: bottom 22 − 2·240·tan 1.8° = 6.915 nm, d = 2w:
-    // φ = √(3s)·L/(2w); coverage 1/(cosh φ + (√(3s)/4)·sinh φ).
-    ['ISO-LINER-1', 'cell-isolation-trench', 'pass', cvd(0.0008, 240, 2 * (22 - 2 * 240 * tanDeg(1.8)))],
-    // Via liner (CVD, s = 0.001), worst corner: bottom 7.7 − 2·112·tan 0.4° = 6.136 µm.
-    ['TSV-LINER-1', 'package-tsv', 'pass', cvd(0.001, 112, 7.7 - 2 * 112 * tanDeg(0.4))],
-    // Via seed (PVD) after the 200 nm liner narrows the bottom by 0.4 µm: coaxial discs,
-    // X = 2L/d at the same corner: [(2 + X²) − X√(X² + 4)]/2.
-    ['TSV-SEED-1', 'package-tsv', 'fail', discs((2 * 112) / (7.7 - 2 * 112 * tanDeg(0.4) - 0.4))],
+    // Trench liner (CVD, s = 0.0008), worst corner: 240 nm deep, 22 nm at the top narrowing to
+    // 22 − 2·240·tan 1.8° = 6.915 nm: the Monte Carlo of that slot.
+    ['ISO-LINER-1', 'cell-isolation-trench', 'pass', mcCoverage('slot', 240, 22, 22 - 2 * 240 * tanDeg(1.8), 0.0008, 7)],
+    // Via liner (CVD, s = 0.001), worst corner: 112 µm deep, 7.7 µm narrowing to 7.7 − 2·112·tan 0.4°
+    // = 6.136 µm: the Monte Carlo of that hole.
+    ['TSV-LINER-1', 'package-tsv', 'pass', mcCoverage('tube', 112, 7.7, 7.7 - 2 * 112 * tanDeg(0.4), 0.001, 8)],
+    // Via seed (PVD, line of sight) at its worst corner: 112 µm deep, 7.7 µm at the top, 89.8°, so
+    // 7.7 − 2·112·tan 0.2° = 6.918 µm at the bottom; the liner leaves 7.3 µm at the top and about
+    // 6.64 µm at the bottom (200 nm × its coverage there, about 0.7). The bottom sees the top
+    // opening as coaxial unequal discs (Howell, Mengüç & Siegel, catalogue): R₁ = 3.32/112,
+    // R₂ = 3.65/112, X = 1 + (1 + R₂²)/R₁², F = ½[X − √(X² − 4R₂²/R₁²)] = 1.0600e-3, hardly
+    // changed by the liner's exact bottom thickness (1.05999e-3 … 1.06004e-3 for coverage 0.6 … 1).
+    // Within 1 %: the engine's band solve follows the liner's profile down the wall.
+    ['TSV-SEED-1', 'package-tsv', 'fail', [1.0494e-3, 1.0706e-3]],
     // Fill (profile march, test/engines/deposition.test.ts): the tapered cell trench with its
     // low-sticking oxide closes from the bottom; the wide periphery trench with the high-rate oxide
     // traps a void (the march's own result; a void at all is what fails the 0 nm limit).
@@ -320,34 +317,46 @@ describe('the demo handbook, verdict by verdict', () => {
     // SN-DIEL-1), an inner radius of 3.39 nm, less than the 5 nm dielectric: no plate fits inside
     // there, so the vertical-wall capacitance has no value and the signal rule fails (asserted below).
     ['SN-SIGNAL-1', 'storage-node', 'fail', null],
-    // Isolation (abrupt junction, Sze & Ng): shortest path at depth 220 nm, CD 22 nm, 88.2°:
-    // 2·220 + (22 − 440·tan 1.8°) = 448.17 nm; W(20 V) + W(0) on 2e17 cm⁻³ (n⁺ 1e20, n_i 9.65e9).
-    // It fails its limit of 1, and waiver W-ISO-PT-1 (waivers/isolation.yaml: through 2027-06-30,
-    // still at least 0.98) excuses it on ON: 0.995 ≥ 0.98.
-    ['ISO-PT-1', 'cell-isolation-trench', 'waived', punchThrough()],
+    // Isolation (abrupt junction with the majority-carrier tails, Sze & Ng): shortest path at
+    // depth 220 nm, CD 22 nm, 88.2°: 2·220 + (22 − 440·tan 1.8°) = 448.17 nm. On 2e17 cm⁻³ against
+    // n⁺ 1e20 (n_i 9.65e9, ε 11.9, 300 K, kT/q = 25.852 mV): V_bi = 25.852 mV·ln(2e37/9.312e19)
+    // = 1.03171 V; W(V) = √(2ε·N⁺(V_bi + V − 2kT/q)/(qN(N + N⁺))): W(20 V) = 371.07 nm, W(0) =
+    // 80.20 nm; 448.17/451.27 = 0.99313. It fails its limit of 1, and waiver W-ISO-PT-1
+    // (waivers/isolation.yaml: through 2027-06-30, still at least 0.98) excuses it on ON.
+    ['ISO-PT-1', 'cell-isolation-trench', 'waived', approx(0.99313)],
     // Fill field at the narrowest top, 22 nm: 20 V/22 nm = 9.09 MV/cm; 10/9.09 = 1.1 (at the limit: passes).
     ['ISO-BD-1', 'cell-isolation-trench', 'pass', 1.1],
     // Fin: (2·59 + 8)/36 = 3.5 at the lowest, narrowest corner (tri-gate, common practice).
     ['FIN-WIDTH-1', 'periphery-fin', 'pass', 3.5],
     // Via resistance, worst corner: copper 1.68e-8 Ω·m over 112 µm, radii 3.65 and
-    // (7.7 − 224·tan 0.4°)/2 − 0.2 = 2.868 µm: ρL/(π r₁ r₂).
-    ['TSV-R-1', 'package-tsv', 'pass', (1.68e-8 * 112e-6) / (Math.PI * 3.65e-6 * ((7.7 - 2 * 112 * tanDeg(0.4)) / 2 - 0.2) * 1e-6)],
-    // Via liner, worst corner: widest (8.3 µm) and deepest (112 µm), 200 nm SiO₂ (k = 3.9).
-    ['TSV-C-1', 'package-tsv', 'pass', (2 * Math.PI * 8.8541878128e-12 * 3.9 * 112e-6) / Math.log(4.15 / 3.95)],
-    // Via keep-out (inclusion stress, Smith's coefficients): copper 120 GPa/0.34/16.5 ppm/K (the
-    // materials table) in silicon 130 GPa/0.28 (isotropic, written in the structure)/2.509 ppm/K,
-    // ΔT = −250 K; widest via a = 4.15 µm; r = a·√(|π_L − π_T|·|σ₀|/5 %), at least a. σ₀ = 352 MPa,
-    // so n-channels along ⟨110⟩ (π44 = −13.6) never reach 5 %: their zone is the via itself.
-    ['TSV-KOZ-N100', 'package-tsv', 'pass', koz(155.6e-11)],
-    ['TSV-KOZ-N110', 'package-tsv', 'pass', koz(13.6e-11)],
-    ['TSV-KOZ-P110', 'package-tsv', 'fail', koz(138.1e-11)],
-    // Bow: 120 MPa × 1.2 µm copper on a 775 µm, 300 mm (001) wafer; limit 100 µm.
-    ['TSV-BOW-1', 'package-tsv', 'pass', 100e-6 / bow(120e6, 1.2e-6)],
-    // Trench-fill oxide, −300 MPa × 0.5 µm on the same wafer: the bow's size is what counts.
-    ['STI-BOW-1', 'periphery-isolation-trench', 'pass', 100e-6 / bow(300e6, 0.5e-6)],
-    // Protrusion, deepest via: (16.5 − 2.509) ppm/K × 250 K × 112 µm = 391.7 nm, times the Poisson
-    // push 1 + (2·0.34/120)/(0.66/120 + 1.28/130) = 1.3692 (GPa⁻¹, hand): 536.4 nm > 500 nm.
-    ['TSV-PROT-1', 'package-tsv', 'fail', (16.5e-6 - 2.509e-6) * 250 * 112e-6 * (1 + (0.68 / 120) / (0.66 / 120 + 1.28 / 130))],
+    // (7.7 − 224·tan 0.4°)/2 − 0.2 = 2.86808 µm: ρL/(π r₁ r₂) = 1.8816e-12/(π·1.04685e-11) = 57.213 mΩ.
+    ['TSV-R-1', 'package-tsv', 'pass', approx(57.213e-3)],
+    // Via liner, worst corner: widest (8.3 µm) and deepest (112 µm), 200 nm SiO₂ (k = 3.9): the coaxial
+    // capacitor 2π·ε₀·k·L/ln(4.15/3.95) = 2.43014e-14 F/0.0493933 = 491.98 fF (oxide only).
+    ['TSV-C-1', 'package-tsv', 'pass', approx(491.98e-15)],
+    // Via keep-out (plane-strain inclusion, Smith's coefficients): copper 120 GPa/0.34/16.8 ppm/K
+    // (the materials table) in silicon's isotropic stand-in 162.7 GPa/0.223/2.509 ppm/K, ΔT =
+    // −250 K: k₁ = 120/(1.34·0.32) = 279.85 GPa, m₂ = 162.7/1.223 = 133.03 GPa, k₁m₂/(k₁ + m₂) =
+    // 90.169 GPa; (1.34·16.8 − 1.223·2.509) ppm/K = 19.4435 ppm/K; σ₀ = 90.169 GPa × 19.4435e-6 ×
+    // 250 = 438.30 MPa. Widest via a = 4.15 µm; r = a·√(P·|π_L − π_T|·σ₀/5 %), at least a:
+    // n⟨100⟩ 155.6e-11·438.30 MPa = 0.68199 → 4.15·√13.640 = 15.327 µm; n⟨110⟩ (|π44| 13.6e-11)
+    // 0.059609 → 4.15·√1.19218 = 4.5313 µm; p⟨110⟩ at 1e17 cm⁻³, 300 K with Richter's P =
+    // 1/(1 + (1e17/6e19)^0.43 + (1e17/7e20)^1.6) = 1/1.06388 = 0.93995: 138.1e-11·438.30 MPa·0.93995
+    // = 0.56894 → 4.15·√11.379 = 13.999 µm > 12 µm.
+    ['TSV-KOZ-N100', 'package-tsv', 'pass', approx(15.327e-6)],
+    ['TSV-KOZ-N110', 'package-tsv', 'pass', approx(4.5313e-6)],
+    ['TSV-KOZ-P110', 'package-tsv', 'fail', approx(13.999e-6)],
+    // Bow (Stoney, biaxial): M(001) = C₁₁ + C₁₂ − 2C₁₂²/C₁₁ = 165.7 + 63.9 − 49.284 = 180.316 GPa;
+    // κ = 6σh_f/(M h_s²); bow at r = 150 mm is κr²/2. Copper 120 MPa × 1.2 µm on 775 µm:
+    // κ = 864/(180.316e9 × 6.00625e-7) = 7.9778e-3 /m → 89.750 µm; 100/89.750 = 1.11421.
+    ['TSV-BOW-1', 'package-tsv', 'pass', approx(1.11421)],
+    // Trench-fill oxide, −300 MPa × 0.5 µm on the same wafer (the bow's size counts): κ =
+    // 900/1.08302e5 = 8.3102e-3 /m → 93.490 µm; 100/93.490 = 1.06965.
+    ['STI-BOW-1', 'periphery-isolation-trench', 'pass', approx(1.06965)],
+    // Protrusion, deepest via: (16.8 − 2.509) ppm/K × 250 K × 112 µm = 400.15 nm, times the Poisson
+    // push 1 + (2·0.34/120)/(0.66/120 + 1.223/162.7) = 1 + 0.0056667/0.013017 = 1.43533 (GPa⁻¹):
+    // 574.35 nm > 500 nm.
+    ['TSV-PROT-1', 'package-tsv', 'fail', approx(574.345e-9)],
     // Via: worst corner 112 µm deep, 72 min × 8 µm/min / 112 µm = 5.14 open-field; passes 1.15.
     ['TSV-ETCH-1', 'package-tsv', 'pass', [1.15, (72 * 8) / 112]],
     // (110 + 2)/(8 − 0.3) = 14.545 ≤ 15.
@@ -368,7 +377,8 @@ describe('the demo handbook, verdict by verdict', () => {
         expect(v.value, `${rule} on ${structure}`).toBeLessThanOrEqual(value[1]);
       } else if (value === null) {
         if (status === 'incomplete') expect(v.value).toBeNull();
-      } else expectRel(v.value, value, 9);
+      } else if (typeof value === 'object') expectRel(v.value, value.approx, 4);
+      else expectRel(v.value, value, 9);
     }
   });
 
@@ -383,19 +393,19 @@ describe('the demo handbook, verdict by verdict', () => {
     expect(signal.reason).toMatch(/fills the cup where it is narrowest/);
   });
 
-  it('counts 38 pass, 13 fail (9 blocking), 1 waived, 1 incomplete, 453 not applicable', () => {
+  it('counts 37 pass, 14 fail (10 blocking), 1 waived, 1 incomplete, 453 not applicable', () => {
     // 46 rules × 11 structures = 506 pairs; the 53 in the table above apply, so 453 do not. Of the
-    // 14 failures, the blocking ISO-PT-1 one is waived on ON.
+    // 15 failures, the blocking ISO-PT-1 one is waived on ON.
     const r = evaluateHandbook(handbook, ON);
-    expect(r.counts).toEqual({ pass: 38, fail: 13, waived: 1, incomplete: 1, 'not-applicable': 453 });
-    expect(r.blockingFailures).toBe(9);
+    expect(r.counts).toEqual({ pass: 37, fail: 14, waived: 1, incomplete: 1, 'not-applicable': 453 });
+    expect(r.blockingFailures).toBe(10);
   });
 
   it('counts the waived failure again the day after its waiver’s last day', () => {
-    // W-ISO-PT-1's last day is 2027-06-30: on 2027-07-01 the 14 failures (10 blocking) all count.
+    // W-ISO-PT-1's last day is 2027-06-30: on 2027-07-01 the 15 failures (11 blocking) all count.
     const r = evaluateHandbook(handbook, { on: '2027-07-01' });
-    expect(r.counts).toEqual({ pass: 38, fail: 14, waived: 0, incomplete: 1, 'not-applicable': 453 });
-    expect(r.blockingFailures).toBe(10);
+    expect(r.counts).toEqual({ pass: 37, fail: 15, waived: 0, incomplete: 1, 'not-applicable': 453 });
+    expect(r.blockingFailures).toBe(11);
     expect(r.waivers.map((w) => [w.id, w.state, w.lapsed])).toEqual([['W-ISO-PT-1', 'expired', [{ structure: 'cell-isolation-trench', lapsed: 'expired' }]]]);
   });
 

@@ -4,10 +4,12 @@
 // - Santeler, J. Vac. Sci. Technol. A 4, 338 (1986): closed form, stated error below 0.7 %;
 // - Knudsen's long-tube limit W → 8R/(3L);
 // - an independent method: the seeded test-particle Monte Carlo, within its statistical error;
-// - the slot solution of Clausing's integral equation, re-solved here on a finer mesh.
+// - the slot solution of Clausing's integral equation, re-solved here on a finer mesh;
+// - for the Monte Carlo with reacting walls: Cole's value again, and the slot's line-of-sight view
+//   factors (parallel strips, strip to wall) worked by hand.
 import { describe, expect, it } from 'vitest';
 import { COLE_TUBE, monotoneCubic, santelerTube, slotTransmission, slotTransmissionNystrom, tubeTransmission } from '../../src/engines/transport/clausing.ts';
-import { bottomReactionMonteCarlo, transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
+import { bottomReactionMonteCarlo, depositionMonteCarlo, transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
 import { frontTransmission, rateRatio } from '../../src/engines/etch/index.ts';
 import { openingTransmission } from '../../src/engines/transport/index.ts';
 import { expectRel } from '../helpers.ts';
@@ -113,5 +115,34 @@ describe('a reacting bottom (the Coburn–Winters balance, checked by Monte Carl
     expect(Math.abs(model / measured - 1)).toBeLessThan(0.05);
     // The top-referred K would be far off: that is the mistake the front-referred K avoids.
     expect(rateRatio(openingTransmission(false, top, angle, depth, 0) as number, S) / measured).toBeLessThan(0.8);
+  });
+});
+
+describe('reacting walls (the Monte Carlo of film growth)', () => {
+  it('with inert walls and an absorbing bottom it is Clausing’s transmission: Cole’s L/R = 4', () => {
+    // Cole via Livesey (1998), Table 2.5: 0.356572. A vertical tube's bottom has the top's area, so
+    // its coverage is the transmission too.
+    const mc = depositionMonteCarlo({ shape: 'tube', depth: 4, topWidth: 2, bottomWidth: 2 }, 0, 60_000, { bottomSticking: 1, seed: 31 });
+    const sigma = Math.sqrt((0.356572 * (1 - 0.356572)) / 60_000);
+    expect(Math.abs(mc.reactedBottom - 0.356572)).toBeLessThan(3 * sigma);
+    expect(mc.bottom).toBe(mc.reactedBottom);
+  });
+
+  it('with sticking 1 everything lands where it first arrives: the slot’s view factors, worked by hand', () => {
+    // Slot of width 1 and depth 2: bottom √5 − 2 = 0.23607 (parallel strips); a wall bin from x₁ to
+    // x₂ receives the strip-to-wall factor ½(1 − x/√(1 + x²)) averaged over it:
+    // ½[1 − (√(1 + x₂²) − √(1 + x₁²))/(x₂ − x₁)].
+    const mc = depositionMonteCarlo({ shape: 'slot', depth: 2, topWidth: 1, bottomWidth: 1 }, 1, 100_000, { bins: 4, seed: 37 });
+    expect(Math.abs(mc.bottom - (Math.sqrt(5) - 2))).toBeLessThan(3 * mc.bottomSigma);
+    mc.wall.forEach((w, i) => {
+      const [x1, x2] = [i / 2, (i + 1) / 2];
+      const exact = 0.5 * (1 - (Math.sqrt(1 + x2 * x2) - Math.sqrt(1 + x1 * x1)) / (x2 - x1));
+      expect(Math.abs(w - exact), `bin ${i}`).toBeLessThan(3 * mc.wallSigma[i]!);
+    });
+  });
+
+  it('accounts for every molecule: reacted on the walls, at the bottom, or escaped', () => {
+    const mc = depositionMonteCarlo({ shape: 'tube', depth: 5, topWidth: 1, bottomWidth: 0.6 }, 0.05, 20_000, { bins: 5, seed: 39 });
+    expect(mc.escaped + mc.reactedBottom + mc.reactedWall.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 12);
   });
 });

@@ -5,31 +5,33 @@
 // surface rises as the film grows on it. Each step the local growth rate comes from the fill
 // method:
 // - conformal: the same rate everywhere (an ideal ALD-like fill);
-// - sticking-limited: proportional to the local precursor concentration, from the Knudsen
-//   diffusion–reaction equation solved in the current, narrowing opening (finite volumes:
-//   (d³n′)′ = 3s·d·n for a hole of diameter d, (w²n′)′ = (3s/4)·n for a trench of width w, with
-//   n = 1 at the top and a reacting bottom) [derived; see ./models.ts];
+// - sticking-limited: proportional to the flux arriving on the wall, from the reactive-wall
+//   Clausing problem solved in the current, narrowing opening (./models.ts `arrival`), the bottom
+//   reacting like the walls;
 // - bottom-up: sidewalls grow at the base rate, the bottom rises `ratio` times faster.
 // The march stops when nothing open remains. A slice closes when its walls meet; every slice
-// still open below the first slice that closes is cut off from the precursor: a void. Slices
-// closed by their walls meeting (rather than by the rising bottom) form the seam.
+// still open below the first slice that closes is cut off from the precursor. The widest of those
+// trapped gaps is the trapped width; a trapped gap at least `seamWidth` wide is a void, a narrower
+// one closes as a seam. Slices closed by their walls meeting (rather than by the rising bottom)
+// form the seam.
 
-import { solveTridiagonal } from '../numeric.ts';
+import { arrival, widthAt, wallCoverageAt, type Opening } from './models.ts';
 
 export type FillMethod = 'conformal' | 'sticking-limited' | 'bottom-up';
 
+/** Trapped gaps narrower than this (1 nm: a few atomic layers) count as seams, not voids, unless the fill says otherwise. */
+export const SEAM_WIDTH_DEFAULT = 1e-9;
+
 export interface FillProblem {
-  elongated: boolean;
-  /** Top width and depth of the opening; the sidewall angle sets the straight taper. */
-  cd: number;
-  depth: number;
-  /** Width at the bottom (from the geometry's taper). */
-  bottom: number;
+  /** The opening to fill, as the earlier film steps left it. */
+  opening: Opening;
   method: FillMethod;
   sticking?: number;
   ratio?: number;
   /** Slices from top to bottom. */
   slices?: number;
+  /** Trapped gaps at least this wide are voids; narrower ones close as seams. */
+  seamWidth?: number;
 }
 
 export interface FillResult {
@@ -40,6 +42,8 @@ export interface FillResult {
   voidHeight: number;
   /** Widest point of the void when it was trapped. */
   voidWidth: number;
+  /** Widest gap cut off below a pinch-off, void or seam (0 when the fill closes from the bottom up). */
+  trappedWidth: number;
   /** Depth below the top of the highest void, or of the point where the fill closed last. */
   closureDepth: number;
   /** Length along which the walls met (a seam, not a void). */
@@ -50,78 +54,78 @@ export interface FillResult {
   history: Array<{ time: number; widths: number[]; bottom: number }>;
 }
 
-/** Relative precursor concentration along the open part of the opening (sticking-limited growth). */
-export function concentration(p: FillProblem, widths: number[], dz: number, openTo: number, bottomReacts: boolean): number[] {
-  const n = openTo + 1; // nodes 0..openTo
-  const s = p.sticking!;
-  const coef = (w: number) => (p.elongated ? w * w : w ** 3);
-  const sink = (w: number) => (p.elongated ? (3 * s) / 4 : 3 * s * w);
-  const a = new Float64Array(n);
-  const b = new Float64Array(n);
-  const c = new Float64Array(n);
-  const r = new Float64Array(n);
-  b[0] = 1;
-  r[0] = 1;
-  for (let i = 1; i < n; i++) {
-    const wUp = Math.max(0, (widths[i - 1]! + widths[i]!) / 2);
-    const wDown = i + 1 < n ? Math.max(0, (widths[i]! + widths[i + 1]!) / 2) : 0;
-    const cUp = coef(wUp) / (dz * dz);
-    const cDown = i + 1 < n ? coef(wDown) / (dz * dz) : 0;
-    a[i] = cUp;
-    c[i] = cDown;
-    b[i] = -cUp - cDown - sink(Math.max(0, widths[i]!));
-    if (i === n - 1 && bottomReacts) {
-      // Reacting bottom face, loss s·v̄/4 per area, in the same scaling as the wall sink:
-      // trench (per unit length) w·s·v̄/4 ÷ (2v̄/3) = 3s·w/8; hole (π d²/4)·s·v̄/4 ÷ (π v̄/12) = 3s·d²/4.
-      const w = Math.max(widths[i]!, 0);
-      const face = p.elongated ? (3 * s * w) / 8 : (3 * s * w * w) / 4;
-      b[i] = b[i]! - face / dz;
-    }
-  }
-  const x = solveTridiagonal(a, b, c, r);
-  return x.map((v) => Math.max(0, Math.min(1, v)));
-}
+/** Bands of the transport solve in the march: enough for the growth profile, cheap enough to redo often. */
+export const MARCH_BANDS = 32;
+/** Wall growth, as a fraction of the top width, after which the march solves the transport again. */
+export const RESOLVE_GROWTH = 0.01;
 
-/** Trapped openings narrower than this (1 nm: a few atomic layers) are counted as seams, not voids. */
-export const VOID_MIN_WIDTH = 1e-9;
+/**
+ * Growth rates of the open column (slices 0..column) under sticking-limited growth: the arriving
+ * flux at each slice centre, and at the bottom when the column reaches the rising bottom surface
+ * (an opening pinched shut below ends in a point instead).
+ */
+function stickingRates(p: FillProblem, widths: number[], dz: number, column: number, toBottom: number | null): { wall: number[]; bottom: number } {
+  const centres = Array.from({ length: column + 1 }, (_, i) => (i + 0.5) * dz);
+  // The open slices lie above the bottom surface, so their centres come before either end.
+  const open: Opening = {
+    elongated: p.opening.elongated,
+    z: [0, ...centres, toBottom ?? (column + 1.5) * dz],
+    width: [widths[0]!, ...widths.slice(0, column + 1), toBottom === null ? 0 : widths[column]!],
+  };
+  const a = arrival(open, p.sticking!, { maxBands: MARCH_BANDS });
+  return { wall: centres.map((c) => wallCoverageAt(a, c)), bottom: toBottom === null ? 0 : a.bottom };
+}
 
 export function marchFill(p: FillProblem): FillResult {
   const N = p.slices ?? 200;
-  const dz = p.depth / N;
+  const depth = p.opening.z[p.opening.z.length - 1]!;
+  const dz = depth / N;
+  const cd = p.opening.width[0]!;
+  const seamWidth = p.seamWidth ?? SEAM_WIDTH_DEFAULT;
   const centre = (i: number) => (i + 0.5) * dz;
-  // Widths at slice centres, from the straight taper.
-  let widths = Array.from({ length: N }, (_, i) => p.cd + ((p.bottom - p.cd) * centre(i)) / p.depth);
-  let bottomDepth = p.depth; // depth of the rising bottom surface below the top
+  const widths = Array.from({ length: N }, (_, i) => widthAt(p.opening, centre(i)));
+  let bottomDepth = depth; // depth of the rising bottom surface below the top
   const closedAt = new Array<number>(N).fill(NaN); // time each slice's walls met
   let voidFrom = -1;
   let voidTo = -1;
   let voidWidth = 0;
+  let trappedWidth = 0;
   let converged = true;
   let lastClosure = 0;
   let t = 0;
+  // Sticking-limited rates from the last transport solve, and the growth since then.
+  let flux: { wall: number[]; bottom: number; reachesBottom: boolean } | null = null;
+  let grown = 0;
+  let lastRate: number[] = []; // growth rates of the last step, by slice
   const history: FillResult['history'] = [{ time: 0, widths: widths.slice(), bottom: bottomDepth }];
   for (let iter = 0; iter < 200_000; iter++) {
     // Slices above the bottom surface that are still open, in a column from the top.
     const aboveBottom = (i: number) => centre(i) < bottomDepth;
     let column = -1; // last slice of the open column that starts at the top
     while (column + 1 < N && aboveBottom(column + 1) && widths[column + 1]! > 0) column++;
-    // Anything open below the column's end, still above the bottom, is cut off: a void.
+    // Anything open below the column's end, still above the bottom, is cut off.
     if (column + 1 < N && aboveBottom(column + 1)) {
       let deepest = -1;
       for (let i = column + 2; i < N && aboveBottom(i); i++) if (widths[i]! > 0) deepest = i;
       if (deepest >= 0) {
-        let from = column + 1;
-        while (from <= deepest && !(widths[from]! > 0)) from++;
+        // The step that closed slice column + 1 overshot: its walls met when its width crossed 0,
+        // a fraction of the step earlier, when every slice was wider by its share of the overshoot.
+        // The trapped gap is what was open below it at that instant.
+        const pinch = column + 1;
+        const back = (i: number) => ((lastRate[pinch] ?? 0) > 0 ? (-Math.min(0, widths[pinch]!) * (lastRate[i] ?? 0)) / lastRate[pinch]! : 0);
+        const atPinch = (i: number) => widths[i]! + back(i);
+        let from = pinch + 1;
+        while (from < deepest && !(atPinch(from) > 0)) from++;
         let widest = 0;
-        for (let i = from; i <= deepest; i++) widest = Math.max(widest, widths[i]!);
-        // A sliver narrower than VOID_MIN_WIDTH closes as a seam, not a void.
-        if (widest >= VOID_MIN_WIDTH) {
+        for (let i = from; i <= deepest; i++) widest = Math.max(widest, atPinch(i));
+        trappedWidth = Math.max(trappedWidth, widest);
+        if (widest >= seamWidth) {
           voidFrom = from;
           voidTo = deepest;
           voidWidth = widest;
           break;
         }
-        // Keep closing the sliver as if its walls met: mark it closed and carry on.
+        // A sliver narrower than the seam width closes as a seam: mark it closed and carry on.
         for (let i = from; i <= deepest; i++) {
           if (Number.isNaN(closedAt[i]!)) closedAt[i] = t;
           widths[i] = 0;
@@ -130,8 +134,16 @@ export function marchFill(p: FillProblem): FillResult {
       }
     }
     if (column < 0) break; // nothing open remains above the bottom: filled
-    const rate = p.method === 'sticking-limited' ? concentration(p, widths, dz, column, true) : new Array<number>(column + 1).fill(1);
-    const bottomRate = p.method === 'bottom-up' ? (p.ratio ?? 1) : p.method === 'sticking-limited' ? (column === N - 1 || !aboveBottom(column + 1) ? rate[column]! : 0) : 1;
+    const reachesBottom = column === N - 1 || !aboveBottom(column + 1);
+    if (p.method === 'sticking-limited' && (flux === null || grown >= RESOLVE_GROWTH * cd || reachesBottom !== flux.reachesBottom)) {
+      // The arriving flux changes only as the profile does: solved again once the walls have grown
+      // by RESOLVE_GROWTH of the top width since the last solve (or the column stops reaching the bottom).
+      flux = { ...stickingRates(p, widths, dz, column, reachesBottom ? bottomDepth : null), reachesBottom };
+      grown = 0;
+    }
+    const rate = flux ? flux.wall : new Array<number>(column + 1).fill(1);
+    lastRate = rate;
+    const bottomRate = p.method === 'bottom-up' ? (p.ratio ?? 1) : flux ? flux.bottom : 1;
     let minW = Infinity;
     let maxRate = bottomRate;
     for (let i = 0; i <= column; i++) {
@@ -140,7 +152,7 @@ export function marchFill(p: FillProblem): FillResult {
     }
     if (!(maxRate > 0)) break;
     // Small steps while the narrowest slice is wide, never less than a thousandth of the top CD.
-    let dt = Math.max(1e-3 * p.cd, Math.min(0.25 * minW, 0.02 * p.cd)) / (2 * maxRate);
+    let dt = Math.max(1e-3 * cd, Math.min(0.25 * minW, 0.02 * cd)) / (2 * maxRate);
     // The rising bottom may cross at most half a slice per step.
     if (bottomRate > 0) dt = Math.min(dt, (0.5 * dz) / bottomRate);
     for (let i = 0; i <= column; i++) {
@@ -152,6 +164,7 @@ export function marchFill(p: FillProblem): FillResult {
     }
     bottomDepth = Math.max(0, bottomDepth - bottomRate * dt);
     t += dt;
+    grown += maxRate * dt;
     if (iter % 25 === 0) {
       history.push({ time: t, widths: widths.map((w) => Math.max(0, w)), bottom: bottomDepth });
       // Keep at most 40 frames: drop every other one when it grows past that.
@@ -165,12 +178,13 @@ export function marchFill(p: FillProblem): FillResult {
   for (let i = 0; i < N; i++) if (!Number.isNaN(closedAt[i]!) && (voidFrom < 0 || i < voidFrom)) seam += dz;
   return {
     converged,
-    elongated: p.elongated,
+    elongated: p.opening.elongated,
     voidHeight,
     voidWidth,
+    trappedWidth,
     closureDepth: voidFrom >= 0 ? voidFrom * dz : lastClosure,
     seamLength: seam,
-    closureTime: (2 * t) / p.cd,
+    closureTime: (2 * t) / cd,
     history,
   };
 }

@@ -1,22 +1,19 @@
 // Films that line deep openings: does each film step reach the bottom, and with what exposure?
-// The models are in ./models.ts (Gordon's ALD exposure, Knudsen diffusion–reaction for CVD,
-// line-of-sight view factors for PVD). A structure lists its film steps under `deposition:`; a
-// quantity of one step takes the step a rule names with `film`, or the only step there is.
+// The models are in ./models.ts (where a reacting species arrives, from the reactive-wall Clausing
+// problem; Gordon's ALD exposure along the opening's own profile). A structure lists its film steps
+// under `deposition:`; a quantity of one step takes the step a rule names with `film`, or the only
+// step there is. Each step lines the opening the steps before it left: narrowed at every depth by
+// their local thickness, their thickness on the top times their coverage there.
 import { isElongated, isOpening, type DepositionMethod } from '../../model/types.ts';
 import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type QuantityDef, type Shape, type Variant } from '../quantity.ts';
 import { bottomCd, cavity } from '../geometry/index.ts';
-import { marchFill, VOID_MIN_WIDTH, type FillResult } from './fill.ts';
-import {
-  aldAspectRatio,
-  aldRequiredExposure,
-  cvdStepCoverage,
-  pvdHoleBottomAverage,
-  pvdTrenchBottomAverage,
-} from './models.ts';
+import { MARCH_BANDS, marchFill, RESOLVE_GROWTH, SEAM_WIDTH_DEFAULT, type FillResult } from './fill.ts';
+import { aldExposureFactor, aldFlatExposure, aldSaturatedDepth, arrival, aspectRatioOfFactor, depthOf, straightOpening, wallCoverageAt, widthAt, type Opening } from './models.ts';
 
-const GORDON = 'Gordon, Hausmann, Kim & Shepard, Chem. Vap. Deposition 9, 73 (2003): P·t = S·√(2πmk_BT)·(1 + 19a/4 + 3a²/2); trenches with a = L/(2w) (Cremers, Puurunen & Dendooven, Appl. Phys. Rev. 6, 021302 (2019))';
-const KNUDSEN = 'Knudsen diffusion with first-order wall reaction in a hole (as in Yanguas-Gil & Elam, Chem. Vap. Deposition 18, 46 (2012)): step coverage 1/[cosh φ + (√(3s)/4)·sinh φ], φ = √(3s)·L/d';
-const VIEW = 'Line-of-sight arrival from a cosine source over the opening: coaxial-disc and parallel-strip view factors (Howell, Mengüç & Siegel, Thermal Radiation Heat Transfer, view-factor catalogue)';
+const GORDON =
+  'Gordon, Hausmann, Kim & Shepard, Chem. Vap. Deposition 9, 73 (2003): P·t = S·√(2πmk_BT)·(1 + 19a/4 + 3a²/2); trenches with a = L/(2w) (Cremers, Puurunen & Dendooven, Appl. Phys. Rev. 6, 021302 (2019)); along a taper or a lined profile, Gordon’s derivation (a saturation front fed through the resistance above it) carried out with the local cross-section [derived], a the equivalent aspect ratio';
+const ARRIVAL =
+  'Reactive-wall form of Clausing’s integral equation (Clausing, Ann. Phys. 12, 961 (1932)): A_e·G_e = T_e + Σ_f (1 − s)·A_f·F_fe·G_f on wall bands and bottom rings, with the exact view factors of coaxial discs (Howell, Mengüç & Siegel, Thermal Radiation Heat Transfer, catalogue) or parallel strips (Hottel’s crossed strings); held to a test-particle Monte Carlo (Davis, J. Appl. Phys. 31, 1169 (1960)) over s = 1e-4…0.3 and aspect ratios 1…50';
 
 /** The film step a quantity speaks of, or why it cannot tell. */
 function stepOf(shape: Shape, methods?: DepositionMethod[]): { film: string; method: DepositionMethod } | { notApplicable: string } | { incomplete: string[] } {
@@ -34,135 +31,211 @@ function stepOf(shape: Shape, methods?: DepositionMethod[]): { film: string; met
   return { incomplete: [`film (one of ${films.map((f) => f.film).join(', ')})`] };
 }
 
+// ── Film steps: recipe, coverage, the opening they leave ─────────────────────────────────────
+
+type Film = { film: string; method: DepositionMethod };
+
+/** What decides where a step's film goes: its thickness on the top, and its coverage. */
+interface Recipe {
+  method: DepositionMethod;
+  thickness: number;
+  /** CVD: sticking probability of the growth species. */
+  sticking?: number;
+  /** ALD: the exposure over the flat-surface dose S·√(2πmk_BT). */
+  doses?: number;
+}
+
+/** Inputs of a step's recipe, named with `key` in front (the step's own: none; earlier steps: prior_i_). */
+function recipeInputs(f: Film, key: string): Record<string, string> {
+  const at = (name: string) => `deposition.${f.film}.${name}`;
+  if (f.method === 'ald') return { [`${key}exposure`]: at('exposure'), [`${key}molar`]: at('molar_mass'), [`${key}temperature`]: at('temperature'), [`${key}sites`]: at('site_density') };
+  if (f.method === 'cvd') return { [`${key}sticking`]: at('sticking_probability') };
+  return {};
+}
+
+/** The films before `film` in the list (all of them without one), with the inputs that describe them. */
+function priorFilms(shape: Shape, film?: string): { films: Film[]; inputs: Record<string, string> } {
+  const all = shape.deposition?.films ?? [];
+  const upTo = film === undefined ? all.length : Math.max(0, all.findIndex((f) => f.film === film));
+  const films = all.slice(0, upTo);
+  const inputs: Record<string, string> = {};
+  films.forEach((f, i) => Object.assign(inputs, { [`prior_${i + 1}`]: `deposition.${f.film}.thickness` }, recipeInputs(f, `prior_${i + 1}_`)));
+  return { films, inputs };
+}
+
+function recipeOf(a: Record<string, number>, method: DepositionMethod, key: string, thickness: number): Recipe {
+  if (method === 'ald') return { method, thickness, doses: a[`${key}exposure`]! / aldFlatExposure(a[`${key}sites`]!, a[`${key}molar`]!, a[`${key}temperature`]!) };
+  if (method === 'cvd') return { method, thickness, sticking: a[`${key}sticking`]! };
+  return { method, thickness };
+}
+
+/** Where a step's film goes: its coverage along the wall and on the bottom, and the depths it changes at. */
+interface Coverage {
+  wall: (z: number) => number;
+  bottom: number;
+  /** Depths to sample the lined profile at. */
+  at: number[];
+}
+
 /**
- * The opening a film lines: the hole, via or trench itself, or the inside of a hollow cylinder;
- * and the thicknesses of the film steps before `film`, which narrow it first.
+ * ALD: the full thickness down to the depth the dose saturates (Gordon's front), nothing below.
+ * CVD: the arriving flux with the growth species' sticking; PVD: the same with sticking 1 (line of
+ * sight, no re-emission).
  */
-function openingInputs(shape: Shape, film?: string): Record<string, string> | null {
-  const earlier: Record<string, string> = {};
-  const films = shape.deposition?.films ?? [];
-  const upTo = film === undefined ? films.length : films.findIndex((f) => f.film === film);
-  films.slice(0, Math.max(0, upTo)).forEach((f, i) => (earlier[`prior_${i + 1}`] = `deposition.${f.film}.thickness`));
-  // The step's own thickness: a film as thick as half the opening closes it (pinches off).
-  if (film !== undefined && upTo >= 0) earlier.own = `deposition.${film}.thickness`;
-  if (isOpening(shape.kind)) return { depth: 'geometry.depth', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', ...earlier };
-  if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', wall: 'geometry.wall', ...earlier };
-  return null;
+function coverageOf(o: Opening, r: Recipe): Coverage {
+  if (r.method === 'ald') {
+    const depth = depthOf(o);
+    const reach = aldSaturatedDepth(o, r.doses!);
+    return { wall: (z) => (z <= reach ? 1 : 0), bottom: reach >= depth ? 1 : 0, at: reach < depth ? [reach, Math.min(depth, reach + 1e-6 * depth)] : [] };
+  }
+  const a = arrival(o, r.method === 'cvd' ? r.sticking! : 1);
+  return { wall: (z) => wallCoverageAt(a, z), bottom: a.bottom, at: a.wall.map((_, i) => (a.z[i]! + a.z[i + 1]!) / 2) };
+}
+
+/** The opening a film leaves: narrowed on each wall by its local thickness. */
+function lined(o: Opening, r: Recipe, c: Coverage): Opening {
+  const z = [...new Set([...o.z, ...c.at])].sort((x, y) => x - y);
+  return { elongated: o.elongated, z, width: z.map((v) => widthAt(o, v) - 2 * r.thickness * c.wall(v)) };
 }
 
 const nmText = (m: number) => `${Number((m * 1e9).toPrecision(3))} nm`;
 
-/** Depth and narrowest width of the opening left to coat, from the inputs of openingInputs. */
-function opening(a: Record<string, number>): { depth: number; width: number } {
-  const o = openingOrClosed(a);
-  if ('reason' in o) throw new Error(`deposition: opening() on a closed opening (${o.reason}); stepQuantity checks first`);
-  return o;
+/** Where a lined opening has closed (no width left), described for the reader, or null. */
+function closure(before: Opening, after: Opening): string | null {
+  const tiny = 1e-9 * before.width[0]!;
+  const i = after.width.findIndex((w) => !(w > tiny));
+  if (i < 0) return null;
+  const z = after.z[i]!;
+  const was = nmText(widthAt(before, z));
+  if (i === 0) return `its mouth (${was} wide there): it pinches off, closing over the opening below`;
+  if (i === after.z.length - 1) return `its bottom (${was} wide there): it fills the opening where it is narrower than twice the film`;
+  return `${nmText(z)} below the top (${was} wide there): it pinches off, closing over the opening below`;
+}
+
+/** The opening of the geometry: the hole, via or trench itself, or the inside of a hollow cylinder. */
+function geometryInputs(shape: Shape): Record<string, string> | null {
+  if (isOpening(shape.kind)) return { depth: 'geometry.depth', cd: 'geometry.cd', bottom: 'geometry.bottom_cd' };
+  if (shape.kind === 'cylinder') return { height: 'geometry.height', cd: 'geometry.cd', bottom: 'geometry.bottom_cd', wall: 'geometry.wall' };
+  return null;
 }
 
 /**
- * The opening left to coat, or why there is none: the taper or the earlier films may close it
- * (a re-entrant cup narrows to nothing at its base; two 10 nm films fill a 20 nm gap). A film step
- * in a closed opening has no coverage, exposure or margin to give.
+ * The straight opening of the geometry, or why there is none: the taper may close it (a re-entrant
+ * cup narrows to nothing at its base).
  */
-function openingOrClosed(a: Record<string, number>): { depth: number; width: number } | { reason: string } {
-  let narrowed = 0;
-  for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
-  let depth: number;
-  let top: number;
-  let bottom: number;
-  if (a.depth !== undefined) {
-    depth = a.depth;
-    top = a.cd!;
-    bottom = a.bottom!;
-  } else {
+function baseOpening(a: Record<string, number>, elongated: boolean): Opening | NoValue {
+  let depth = a.depth;
+  let [top, bottom] = [a.cd!, a.bottom!];
+  if (depth === undefined) {
     // Inside a cup: the cavity of the geometry engine (its floor one wall above the base).
     const c = cavity(a.cd!, a.bottom!, a.height!, a.wall!);
-    if ('reason' in c) return { reason: c.reason };
-    depth = c.depth;
-    top = c.top;
-    bottom = c.bottom;
+    if ('reason' in c) return c;
+    [depth, top, bottom] = [c.depth, c.top, c.bottom];
   }
-  const narrowest = Math.min(top, bottom);
-  if (!(narrowest > 0)) return { reason: 'the opening closes before its bottom (its narrowest width is not above zero), so there is nothing below to coat' };
-  if (!(narrowest - narrowed > 0)) return { reason: `the earlier films (${nmText(narrowed / 2)} on each wall) close the opening at its narrowest width, so this film has nowhere to go` };
-  if (!(depth > 0)) return { reason: 'the opening has no depth left to coat' };
-  const own = a.own ?? 0;
-  if (!(narrowest - narrowed - 2 * own > 1e-9 * narrowest)) {
-    // The film closes the opening where it is narrowest: at the mouth it pinches off over what lies
-    // below; at the bottom it fills it. Either way this is no longer a lined opening.
-    const where = top <= bottom ? `its mouth (${nmText(top - narrowed)} wide there): it pinches off, closing over the opening below` : `its bottom (${nmText(bottom - narrowed)} wide there): it fills the opening where it is narrower than twice the film`;
-    return { reason: `this film (${nmText(own)} on each wall) closes the opening at ${where}; the models of a lined opening do not apply` };
+  if (!(Math.min(top, bottom) > 0)) return noValue('the opening closes before its bottom (its narrowest width is not above zero), so there is nothing below to coat');
+  if (!(depth > 0)) return noValue('the opening has no depth left to coat');
+  return straightOpening(elongated, depth, top, bottom);
+}
+
+/** The opening the earlier steps leave for the next one, or why they close it. */
+function linedByPriors(o: Opening, films: Film[], a: Record<string, number>): Opening | NoValue {
+  let open = o;
+  for (const [i, f] of films.entries()) {
+    const r = recipeOf(a, f.method, `prior_${i + 1}_`, a[`prior_${i + 1}`]!);
+    const next = lined(open, r, coverageOf(open, r));
+    const shut = closure(open, next);
+    if (shut) return noValue(`the earlier film step ${f.film} (${nmText(r.thickness)} on the top) closes the opening at ${shut}, so later films have nowhere to go`);
+    open = next;
   }
-  return { depth, width: narrowest - narrowed };
+  return open;
+}
+
+/** A film step in the opening left for it, with its coverage there. */
+interface Lining {
+  opening: Opening;
+  recipe: Recipe;
+  coverage: Coverage;
+}
+
+/**
+ * The opening a step lines and where its film goes, or why there is nothing to line: the taper or
+ * the earlier films may close it (two 10 nm films fill a 20 nm gap), or this film itself closes it
+ * (then it is no longer a lined opening, and coverage, exposure and margin have no value).
+ */
+function liningOf(a: Record<string, number>, elongated: boolean, films: Film[], own: Film): Lining | NoValue {
+  const base = baseOpening(a, elongated);
+  if ('reason' in base) return base;
+  const opening = linedByPriors(base, films, a);
+  if ('reason' in opening) return opening;
+  const recipe = recipeOf(a, own.method, '', a.own!);
+  const coverage = coverageOf(opening, recipe);
+  const shut = closure(opening, lined(opening, recipe, coverage));
+  if (shut) return noValue(`this film (${nmText(recipe.thickness)} on each wall) closes the opening at ${shut}; the models of a lined opening do not apply`);
+  return { opening, recipe, coverage };
 }
 
 const SYMBOLS: Record<string, string> = {
   depth: 'L',
-  width: 'd',
   own: 't',
   height: 'H',
   cd: '\\mathrm{CD}',
+  bottom: '\\mathrm{CD}_b',
   wall: 't_w',
   exposure: 'P t',
   molar: 'M',
   temperature: 'T',
   sites: 'S',
   sticking: 's',
-  required: '(P t)_{min}',
 };
+
+/** TeX symbols of the earlier steps' inputs: t₁, s₁, (P t)₁, … */
+function priorSymbols(inputs: Record<string, string>): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const key of Object.keys(inputs)) {
+    const m = /^prior_(\d+)(?:_(\w+))?$/.exec(key);
+    if (m) out[key] = m[2] ? `${SYMBOLS[m[2]] ?? m[2]}_{${m[1]}}`.replace(/^P t_/, '(P t)_') : `t_{${m[1]}}`;
+  }
+  return out;
+}
 
 /** A quantity of one film step. */
 function stepQuantity(
   def: Omit<QuantityDef, 'variant' | 'steps'>,
   methods: DepositionMethod[] | undefined,
-  inputs: (film: string, method: DepositionMethod) => Record<string, string>,
   formula: (method: DepositionMethod, elongated: boolean) => string,
-  compute: (a: Record<string, number>, method: DepositionMethod, elongated: boolean) => Outcome,
+  compute: (l: Lining, a: Record<string, number>) => Outcome,
 ): QuantityDef {
   return {
     ...def,
     steps: (shape) => (shape.deposition?.films ?? []).filter((f) => !methods || methods.includes(f.method)).map((f) => f.film),
     variant: (shape): Variant | { notApplicable: string } | { incomplete: string[] } => {
-      if (!openingInputs(shape)) return { notApplicable: 'films line openings (hole, trench, via) and the inside of hollow cylinders' };
+      const geometry = geometryInputs(shape);
+      if (!geometry) return { notApplicable: 'films line openings (hole, trench, via) and the inside of hollow cylinders' };
       const step = stepOf(shape, methods);
       if (!('film' in step)) return step;
-      const geo = openingInputs(shape, step.film)!;
+      const priors = priorFilms(shape, step.film);
       const elongated = isElongated(shape.kind);
       return variant({
         label: `${step.film} (${step.method})`,
-        inputs: { ...geo, ...inputs(step.film, step.method) },
-        symbols: SYMBOLS,
+        inputs: { ...geometry, ...priors.inputs, own: `deposition.${step.film}.thickness`, ...recipeInputs(step, '') },
+        symbols: { ...SYMBOLS, ...priorSymbols(priors.inputs) },
         formula: formula(step.method, elongated),
         compute: (a: Record<string, number>) => {
-          const o = openingOrClosed(a);
-          return 'reason' in o ? noValue(o.reason) : compute(a, step.method, elongated);
+          const l = liningOf(a, elongated, priors.films, step);
+          return 'reason' in l ? l : compute(l, a);
         },
       });
     },
   };
 }
 
-const aldInputs = (film: string) => ({
-  exposure: `deposition.${film}.exposure`,
-  molar: `deposition.${film}.molar_mass`,
-  temperature: `deposition.${film}.temperature`,
-  sites: `deposition.${film}.site_density`,
-});
+const OPENING_ASSUMPTION =
+  'The opening follows its straight taper from the top CD to the bottom CD (for a hollow cylinder, its inside); each earlier film step narrows it at every depth by its local thickness: its thickness on the top times its coverage there (ALD: the full thickness down to the depth its dose saturates).';
 
-function required(a: Record<string, number>, elongated: boolean): number {
-  const o = opening(a);
-  return aldRequiredExposure(a.sites!, a.molar!, a.temperature!, aldAspectRatio(elongated, o.depth, o.width));
-}
-
-/** Fraction of the depth an ALD dose saturates: the a that Gordon's formula gives for the exposure. */
-function saturatedFraction(a: Record<string, number>, elongated: boolean): number {
-  const o = opening(a);
-  const flat = aldRequiredExposure(a.sites!, a.molar!, a.temperature!, 0);
-  // 1 + 19a/4 + 3a²/2 = E/flat → a = [−19/4 + √((19/4)² − 6(1 − E/flat))]/3
-  const ratio = a.exposure! / flat;
-  const reach = ratio <= 1 ? 0 : (-19 / 4 + Math.sqrt((19 / 4) ** 2 + 6 * (ratio - 1))) / 3;
-  const needed = aldAspectRatio(elongated, o.depth, o.width);
-  return needed === 0 ? 1 : Math.min(1, reach / needed);
+/** Exposure to saturate the lined opening, over the flat dose, and the equivalent aspect ratio it corresponds to. */
+function requiredDoses(l: Lining): { doses: number; aspect: number } {
+  const doses = aldExposureFactor(l.opening);
+  return { doses, aspect: aspectRatioOfFactor(doses) };
 }
 
 const stepCoverage = stepQuantity(
@@ -171,34 +244,41 @@ const stepCoverage = stepQuantity(
     title: 'Step coverage',
     unit: '1',
     symbol: 't_{bottom}/t_{top}',
-    description: 'Film thickness at the bottom over thickness on the top surface, for one film step: 1 for an ALD step whose dose saturates the whole opening (0 when it does not reach the bottom), the diffusion–reaction solution for CVD, the bottom view factor for PVD.',
-    source: `ALD: ${GORDON}; CVD: ${KNUDSEN}; PVD: ${VIEW}`,
-    assumptions: ['Vertical-walled opening of the narrowest (bottom) width; for a hollow cylinder, its inside.', 'CVD: quasi-steady, first-order wall reaction, free-molecular (Knudsen) transport, reacting bottom. PVD: sticking 1, no re-emission.'],
-    validity: [{ arg: 'sticking', max: 0.1, why: 'the diffusion–reaction model assumes a small sticking probability (s ≪ 1); above about 0.1 it overstates the coverage.' }],
+    description:
+      'Film thickness averaged over the bottom over the thickness on the open top surface, for one film step: 1 for an ALD step whose dose saturates the whole opening (0 when it does not reach the bottom); for CVD and PVD the flux arriving on the bottom over that on the top surface (the same sticking everywhere, so thickness follows arrival).',
+    source: `ALD: ${GORDON}; CVD and PVD (sticking 1, line of sight): ${ARRIVAL}`,
+    assumptions: [
+      OPENING_ASSUMPTION,
+      'CVD and PVD: free-molecular transport, diffuse re-emission of what does not react, the same sticking probability on walls and bottom (PVD: 1), quasi-steady (the film does not change the opening during the step). Walls in bands half the local width tall (finer at the mouth; Richardson-extrapolated), bottom in four rings: within 0.1 % of Cole’s tube table and of the slot solution for s = 0, and of the Monte Carlo within its error plus 1 % on the bottom.',
+      'The opening is taken as convex (every surface sees every other): exact for straight openings, and for profiles lined by films that thin with depth.',
+    ],
     better: 'higher',
     sweep: { input: () => 'geometry.depth', from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
   },
   undefined,
-  (film, method): Record<string, string> => (method === 'ald' ? aldInputs(film) : method === 'cvd' ? { sticking: `deposition.${film}.sticking_probability` } : {}),
   (method, elongated) =>
     method === 'ald'
       ? '\\frac{t_b}{t_t} = \\begin{cases} 1 & P t \\ge (P t)_{min} \\\\ 0 & \\text{otherwise} \\end{cases}'
       : method === 'cvd'
-        ? `\\frac{t_b}{t_t} = \\frac{1}{\\cosh\\varphi + \\frac{\\sqrt{3s}}{4}\\sinh\\varphi},\\;\\; \\varphi = \\sqrt{3s}\\,\\frac{L}{${elongated ? '2d' : 'd'}}`
-        : elongated
-          ? '\\frac{t_b}{t_t} = \\sqrt{1 + A^2} - A,\\;\\; A = L/d'
-          : '\\frac{t_b}{t_t} = \\frac{(2 + X^2) - X\\sqrt{X^2 + 4}}{2},\\;\\; X = 2L/d',
-  (a, method, elongated) => {
-    const o = opening(a);
-    if (o.width <= 0 || o.depth <= 0) return noValue('the opening has no width or depth left to coat');
-    if (method === 'ald') {
-      if (a.exposure! >= required(a, elongated)) return 1;
-      return noted(0, `the dose saturates only the top ${(saturatedFraction(a, elongated) * 100).toFixed(0)} % of the depth`);
-    }
-    if (method === 'cvd') return cvdStepCoverage(a.sticking!, o.depth, elongated ? 2 * o.width : o.width);
-    return elongated ? pvdTrenchBottomAverage(o.depth / o.width) : pvdHoleBottomAverage(o.depth / o.width);
+        ? '\\frac{t_b}{t_t} = G_b,\\;\\; A_e G_e = T_e + (1 - s)\\sum_f A_f F_{fe}\\, G_f \\text{ over wall bands and bottom rings}'
+        : `\\frac{t_b}{t_t} = \\frac{A_0 F_{0b}}{A_b}\\;\\text{(line of sight, } s = 1\\text{)}${elongated ? ',\\; \\sqrt{1 + A^2} - A \\text{ for vertical walls}' : ',\\; \\frac{(2 + X^2) - X\\sqrt{X^2 + 4}}{2},\\; X = 2L/d \\text{ for vertical walls}'}`,
+  (l) => {
+    if (l.recipe.method !== 'ald') return l.coverage.bottom;
+    if (l.coverage.bottom === 1) return 1;
+    return noted(0, `the dose saturates only the top ${((aldSaturatedDepth(l.opening, l.recipe.doses!) / depthOf(l.opening)) * 100).toFixed(0)} % of the depth`);
   },
 );
+
+const ALD_ASSUMPTIONS = [
+  'Initial sticking probability 1 until the surface saturates (a lower one raises the exposure roughly as its inverse); free-molecular transport; a sharp saturation front.',
+  OPENING_ASSUMPTION,
+  'Along a taper the exposure follows the local cross-section (Gordon’s front derivation, derived; no published tapered form was found): Knudsen’s resistance of each depth’s cross-section plus the orifice’s, shared between the mouth and the front at their own areas. It reduces to Gordon’s formula for vertical holes and to Cremers’ L/(2w) for vertical trenches; against a test-particle Monte Carlo of the same front the taper’s effect is within 5 %, and Gordon’s formula itself sits 5–9 % below the front with exact transmissions (aspect ratio 10–30). For trenches that mapping (a tube of hydraulic diameter 2w) understates how well a slot conducts (a test-particle Monte Carlo of Gordon’s front gives less exposure), so for trenches the value is an upper bound.',
+];
+
+/** Resistance from the mouth to depth z: the orifice shared between the mouth and the front, plus Knudsen's. */
+const RESISTANCE_TEX = 'R(z) = \\tfrac{1}{2}\\left(\\frac{1}{A_0} + \\frac{1}{A(z)}\\right) + \\int_0^z \\frac{3P}{16A^2}\\,dz\'';
+
+const GORDON_TEX = `S\\sqrt{2\\pi m k_B T}\\left[\\int_0^L P R\\,dz + A_b R(L)\\right] = S\\sqrt{2\\pi m k_B T}\\left(1 + \\tfrac{19}{4}a + \\tfrac{3}{2}a^2\\right),\\;\\; ${RESISTANCE_TEX}`;
 
 const aldRequired = stepQuantity(
   {
@@ -206,15 +286,17 @@ const aldRequired = stepQuantity(
     title: 'ALD exposure needed to saturate the opening',
     unit: 'Pa*s',
     symbol: '(P t)_{min}',
-    description: 'Smallest precursor exposure (partial pressure × pulse time) that saturates the whole depth of the opening.',
+    description: 'Smallest precursor exposure (partial pressure × pulse time) that saturates the whole depth of the opening, along its taper.',
     source: GORDON,
-    assumptions: ['Initial sticking probability 1 until the surface saturates (a lower one raises the exposure roughly as its inverse); free-molecular transport; narrowest (bottom) width.'],
+    assumptions: ALD_ASSUMPTIONS,
     better: 'lower',
   },
   ['ald'],
-  (film) => aldInputs(film),
-  (_m, elongated) => `(P t)_{min} = S\\sqrt{2\\pi m k_B T}\\left(1 + \\tfrac{19}{4}a + \\tfrac{3}{2}a^2\\right),\\;\\; a = ${elongated ? '\\frac{L}{2d}' : '\\frac{L}{d}'},\\;\\; m = M/N_A`,
-  (a, _m, elongated) => required(a, elongated),
+  () => `(P t)_{min} = ${GORDON_TEX},\\;\\; m = M/N_A`,
+  (l, a) => {
+    const r = requiredDoses(l);
+    return noted(aldFlatExposure(a.sites!, a.molar!, a.temperature!) * r.doses, `equivalent aspect ratio ${r.aspect.toPrecision(3)}`);
+  },
 );
 
 const aldMargin = stepQuantity(
@@ -225,6 +307,7 @@ const aldMargin = stepQuantity(
     symbol: '\\frac{P t}{(P t)_{min}}',
     description: 'Exposure the recipe gives over the exposure needed to saturate the opening: at least 1 for a film that reaches the bottom.',
     source: GORDON,
+    assumptions: ALD_ASSUMPTIONS,
     better: 'higher',
     sweep: {
       input: (shape) => (shape.kind === 'cylinder' ? 'geometry.height' : 'geometry.depth'),
@@ -239,9 +322,8 @@ const aldMargin = stepQuantity(
     },
   },
   ['ald'],
-  (film) => aldInputs(film),
-  () => '\\frac{P t}{(P t)_{min}}',
-  (a, _m, elongated) => a.exposure! / required(a, elongated),
+  () => `\\frac{P t}{(P t)_{min}},\\;\\; (P t)_{min} = ${GORDON_TEX}`,
+  (l) => l.recipe.doses! / requiredDoses(l).doses,
 );
 
 const coatedDepth = stepQuantity(
@@ -250,23 +332,23 @@ const coatedDepth = stepQuantity(
     title: 'Depth fraction an ALD dose saturates',
     unit: '1',
     symbol: 'z_{sat}/L',
-    description: 'Fraction of the opening’s depth that the given ALD exposure saturates (1: down to the bottom).',
+    description: 'Fraction of the opening’s depth that the given ALD exposure saturates: the depth at which the opening, cut off there, would need just this exposure (1: down to the bottom).',
     source: GORDON,
+    assumptions: ALD_ASSUMPTIONS,
     better: 'higher',
   },
   ['ald'],
-  (film) => aldInputs(film),
-  (_m, elongated) => `1 + \\tfrac{19}{4}a_{sat} + \\tfrac{3}{2}a_{sat}^2 = \\frac{P t}{S\\sqrt{2\\pi m k_B T}},\\;\\; \\frac{z_{sat}}{L} = \\min\\left(1, \\frac{a_{sat}}{a}\\right),\\;\\; a = ${elongated ? '\\frac{L}{2d}' : '\\frac{L}{d}'}`,
-  (a, _m, elongated) => saturatedFraction(a, elongated),
+  () => `\\frac{z_{sat}}{L}:\\;\\; \\int_0^{z_{sat}} P R\\,dz + A(z_{sat}) R(z_{sat}) = \\frac{P t}{S\\sqrt{2\\pi m k_B T}},\\;\\; ${RESISTANCE_TEX}`,
+  (l) => aldSaturatedDepth(l.opening, l.recipe.doses!) / depthOf(l.opening),
 );
 
 // ── Gap fill ──────────────────────────────────────────────────────────────────────────────────
 
-const MARCH = 'Profile marched in time with the local growth rate (conformal; sticking-limited from the Knudsen diffusion–reaction equation in the narrowing opening; bottom-up); a slice closes when its walls meet, and open slices cut off below a closed one form a void';
+const MARCH =
+  'Profile marched in time with the local growth rate (conformal; sticking-limited from the reactive-wall Clausing problem re-solved in the narrowing opening; bottom-up); a slice closes when its walls meet, and open slices cut off below a closed one are trapped: a void when at least the seam width wide';
 
 function fillInputs(shape: Shape): Record<string, string> {
-  const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle' };
-  (shape.deposition?.films ?? []).forEach((f, i) => (inputs[`prior_${i + 1}`] = `deposition.${f.film}.thickness`));
+  const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle', ...priorFilms(shape).inputs };
   if (shape.fill?.method === 'sticking-limited') inputs.sticking = 'fill.sticking_probability';
   if (shape.fill?.method === 'bottom-up') inputs.ratio = 'fill.bottom_up_ratio';
   return inputs;
@@ -276,22 +358,18 @@ const fillMemo = new Map<string, FillResult | NoValue>();
 
 /** March the fill of the opening described by the inputs (memoised: several quantities share it). */
 export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!): FillResult | NoValue {
-  const key = JSON.stringify([shape.kind, shape.fill?.method, a, depth]);
+  const key = JSON.stringify([shape.kind, shape.fill?.method, shape.deposition?.films, a, depth]);
   const hit = fillMemo.get(key);
   if (hit) return hit;
-  // Film steps before the fill narrow the opening by their thickness on each wall.
-  let narrowed = 0;
-  for (let i = 1; a[`prior_${i}`] !== undefined; i++) narrowed += 2 * a[`prior_${i}`]!;
-  const top = a.cd! - narrowed;
-  const bottom = bottomCd(a.cd!, depth, a.angle!, true) - narrowed;
+  const elongated = isElongated(shape.kind);
+  const bottom = bottomCd(a.cd!, depth, a.angle!, true);
+  const base = bottom > 0 ? straightOpening(elongated, depth, a.cd!, bottom) : noValue('the opening closes before its bottom (its taper): there is nothing to fill below that');
+  const opening = 'reason' in base ? base : linedByPriors(base, priorFilms(shape).films, a);
   const march =
-    bottom <= 0 || top <= 0
-      ? noValue('the opening closes before its bottom (taper or earlier films): there is nothing to fill below that')
+    'reason' in opening
+      ? opening
       : marchFill({
-          elongated: isElongated(shape.kind),
-          cd: top,
-          depth,
-          bottom,
+          opening,
           method: shape.fill!.method,
           ...(a.sticking !== undefined ? { sticking: a.sticking } : {}),
           ...(a.ratio !== undefined ? { ratio: a.ratio } : {}),
@@ -308,10 +386,11 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
     variant: (shape) => {
       if (!isOpening(shape.kind)) return { notApplicable: 'gap fill concerns openings (hole, trench, via)' };
       if (!shape.fill) return { incomplete: ['fill.method'] };
+      const inputs = fillInputs(shape);
       return variant({
         label: `${shape.kind}, ${shape.fill.method} fill`,
-        inputs: fillInputs(shape),
-        symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', sticking: 's', ratio: 'R_b' },
+        inputs,
+        symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', sticking: 's', ratio: 'R_b', ...priorSymbols(inputs) },
         formula,
         compute: (a: Record<string, number>) => {
           const r = fillOf(shape, a);
@@ -323,8 +402,8 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
 }
 
 const FILL_ASSUMPTIONS = [
-  `Straight sidewalls; growth normal to the wall taken as horizontal; ${200} slices over the depth. A trapped opening narrower than ${VOID_MIN_WIDTH * 1e9} nm counts as a seam, not a void. Earlier film steps narrow the opening by their full thickness.`,
-  'Sticking-limited growth: quasi-steady Knudsen diffusion with first-order wall reaction, recomputed as the opening narrows.',
+  `Straight sidewalls; growth normal to the wall taken as horizontal; 200 slices over the depth. Earlier film steps narrow the opening by their local thickness (thickness on the top times coverage at that depth). A trapped gap narrower than the seam width (${SEAM_WIDTH_DEFAULT * 1e9} nm, a few atomic layers) closes as a seam, not a void; fill.trapped_width reports the widest trapped gap either way.`,
+  `Sticking-limited growth: the flux arriving on the walls and the bottom (reactive-wall Clausing problem on ${MARCH_BANDS} wall bands), quasi-steady, solved again after every ${RESOLVE_GROWTH * 100} % of the top width of wall growth as the opening narrows.`,
 ];
 
 const voidHeight = fillQuantity(
@@ -382,6 +461,21 @@ const seamLength = fillQuantity(
   (r) => r.seamLength,
 );
 
+const trappedWidth = fillQuantity(
+  {
+    name: 'fill.trapped_width',
+    title: 'Widest gap trapped at pinch-off',
+    unit: 'm',
+    symbol: 'w_{trap}',
+    description: 'Widest gap cut off below the point where the opening pinches off, whether it stays a void or closes as a seam; 0 when the fill closes from the bottom up. A rule can limit it directly, whatever seam width the void height counts from.',
+    source: MARCH,
+    assumptions: FILL_ASSUMPTIONS,
+    better: 'lower',
+  },
+  'w_{trap} = \\max_{z > z_{pinch}} w(z)\\big|_{t_{pinch}}',
+  (r) => r.trappedWidth,
+);
+
 const maxFillable = fillQuantity(
   {
     name: 'fill.max_fillable_aspect_ratio',
@@ -427,6 +521,6 @@ export const depositionEngine: Engine = {
 export const fillEngine: Engine = {
   id: 'fill',
   title: 'Fill: closing openings without voids',
-  summary: 'Gap fill marched in time (conformal, sticking-limited, bottom-up): void height, closure depth, seam length and the largest aspect ratio filled void-free.',
-  quantities: [voidHeight, closureDepth, seamLength, maxFillable],
+  summary: 'Gap fill marched in time (conformal, sticking-limited, bottom-up): void height, trapped width, closure depth, seam length and the largest aspect ratio filled void-free.',
+  quantities: [voidHeight, trappedWidth, closureDepth, seamLength, maxFillable],
 };

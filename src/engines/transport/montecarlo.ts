@@ -1,11 +1,12 @@
-// Test-particle Monte Carlo of free-molecular transmission through an opening of any straight
-// profile: a round hole (a cone frustum, including a vertical tube) or a long slot (a trench,
-// vertical or tapered). Molecules enter the top with a cosine distribution, fly straight, and
-// leave a wall in a new cosine-distributed direction (diffuse re-emission, no reaction) until they
-// cross the bottom (transmitted) or the top (returned). Seeded, so a run is repeatable.
+// Test-particle Monte Carlo of free-molecular flow into an opening of any straight profile: a
+// round hole (a cone frustum, including a vertical tube) or a long slot (a trench, vertical or
+// tapered). Molecules enter the top with a cosine distribution, fly straight, and at each wall hit
+// react with a sticking probability or leave in a new cosine-distributed direction (diffuse
+// re-emission) until they react, cross the bottom (transmitted) or leave through the top. The
+// bottom is either an exit or a surface that reacts like a wall. Seeded, so a run is repeatable.
 //
 // The method is the classical one of Davis, J. Appl. Phys. 31, 1169 (1960); it needs no closed
-// form, which is why it checks them and covers tapered profiles they do not.
+// form or integral equation, which is why it checks them and covers tapered profiles they do not.
 
 export interface OpeningProfile {
   shape: 'tube' | 'slot';
@@ -113,22 +114,113 @@ function hitWall(p: Vec, d: Vec, prof: OpeningProfile, r1: number, k: number): {
 
 /** Estimate the transmission probability with `particles` test particles. */
 export function transmissionMonteCarlo(prof: OpeningProfile, particles: number, seed = 1): TransmissionEstimate {
-  const r = trace(prof, particles, seed, null);
+  const r = walk(prof, particles, seed, { wall: 0, bottom: 1 }).bottomReacted / particles;
   return { value: r, sigma: Math.sqrt((r * (1 - r)) / particles), particles };
 }
 
 /** Fraction of entering molecules that react at a bottom of reaction probability S. */
 export function bottomReactionMonteCarlo(prof: OpeningProfile, reaction: number, particles: number, seed = 1): ReactionEstimate {
-  const r = trace(prof, particles, seed, reaction);
+  const r = walk(prof, particles, seed, { wall: 0, bottom: reaction }).bottomReacted / particles;
   return { reacted: r, sigma: Math.sqrt((r * (1 - r)) / particles), particles };
 }
 
-function trace(prof: OpeningProfile, particles: number, seed: number, reaction: number | null): number {
+/**
+ * Film growth with reacting walls: where the molecules entering the opening arrive and react. The
+ * coverage of a surface is its arriving flux per area over the flux on the open top surface; with
+ * the same sticking probability everywhere it is the film thickness there over that on the top.
+ */
+export interface DepositionEstimate {
+  particles: number;
+  /** Depth bins of equal height from the top; coverage of the wall in each (arrivals per area). */
+  wall: number[];
+  /** One standard deviation of each wall coverage (from the spread of the particles' tallies). */
+  wallSigma: number[];
+  /**
+   * How many particles arrived in each wall bin at all. The standard deviations rest on the spread
+   * of the particles' tallies; deep in an opening a few particles that bounce there many times can
+   * make the whole tally, and the spread is then no guide: trust a bin that dozens of particles reached.
+   */
+  wallVisitors: number[];
+  /** Coverage averaged over the bottom, its standard deviation, and how many particles reached it. */
+  bottom: number;
+  bottomSigma: number;
+  bottomVisitors: number;
+  /** Fractions of the entering molecules that react in each wall bin, at the bottom, and that leave through the top. */
+  reactedWall: number[];
+  reactedBottom: number;
+  escaped: number;
+}
+
+/**
+ * Test particles with sticking probability `sticking` at every wall hit and at the bottom (or
+ * `bottomSticking` there), tallying arrivals and reactions by depth bin. Arrivals, not only
+ * reactions, estimate the coverage: the same mean, far less noise when the sticking is small.
+ */
+export function depositionMonteCarlo(
+  prof: OpeningProfile,
+  sticking: number,
+  particles: number,
+  { bins = 20, seed = 1, bottomSticking = sticking }: { bins?: number; seed?: number; bottomSticking?: number } = {},
+): DepositionEstimate {
+  const tally = walk(prof, particles, seed, { wall: sticking, bottom: bottomSticking, bins });
+  const top = crossSection(prof.shape, prof.topWidth);
+  // Arrivals per area over arrivals per area on an open surface (the entering count over A_top).
+  const coverage = (sum: number, area: number) => sum / particles / (area / top);
+  const sigma = (sum: number, squares: number, area: number) => Math.sqrt(Math.max(0, squares / particles - (sum / particles) ** 2) / particles) / (area / top);
+  const bandArea = (i: number) => wallArea(prof, (i * prof.depth) / bins, ((i + 1) * prof.depth) / bins);
+  const bottomArea = crossSection(prof.shape, prof.bottomWidth);
+  const wall = Array.from({ length: bins }, (_, i) => coverage(tally.arrivals[i]!, bandArea(i)));
+  return {
+    particles,
+    wall,
+    wallSigma: Array.from({ length: bins }, (_, i) => sigma(tally.arrivals[i]!, tally.squares[i]!, bandArea(i))),
+    wallVisitors: Array.from(tally.visitors.subarray(0, bins)),
+    bottom: coverage(tally.arrivals[bins]!, bottomArea),
+    bottomSigma: sigma(tally.arrivals[bins]!, tally.squares[bins]!, bottomArea),
+    bottomVisitors: tally.visitors[bins]!,
+    reactedWall: Array.from(tally.reacted.subarray(0, bins), (n) => n / particles),
+    reactedBottom: tally.bottomReacted / particles,
+    escaped: tally.escaped / particles,
+  };
+}
+
+/** Area of a cross-section of width (diameter) w: a disc, or per unit length a strip. */
+function crossSection(shape: OpeningProfile['shape'], w: number): number {
+  return shape === 'tube' ? (Math.PI * w * w) / 4 : w;
+}
+
+/** Wall area between depths z1 and z2 (frustum band; both walls of a slot per unit length). */
+function wallArea(prof: OpeningProfile, z1: number, z2: number): number {
+  const r = (z: number) => (prof.topWidth + ((prof.bottomWidth - prof.topWidth) * z) / prof.depth) / 2;
+  const slant = Math.hypot(z2 - z1, r(z2) - r(z1));
+  return prof.shape === 'tube' ? Math.PI * (r(z1) + r(z2)) * slant : 2 * slant;
+}
+
+interface Tally {
+  /** Arrivals per wall bin, then the bottom (index `bins`), summed over particles; their squares per particle; particles that arrived there. */
+  arrivals: Float64Array;
+  squares: Float64Array;
+  visitors: Float64Array;
+  reacted: Float64Array;
+  bottomReacted: number;
+  escaped: number;
+}
+
+/**
+ * Follow `particles` molecules. A wall hit reacts with probability `wall`, the bottom with
+ * `bottom` (1: the bottom is an exit, every molecule reaching it counts as through). No random
+ * number is drawn for a certain outcome, so the non-reacting runs keep their random sequence.
+ */
+function walk(prof: OpeningProfile, particles: number, seed: number, stick: { wall: number; bottom: number; bins?: number }): Tally {
   const rnd = seededRandom(seed);
   const r1 = prof.topWidth / 2;
   const k = (prof.bottomWidth - prof.topWidth) / (2 * prof.depth);
-  let through = 0;
+  const bins = Math.max(1, stick.bins ?? 1);
+  const tally: Tally = { arrivals: new Float64Array(bins + 1), squares: new Float64Array(bins + 1), visitors: new Float64Array(bins + 1), reacted: new Float64Array(bins + 1), bottomReacted: 0, escaped: 0 };
+  const mine = new Float64Array(bins + 1); // this particle's arrivals
+  const reacts = (p: number) => p >= 1 || (p > 0 && rnd() < p);
   for (let i = 0; i < particles; i++) {
+    mine.fill(0);
     // Uniform entry over the opening.
     let p: Vec;
     if (prof.shape === 'tube') {
@@ -143,8 +235,9 @@ function trace(prof: OpeningProfile, particles: number, seed: number, reaction: 
       const tTop = d[2] < 0 ? -p[2] / d[2] : Infinity;
       const tWall = wall ? wall.t : Infinity;
       if (tBottom <= tWall && tBottom <= tTop) {
-        if (reaction === null || rnd() < reaction) {
-          through++;
+        mine[bins]!++;
+        if (reacts(stick.bottom)) {
+          tally.bottomReacted++;
           break;
         }
         // Not reacted: leave the bottom in a cosine direction, back up into the opening.
@@ -152,10 +245,24 @@ function trace(prof: OpeningProfile, particles: number, seed: number, reaction: 
         d = cosineAbout([0, 0, -1], rnd);
         continue;
       }
-      if (tTop <= tWall) break;
+      if (tTop <= tWall) {
+        tally.escaped++;
+        break;
+      }
       p = [p[0] + tWall * d[0], p[1] + tWall * d[1], p[2] + tWall * d[2]];
+      const bin = Math.min(bins - 1, Math.max(0, Math.floor((p[2] / prof.depth) * bins)));
+      mine[bin]!++;
+      if (reacts(stick.wall)) {
+        tally.reacted[bin]!++;
+        break;
+      }
       d = cosineAbout(wall!.n, rnd);
     }
+    for (let b = 0; b <= bins; b++) {
+      tally.arrivals[b]! += mine[b]!;
+      tally.squares[b]! += mine[b]! * mine[b]!;
+      if (mine[b]! > 0) tally.visitors[b]!++;
+    }
   }
-  return through / particles;
+  return tally;
 }

@@ -1,0 +1,140 @@
+// Gap fill marched in time. Sources beside each check: geometric truths of conformal and
+// bottom-up growth worked by hand (walls that move at one rate keep the gap's shape), the
+// line-of-sight view factor of a slot's wall, ½(1 − x/√(1 + x²)) at depth x (the strip-to-point
+// factor of Howell, Mengüç & Siegel's catalogue, the first-wall-hit density of Clausing's slot
+// equation halved), and the reacting-wall test-particle Monte Carlo (src/engines/transport/
+// montecarlo.ts), an independent method, for the sticking-limited growth profile.
+import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { loadHandbookFolder } from '../../src/pipeline.ts';
+import { marchFill, SEAM_WIDTH_DEFAULT } from '../../src/engines/deposition/fill.ts';
+import { straightOpening } from '../../src/engines/deposition/models.ts';
+import { depositionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
+
+const ROOT = resolve(import.meta.dirname, '../..');
+
+function quantities(yaml: string) {
+  const dir = mkdtempSync(join(tmpdir(), 'plumbline-fill-'));
+  cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+  writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
+  const r = loadHandbookFolder(dir);
+  if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+  return evaluateStructure(r.handbook.structures[0]!).quantities;
+}
+
+const trench = (geometry: string, rest: string) => `id: test-pillar\ntitle: Trench\nkind: trench\ngeometry: { ${geometry} }\n${rest}`;
+
+describe('conformal and bottom-up fills: geometric truths', () => {
+  it('a conformal film in a vertical trench closes with a seam the full depth and no void, at half the width over the rate', () => {
+    // Walls 1 apart grow at rate 1 each: they meet at t = w/(2·rate) everywhere at once (closure
+    // time 1 in these units); the bottom has risen w/2 = 0.5 by then, so the seam is 10 − 0.5.
+    const r = marchFill({ opening: straightOpening(true, 10, 1, 1), method: 'conformal' });
+    expect(r.voidHeight).toBe(0);
+    expect(r.trappedWidth).toBe(0);
+    expect(r.seamLength).toBeCloseTo(9.5, 1);
+    expect(r.closureTime).toBeCloseTo(1, 2);
+  });
+
+  it('a conformal film in a re-entrant trench traps the difference between the deepest open width and the mouth’s', () => {
+    // Top 1, bottom 1.4, depth 10, 200 slices of 0.05. The mouth slice (centre 0.025, width 1.001)
+    // closes at t = 0.5005, when the bottom has risen to 9.4995: the deepest slice still open is
+    // the one centred at 9.475 (width 1.379). Every wall moved alike, so the trapped gap is
+    // 1.379 − 1.001 = 0.378 wide and slices 1…189 (9.45) are the void.
+    const r = marchFill({ opening: straightOpening(true, 10, 1, 1.4), method: 'conformal' });
+    expect(r.trappedWidth).toBeCloseTo(0.378, 2);
+    expect(r.voidHeight).toBeCloseTo(9.45, 6);
+  });
+
+  it('a conformal film in a narrowing opening closes from the bottom up without a void', () => {
+    const r = marchFill({ opening: straightOpening(false, 10, 1, 0.6), method: 'conformal' });
+    expect(r.voidHeight).toBe(0);
+    expect(r.trappedWidth).toBe(0);
+  });
+
+  it('bottom-up growth fast enough to reach the top first leaves neither void nor seam', () => {
+    // The bottom must rise 10 before the walls meet at t = 0.5: a ratio above 20.
+    const r = marchFill({ opening: straightOpening(true, 10, 1, 1), method: 'bottom-up', ratio: 30 });
+    expect(r.voidHeight).toBe(0);
+    expect(r.seamLength).toBe(0);
+  });
+});
+
+describe('trapped width and the seam width that makes a gap a void', () => {
+  // A trench re-entrant by 1 nm over 1 µm: 100 nm at the top, 101 nm at the bottom, 200 slices of
+  // 5 nm. The mouth slice (100.0025 nm) closes after 50 nm of growth; the bottom has risen to 950 nm,
+  // so the deepest open slice is centred at 947.5 nm (100.9475 nm): a 0.945 nm gap is trapped (hand).
+  const opening = straightOpening(true, 1000e-9, 100e-9, 101e-9);
+
+  it('is a seam below the default seam width of 1 nm, a void of slices 1…189 (945 nm) below a 0.5 nm one', () => {
+    const seam = marchFill({ opening, method: 'conformal' });
+    expect(SEAM_WIDTH_DEFAULT).toBe(1e-9);
+    expect(seam.trappedWidth / 1e-9).toBeCloseTo(0.945, 3);
+    expect(seam.voidHeight).toBe(0);
+    const strict = marchFill({ opening, method: 'conformal', seamWidth: 0.5e-9 });
+    expect(strict.voidHeight / 1e-9).toBeCloseTo(945, 6);
+    expect(strict.voidWidth / 1e-9).toBeCloseTo(0.945, 3);
+  });
+
+  it('publishes the trapped width as a quantity a rule can limit', () => {
+    // The same trench as a structure: 90.0573 deg makes the bottom 100 + 2 × 1000 × tan 0.0573° = 101.0 nm.
+    const angle = 90 + (Math.atan(0.5 / 1000) * 180) / Math.PI;
+    const q = quantities(trench(`cd: 100 nm, depth: 1 um, sidewall_angle: ${angle.toPrecision(12)} deg`, 'fill: { method: conformal }\n'));
+    expect(q['fill.trapped_width']!.value! / 1e-9).toBeCloseTo(0.945, 3);
+    expect(q['fill.void_height']?.value).toBe(0);
+  });
+});
+
+describe('the largest aspect ratio filled void-free', () => {
+  it('bottom-up at 30× the wall rate in a re-entrant trench: the bottom must reach the mouth before it pinches, AR = 30/2 = 15', () => {
+    // The mouth (≈ CD wide) pinches after CD/2 of wall growth, when the bottom has risen 30 × CD/2:
+    // the deepest fillable trench is 15 CD (hand). The re-entrance (5°) makes the mouth pinch first
+    // and the pocket below it wider than the 1 nm seam width within a slice (2 × 7.5 nm × tan 5°).
+    const q = quantities(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 95 deg', 'fill: { method: bottom-up, bottom_up_ratio: 30 }\n'));
+    expect(Math.abs(q['fill.max_fillable_aspect_ratio']!.value! / 15 - 1)).toBeLessThan(0.02);
+  });
+
+  it('a conformal fill of a narrowing trench never voids: the limit is where the taper closes it, (CD/2)·tan θ / CD', () => {
+    // 89°: tan 89° / 2 = 28.64, taken at 0.999 of the closing depth (hand).
+    const q = quantities(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 89 deg', 'fill: { method: conformal }\n'));
+    expect(q['fill.max_fillable_aspect_ratio']?.value).toBeCloseTo((0.999 * Math.tan((89 * Math.PI) / 180)) / 2, 6);
+  });
+});
+
+describe('sticking-limited growth: the march’s first step grows the profile the Monte Carlo gives', () => {
+  // The growth rate in the first step is the arriving flux over that on the top surface: each wall
+  // moved 2·rate·t, the bottom rose rate·t. Against the reacting-wall Monte Carlo in ten depth bins:
+  // 4 σ plus 3 % (the march solves its transport on 32 bands and interpolates to its slices).
+  it.each([
+    ['trench', true, 10, 0.01],
+    ['hole', false, 5, 0.1],
+  ] as const)('%s of aspect ratio %s, s = %s', (_kind, elongated, ar, s) => {
+    const r = marchFill({ opening: straightOpening(elongated, ar, 1, 1), method: 'sticking-limited', sticking: s });
+    const [f0, f1] = [r.history[0]!, r.history[1]!];
+    const rate = f0.widths.map((w, i) => (w - f1.widths[i]!) / (2 * f1.time));
+    const mc = depositionMonteCarlo({ shape: elongated ? 'slot' : 'tube', depth: ar, topWidth: 1, bottomWidth: 1 }, s, 40_000, { bins: 10, seed: 43 });
+    mc.wall.forEach((m, b) => {
+      const slices = rate.slice(20 * b, 20 * (b + 1));
+      const model = slices.reduce((x, y) => x + y, 0) / slices.length;
+      expect(Math.abs(model - m), `bin ${b}: ${model} against ${m}`).toBeLessThan(4 * mc.wallSigma[b]! + 0.03 * model);
+    });
+    const bottom = (ar - f1.bottom) / f1.time;
+    expect(Math.abs(bottom - mc.bottom)).toBeLessThan(4 * mc.bottomSigma + 0.03 * bottom);
+  });
+});
+
+describe('a fill after a PVD seed sees the seed’s local thickness (regression: its full nominal thickness at every depth)', () => {
+  it('the seed’s overhang at the mouth makes a conformal fill of a vertical trench trap a gap', () => {
+    // Vertical trench 100 nm wide, 1 µm deep, 20 nm PVD seed: on the wall at depth x (in widths)
+    // the seed is 20 nm × ½(1 − x/√(1 + x²)): 9.75 nm at the mouth slice's centre (x = 0.025),
+    // 0.054 nm at x = 9.575. The mouth (100 − 19.50 = 80.50 nm) pinches after 40.25 nm of growth,
+    // the bottom has risen to 959.75 nm, the deepest open slice is centred at 957.5 nm
+    // (100 − 0.108 = 99.89 nm): the gap trapped is 99.89 − 80.50 = 19.39 nm, the void 191 slices of
+    // 5 nm (hand). Narrowing by the full 2 × 20 nm left a vertical 60 nm trench: a seam, no void.
+    const q = quantities(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'deposition:\n  - { film: seed, method: pvd, thickness: 20 nm }\nfill: { method: conformal }\n'));
+    expect(Math.abs(q['fill.trapped_width']!.value! / 19.39e-9 - 1)).toBeLessThan(0.02);
+    expect(q['fill.void_height']!.value! / 1e-9).toBeCloseTo(955, 6);
+  });
+});
