@@ -104,7 +104,7 @@ function readOf(plan: Plan | null): RowInput[] {
   return plan.params.map((p) => ({
     name: p.name,
     written: p.written,
-    ...(p.origin.type === 'handbook' ? { at: `${p.origin.pos.file}:${p.origin.pos.line}` } : { material: p.origin.material }),
+    ...(p.origin.type !== 'material-table' ? { at: `${p.origin.pos.file}:${p.origin.pos.line}` } : { material: p.origin.material }),
   }));
 }
 

@@ -1,7 +1,7 @@
 // What history and diff print: a terminal listing of transitions by commit, and the Markdown a
 // reviewer pastes into a change request. Pure text from the records; no git, no file system.
 import { formatMargin } from '../model/format.ts';
-import { urls } from '../report/urls.ts';
+import { urls } from '../model/urls.ts';
 import { changeText, type HistoryReport, type Transition, type WaiverEvent } from './history.ts';
 
 export interface Links {

@@ -1,6 +1,7 @@
 // JSON Schemas of the handbook files, generated from the parameter catalogue so they never drift
 // from what the loader accepts. They are published with the site for editors to validate against.
-import { THERMOMECH_PARAMS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES } from './parameters.ts';
+import { BLOCK_LIST, type InputBlock, type InputPart } from './blocks.ts';
+import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES, PROPERTY_ALIASES, type ParamSpec } from './parameters.ts';
 import { KINDS } from './types.ts';
 import { CALENDAR_DATE_PATTERN } from './calendar.ts';
 
@@ -20,6 +21,31 @@ const valueWithUnit = (description: string): JsonSchema => ({
 
 function propertiesFrom(catalogue: Record<string, { description: string }>): Record<string, JsonSchema> {
   return Object.fromEntries(Object.entries(catalogue).map(([k, v]) => [k, valueWithUnit(v.description)]));
+}
+
+/** A block's or a part's numbers (with the aliases of material properties) and its other fields. */
+function mappingSchema(m: { inputs: Record<string, ParamSpec>; fields?: Record<string, JsonSchema>; required?: readonly string[] }, parts: Record<string, JsonSchema> = {}): JsonSchema {
+  const aliases = Object.fromEntries(Object.keys(m.inputs).flatMap((k) => (PROPERTY_ALIASES[k] ? [[PROPERTY_ALIASES[k], valueWithUnit(`Alias of ${k}.`)]] : [])));
+  return {
+    type: 'object',
+    additionalProperties: false,
+    ...(m.required ? { required: [...m.required] } : {}),
+    properties: { ...(m.fields ?? {}), ...propertiesFrom(m.inputs), ...aliases, ...parts },
+  };
+}
+
+function partSchema(p: InputPart): JsonSchema {
+  const description = p.description ? { description: p.description } : {};
+  if (p.form === 'values') return { type: 'array', items: { type: ['string', 'number'] }, ...description };
+  if (p.form === 'list') return { type: 'array', minItems: 1, ...description, items: mappingSchema(p) };
+  return { ...mappingSchema(p), ...description };
+}
+
+/** The schema of an input block, from its declaration. */
+function blockSchema(b: InputBlock): JsonSchema {
+  const parts = Object.fromEntries(Object.entries(b.parts ?? {}).map(([k, p]) => [k, partSchema(p)]));
+  if (b.form === 'list') return { type: 'array', minItems: 1, description: b.description, items: mappingSchema(b) };
+  return { ...mappingSchema(b, parts), description: b.description };
 }
 
 export function structureSchema(): JsonSchema {
@@ -44,121 +70,7 @@ export function structureSchema(): JsonSchema {
           array: { type: 'string', enum: ['hexagonal', 'square', 'lines'], description: 'Arrangement of neighbours.' },
         },
       },
-      etch: {
-        type: 'object',
-        description: 'The etch that cuts the opening: rates, reaction probability, time budget (aspect-ratio-dependent etching).',
-        additionalProperties: false,
-        properties: {
-          ...propertiesFrom(ETCH_PARAMS),
-          ion: {
-            type: 'object',
-            description: 'Ion–neutral synergy: without it the etch is neutral-limited (Coburn–Winters).',
-            additionalProperties: false,
-            required: ['neutral_to_ion_ratio'],
-            properties: propertiesFrom(ION_PARAMS),
-          },
-          calibration: {
-            type: 'array',
-            minItems: 1,
-            description: 'Measured (aspect ratio, rate) points of this opening at increasing depth (aspect ratio without the mask); the engine fits the reaction probability to them, and a written reaction_probability is then not used.',
-            items: {
-              type: 'object',
-              additionalProperties: false,
-              required: ['aspect_ratio', 'rate'],
-              properties: { aspect_ratio: { type: ['string', 'number'] }, rate: { type: ['string', 'number'] } },
-            },
-          },
-        },
-      },
-      deposition: {
-        type: 'array',
-        minItems: 1,
-        description: 'Film steps that line the opening, in order (hole, trench, via; the inside of a hollow cylinder).',
-        items: {
-          type: 'object',
-          additionalProperties: false,
-          required: ['film', 'method'],
-          properties: {
-            film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', maxLength: MAX_ID_LENGTH, description: 'Name of the film step (rules select it with `film`).' },
-            method: { type: 'string', enum: ['ald', 'cvd', 'pvd'] },
-            ...propertiesFrom(DEPOSITION_PARAMS),
-          },
-        },
-      },
-      via: {
-        type: 'object',
-        description: 'Conductor and liner of a through-silicon via (the liner sits inside the etched hole).',
-        additionalProperties: false,
-        required: ['conductor', 'liner'],
-        properties: {
-          conductor: {
-            type: 'object',
-            additionalProperties: false,
-            required: ['material'],
-            properties: {
-              material: { type: 'string' },
-              resistivity: valueWithUnit('Resistivity override.'),
-              youngs_modulus: valueWithUnit("Young's modulus override."),
-              poisson_ratio: valueWithUnit("Poisson's ratio override."),
-              expansion: valueWithUnit('Expansion coefficient override (alias of thermal_expansion).'),
-              thermal_expansion: valueWithUnit('Expansion coefficient override.'),
-            },
-          },
-          liner: { type: 'object', additionalProperties: false, required: ['material', 'thickness'], properties: { material: { type: 'string' }, thickness: valueWithUnit('Liner thickness.'), dielectric_constant: valueWithUnit('Permittivity override.') } },
-        },
-      },
-      anneal: { type: 'object', additionalProperties: false, required: ['temperature_change'], properties: propertiesFrom(THERMOMECH_PARAMS.anneal!) },
-      keep_out: { type: 'object', additionalProperties: false, required: ['mobility_shift'], properties: propertiesFrom(THERMOMECH_PARAMS.keep_out!) },
-      film: { type: 'object', additionalProperties: false, required: ['stress', 'thickness'], properties: propertiesFrom(THERMOMECH_PARAMS.film!) },
-      wafer: {
-        type: 'object',
-        additionalProperties: false,
-        properties: { ...propertiesFrom(THERMOMECH_PARAMS.wafer!), orientation: { type: 'string', enum: ['001', '111'] } },
-      },
-      isolation: {
-        type: 'object',
-        description: 'What an isolation trench must withstand.',
-        additionalProperties: false,
-        required: ['voltage', 'doping', 'breakdown_field'],
-        properties: propertiesFrom(ISOLATION_PARAMS),
-      },
-      cell: {
-        type: 'object',
-        description: 'The storage cell a hollow cylinder is the bottom electrode of.',
-        additionalProperties: false,
-        required: ['dielectric', 'electrode_surfaces'],
-        properties: {
-          dielectric: {
-            type: 'object',
-            additionalProperties: false,
-            properties: { material: { type: 'string' }, ...propertiesFrom(CELL_DIELECTRIC_PARAMS) },
-          },
-          electrode_surfaces: { type: 'array', minItems: 1, uniqueItems: true, items: { type: 'string', enum: ['inner', 'outer', 'bottom'] } },
-          ...propertiesFrom(CELL_PARAMS),
-        },
-      },
-      fill: {
-        type: 'object',
-        description: 'How the opening is filled: the profile is marched in time to find voids and seams.',
-        additionalProperties: false,
-        required: ['method'],
-        properties: {
-          method: { type: 'string', enum: ['conformal', 'sticking-limited', 'bottom-up'] },
-          ...propertiesFrom(FILL_PARAMS),
-        },
-      },
-      drying: {
-        type: 'object',
-        description: 'The rinse and dry the standing structures go through (capillary collapse).',
-        additionalProperties: false,
-        required: ['liquid'],
-        properties: {
-          liquid: { type: 'string', description: 'Rinse liquid: a material with a surface tension, or `none` for drying without a liquid–vapour interface.' },
-          ...propertiesFrom(DRYING_PARAMS),
-          supports: { type: 'array', items: { type: ['string', 'number'] }, description: 'Heights above the base of lateral support lattices, e.g. ["0.6 um", "1.2 um"].' },
-          supports_hold: { type: 'string', enum: ['pinned', 'clamped'], description: 'How a support holds the structure between supports (default pinned).' },
-        },
-      },
+      ...Object.fromEntries(BLOCK_LIST.map((b) => [b.key, blockSchema(b)])),
       materials: {
         type: 'object',
         description: 'Material by role (body, fill, liner, ...): a material id, or { material, <property>: value } to override.',

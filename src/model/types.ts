@@ -42,6 +42,8 @@ export interface Param {
 
 export type ParamOrigin =
   | { type: 'handbook'; pos: SourcePos }
+  /** Not written: the documented default of an input its block leaves out (`pos` is the block). */
+  | { type: 'default'; pos: SourcePos }
   | { type: 'material-table'; material: string; source: string; pos?: SourcePos };
 
 export type SupportHold = 'pinned' | 'clamped';

@@ -19,8 +19,8 @@ import { describeDiagnostic } from '../diagnostics/messages.ts';
 import { CAUTION, STATUS_WORDS, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
-export { urls } from './urls.ts';
-import { urls } from './urls.ts';
+export { urls } from '../model/urls.ts';
+import { urls } from '../model/urls.ts';
 
 export interface VerdictRow {
   rule: string;

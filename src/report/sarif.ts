@@ -11,7 +11,7 @@ import type { Results, Status, Verdict, WaiverRef } from '../checker/evaluate.ts
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, SourcePos, Structure } from '../model/types.ts';
-import { urls } from './urls.ts';
+import { urls } from '../model/urls.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
 import { limitPhrase } from './words.ts';
 

@@ -9,7 +9,7 @@ import { walkHistory } from '../history/history.ts';
 import { commitUrl, shallowNote, type Links } from '../history/summary.ts';
 import { HANDBOOK_INPUTS } from '../model/source.ts';
 import { historyPages, type BuiltFrom, type HistoryPages } from './history-pages.ts';
-import { urls } from './urls.ts';
+import { urls } from '../model/urls.ts';
 
 export function siteHistory(root: string, links: Links, tool: string, today: string): HistoryPages | undefined {
   let repo: GitRepo;

@@ -27,6 +27,7 @@ export function valuePhrase(v: Pick<Verdict, 'value' | 'unit' | 'reason' | 'unbo
 
 export function originPhrase(o: ParamOrigin): string {
   if (o.type === 'handbook') return `written at ${o.pos.file}:${o.pos.line}:${o.pos.column}`;
+  if (o.type === 'default') return `not written: the default of the block at ${o.pos.file}:${o.pos.line}:${o.pos.column}`;
   return `material table, ${o.material}: ${o.source}`;
 }
 

@@ -85,6 +85,12 @@ describe('trapped width and the seam width that makes a gap a void', () => {
     expect(q['fill.trapped_width']!.value! / 1e-9).toBeCloseTo(0.945, 3);
     expect(q['fill.void_height']?.value).toBe(0);
   });
+
+  it('takes the seam width from the fill block: written at 0.5 nm, the same gap is a 945 nm void', () => {
+    const angle = 90 + (Math.atan(0.5 / 1000) * 180) / Math.PI;
+    const q = quantities(trench(`cd: 100 nm, depth: 1 um, sidewall_angle: ${angle.toPrecision(12)} deg`, 'fill: { method: conformal, seam_width: 0.5 nm }\n'));
+    expect(q['fill.void_height']!.value! / 1e-9).toBeCloseTo(945, 6);
+  });
 });
 
 describe('the largest aspect ratio filled void-free', () => {

@@ -7,7 +7,8 @@ import { describe, expect, it } from 'vitest';
 import { formatDiagnostic } from '../../src/diagnostics/messages.ts';
 import { type LoadResult } from '../../src/model/load.ts';
 import { MemorySource } from '../../src/model/memory-source.ts';
-import { GEOMETRY_PARAMS, ETCH_PARAMS, DRYING_PARAMS, MATERIAL_PROPERTIES } from '../../src/model/parameters.ts';
+import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../../src/model/parameters.ts';
+import { BLOCK_LIST, keysOf } from '../../src/model/blocks.ts';
 import { KINDS } from '../../src/model/types.ts';
 
 const RULE = 'id: P-1\ntitle: Probe\napplies_to: { kinds: [hole] }\nquantity: geometry.aspect_ratio\nat_most: 20\n';
@@ -69,8 +70,8 @@ describe('the loader on arbitrary input', () => {
         title: fc.constantFrom('t', ''),
         kind: fc.constantFrom(...KINDS, 'cilinder'),
         geometry: block([...Object.keys(GEOMETRY_PARAMS), 'array']),
-        etch: block([...Object.keys(ETCH_PARAMS), 'calibration']),
-        drying: block(['liquid', ...Object.keys(DRYING_PARAMS), 'supports']),
+        // Every input block, with the keys its declaration accepts.
+        ...Object.fromEntries(BLOCK_LIST.map((b) => [b.key, block(keysOf(b))])),
         materials: fc.dictionary(fc.constantFrom('body', 'fill', 'Bad Role'), fc.oneof(fc.constantFrom('silicon', 'copper', 'unobtainium'), block(['material', ...Object.keys(MATERIAL_PROPERTIES)])), { maxKeys: 3 }),
       },
       { requiredKeys: [] },

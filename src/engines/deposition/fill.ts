@@ -16,11 +16,12 @@
 // form the seam.
 
 import { arrival, widthAt, wallCoverageAt, type Opening } from './models.ts';
+import { BLOCKS } from '../../model/blocks.ts';
 
 export type FillMethod = 'conformal' | 'sticking-limited' | 'bottom-up';
 
-/** Trapped gaps narrower than this (1 nm: a few atomic layers) count as seams, not voids, unless the fill says otherwise. */
-export const SEAM_WIDTH_DEFAULT = 1e-9;
+/** Trapped gaps narrower than this count as seams, not voids: the documented default of the fill block's seam_width (blocks.ts). */
+export const SEAM_WIDTH_DEFAULT = BLOCKS.fill.inputs.seam_width.default.value;
 
 export interface FillProblem {
   /** The opening to fill, as the earlier film steps left it. */

@@ -348,7 +348,7 @@ const MARCH =
   'Profile marched in time with the local growth rate (conformal; sticking-limited from the reactive-wall Clausing problem re-solved in the narrowing opening; bottom-up); a slice closes when its walls meet, and open slices cut off below a closed one are trapped: a void when at least the seam width wide';
 
 function fillInputs(shape: Shape): Record<string, string> {
-  const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle', ...priorFilms(shape).inputs };
+  const inputs: Record<string, string> = { cd: 'geometry.cd', depth: 'geometry.depth', angle: 'geometry.sidewall_angle', seam: 'fill.seam_width', ...priorFilms(shape).inputs };
   if (shape.fill?.method === 'sticking-limited') inputs.sticking = 'fill.sticking_probability';
   if (shape.fill?.method === 'bottom-up') inputs.ratio = 'fill.bottom_up_ratio';
   return inputs;
@@ -371,6 +371,7 @@ export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!
       : marchFill({
           opening,
           method: shape.fill!.method,
+          seamWidth: a.seam!,
           ...(a.sticking !== undefined ? { sticking: a.sticking } : {}),
           ...(a.ratio !== undefined ? { ratio: a.ratio } : {}),
         });
@@ -390,7 +391,7 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
       return variant({
         label: `${shape.kind}, ${shape.fill.method} fill`,
         inputs,
-        symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', sticking: 's', ratio: 'R_b', ...priorSymbols(inputs) },
+        symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', seam: 'w_{seam}', sticking: 's', ratio: 'R_b', ...priorSymbols(inputs) },
         formula,
         compute: (a: Record<string, number>) => {
           const r = fillOf(shape, a);
@@ -402,7 +403,7 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
 }
 
 const FILL_ASSUMPTIONS = [
-  `Straight sidewalls; growth normal to the wall taken as horizontal; 200 slices over the depth. Earlier film steps narrow the opening by their local thickness (thickness on the top times coverage at that depth). A trapped gap narrower than the seam width (${SEAM_WIDTH_DEFAULT * 1e9} nm, a few atomic layers) closes as a seam, not a void; fill.trapped_width reports the widest trapped gap either way.`,
+  `Straight sidewalls; growth normal to the wall taken as horizontal; 200 slices over the depth. Earlier film steps narrow the opening by their local thickness (thickness on the top times coverage at that depth). A trapped gap narrower than the seam width (fill.seam_width; ${SEAM_WIDTH_DEFAULT * 1e9} nm, a few atomic layers, unless the structure says otherwise) closes as a seam, not a void; fill.trapped_width reports the widest trapped gap either way.`,
   `Sticking-limited growth: the flux arriving on the walls and the bottom (reactive-wall Clausing problem on ${MARCH_BANDS} wall bands), quasi-steady, solved again after every ${RESOLVE_GROWTH * 100} % of the top width of wall growth as the opening narrows.`,
 ];
 

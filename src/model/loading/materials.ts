@@ -2,7 +2,7 @@
 // property becomes a structure's input (with its tolerance and its source).
 import type { Diagnostic } from '../../diagnostics/diagnostic.ts';
 import { BUILT_IN_MATERIALS } from '../materials-table.ts';
-import { MATERIAL_PROPERTIES } from '../parameters.ts';
+import { MATERIAL_PROPERTIES, PROPERTY_ALIASES } from '../parameters.ts';
 import type { HandbookSource } from '../source.ts';
 import type { Material, MaterialProperty, Param, SourcePos } from '../types.ts';
 import { isUnitProblem, parseValue } from '../units.ts';
@@ -10,8 +10,6 @@ import { FileReport, type IdPlace, checkDuplicates, isMapping, readAndParse, sug
 import { getValidators, reportSchemaErrors } from './schema-errors.ts';
 import { readValue } from './values.ts';
 
-/** Shorter names a block may use for a material property (`expansion` for `thermal_expansion`). */
-export const PROPERTY_ALIASES: Record<string, string> = { thermal_expansion: 'expansion' };
 
 /** A material property as written in a block, under its own name or its alias, with the key used. */
 export function writtenProperty(block: Record<string, unknown>, prop: string, conflict?: { report: FileReport; base: string }): { key: string; raw: unknown } | undefined {

@@ -1,9 +1,10 @@
 // A structure file: geometry, materials by role, and the input blocks read into SI inputs and the
 // shape facts that decide which formulas apply.
-import { CALIBRATION_SPECS, CELL_DIELECTRIC_PARAMS, CELL_PARAMS, DEPOSITION_PARAMS, DRYING_PARAMS, ETCH_PARAMS, FILL_PARAMS, GEOMETRY_BY_KIND, GEOMETRY_PARAMS, ION_PARAMS, ISOLATION_PARAMS, MATERIAL_PROPERTIES, SUPPORT_SPEC, THERMOMECH_PARAMS, VIA_CONDUCTOR_MECH, VIA_PARAMS } from '../parameters.ts';
+import { BLOCK_LIST, SHAPE_FACTS, keysOf, type BlockFacts, type InputBlock } from '../blocks.ts';
+import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, PROPERTY_ALIASES, type ParamSpec } from '../parameters.ts';
 import { type Relation, checkRelation, describeCorner, structureRelations } from '../relations.ts';
 import { stemOf } from '../source.ts';
-import { type ArrayLayout, type CellShape, type DepositionShape, type DryingShape, type ElectrodeSurface, type EtchShape, type FillShape, KINDS, type Kind, type Material, type Param, type Structure, isElongated, isOpening } from '../types.ts';
+import { type ArrayLayout, KINDS, type Kind, type Material, type Param, type Structure, isElongated } from '../types.ts';
 import { FileReport, type Loaded, isMapping, suggest } from './file-report.ts';
 import { materialParam, reportUnknownMaterial, writtenProperty } from './materials.ts';
 import { getValidators, reportSchemaErrors } from './schema-errors.ts';
@@ -32,41 +33,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
   const raw = src.value as Record<string, unknown>;
   const schemaOk = v(raw);
   if (!schemaOk) {
-    reportSchemaErrors(v.errors ?? [], report, (ptr) =>
-      ptr === ''
-        ? ['id', 'title', 'kind', 'tags', 'description', 'geometry', 'etch', 'deposition', 'fill', 'drying', 'cell', 'via', 'isolation', 'anneal', 'keep_out', 'film', 'wafer', 'materials']
-        : ptr === '/geometry'
-          ? [...Object.keys(GEOMETRY_PARAMS), 'array']
-          : ptr === '/drying'
-            ? ['liquid', ...Object.keys(DRYING_PARAMS), 'supports', 'supports_hold']
-            : ptr === '/etch'
-              ? [...Object.keys(ETCH_PARAMS), 'ion', 'calibration']
-              : ptr === '/etch/ion'
-                ? Object.keys(ION_PARAMS)
-              : /^\/etch\/calibration\/\d+$/.test(ptr)
-                ? Object.keys(CALIBRATION_SPECS)
-                : /^\/deposition\/\d+$/.test(ptr)
-                  ? ['film', 'method', ...Object.keys(DEPOSITION_PARAMS)]
-                  : ptr === '/fill'
-                    ? ['method', ...Object.keys(FILL_PARAMS)]
-                    : ptr === '/cell'
-                      ? ['dielectric', 'electrode_surfaces', ...Object.keys(CELL_PARAMS)]
-                      : ptr === '/cell/dielectric'
-                        ? ['material', ...Object.keys(CELL_DIELECTRIC_PARAMS)]
-                        : ptr === '/via'
-                          ? ['conductor', 'liner']
-                          : ptr === '/via/conductor'
-                            ? ['material', 'resistivity', 'youngs_modulus', 'poisson_ratio', 'thermal_expansion', 'expansion']
-                            : ptr === '/via/liner'
-                              ? ['material', 'thickness', 'dielectric_constant']
-                              : ptr === '/isolation'
-                                ? Object.keys(ISOLATION_PARAMS)
-                                : ptr === '/wafer'
-                                  ? [...Object.keys(THERMOMECH_PARAMS.wafer!), 'orientation']
-                                  : THERMOMECH_PARAMS[ptr.slice(1)]
-                                    ? Object.keys(THERMOMECH_PARAMS[ptr.slice(1)]!)
-            : ['material', ...Object.keys(MATERIAL_PROPERTIES)],
-    );
+    reportSchemaErrors(v.errors ?? [], report, allowedInStructure);
     // Keep checking values, units and materials so one run reports every problem in the file;
     // only a file that is not a mapping at all stops here.
     if (!isMapping(raw)) return null;
@@ -132,61 +99,16 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
     }
   }
 
-  const cell = isMapping(raw.cell) ? readCell(report, raw.cell, kindKnown ? kind : undefined, params, materials) : undefined;
-  const via = isMapping(raw.via) ? readVia(report, raw.via, kindKnown ? kind : undefined, params, materials) : undefined;
-  let isolation: true | undefined;
-  if (isMapping(raw.isolation)) {
-    if (kindKnown && kind !== 'trench') report.add('unknown-field', '/isolation', { expected: `an isolation block only on a trench, not on a ${kind}` }, 'key');
-    else {
-      for (const [name, spec] of Object.entries(ISOLATION_PARAMS)) {
-        if (raw.isolation[name] === undefined) continue;
-        const r = readValue(report, `/isolation/${name}`, raw.isolation[name], spec);
-        if (r) params.set(`isolation.${name}`, { name: `isolation.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/isolation/${name}`) } });
-      }
-      isolation = true;
-    }
-  }
-  for (const [block, specs] of Object.entries(THERMOMECH_PARAMS)) {
-    const b = raw[block];
-    if (!isMapping(b)) continue;
-    for (const [name, spec] of Object.entries(specs)) {
-      if (b[name] === undefined) continue;
-      const r = readValue(report, `/${block}/${name}`, b[name], spec);
-      if (r) params.set(`${block}.${name}`, { name: `${block}.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/${block}/${name}`) } });
-    }
-  }
-  const waferOrientation = isMapping(raw.wafer) && (raw.wafer.orientation === '001' || raw.wafer.orientation === '111') ? raw.wafer.orientation : undefined;
-  const drying = isMapping(raw.drying) ? readDrying(report, raw.drying, kindKnown ? kind : undefined, params, materials) : undefined;
-  const etch = isMapping(raw.etch) ? readEtch(report, raw.etch, kindKnown ? kind : undefined, params) : undefined;
-  const deposition = Array.isArray(raw.deposition) ? readDeposition(report, raw.deposition, kindKnown ? kind : undefined, params) : undefined;
-  let fill: FillShape | undefined;
-  if (isMapping(raw.fill) && typeof raw.fill.method === 'string') {
-    if (kindKnown && !isOpening(kind)) report.add('unknown-field', '/fill', { expected: `a fill block only on openings (hole, trench, via), not on a ${kind}` }, 'key');
-    else {
-      for (const [name, spec] of Object.entries(FILL_PARAMS)) {
-        if (raw.fill[name] === undefined) continue;
-        const r = readValue(report, `/fill/${name}`, raw.fill[name], spec);
-        if (r) params.set(`fill.${name}`, { name: `fill.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/fill/${name}`) } });
-      }
-      fill = { method: raw.fill.method as FillShape['method'] };
-    }
-  }
+  const facts = readBlocks(raw, { report, params, materials, kind: kindKnown ? kind : undefined });
 
-  checkRelations(report, params, structureRelations(drying?.supportCount ?? 0));
+  checkRelations(report, params, structureRelations(facts.drying?.supportCount ?? 0));
 
   if (!schemaOk) return null;
   return {
     id,
     title: String(raw.title),
     kind,
-    ...(drying ? { drying } : {}),
-    ...(etch ? { etch } : {}),
-    ...(deposition ? { deposition } : {}),
-    ...(fill ? { fill } : {}),
-    ...(cell ? { cell } : {}),
-    ...(via ? { via } : {}),
-    ...(isolation ? { isolation } : {}),
-    ...(waferOrientation ? { waferOrientation } : {}),
+    ...facts,
     ...(array ? { array } : {}),
     tags: (raw.tags as string[] | undefined) ?? [],
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
@@ -197,184 +119,139 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
   };
 }
 
-/** The `drying:` block: liquid (with its surface tension), contact angle and support heights. */
-export function readDrying(
-  report: FileReport,
-  d: Record<string, unknown>,
-  kind: Kind | undefined,
-  params: Map<string, Param>,
-  materials: Map<string, Material>,
-): DryingShape | undefined {
-  if (kind && isOpening(kind)) {
-    report.add('unknown-field', '/drying', { expected: `a drying block only on standing kinds (pillar, cylinder, line), not on a ${kind}` }, 'key');
-    return undefined;
+/** Keys a structure file may write at a place, for the suggestions of an unknown-field problem. */
+function allowedInStructure(pointer: string): string[] {
+  if (pointer === '') return ['id', 'title', 'kind', 'tags', 'description', 'geometry', ...BLOCK_LIST.map((b) => b.key), 'materials'];
+  if (pointer === '/geometry') return [...Object.keys(GEOMETRY_PARAMS), 'array'];
+  const [, key, part] = pointer.split('/');
+  const block = BLOCK_LIST.find((b) => b.key === key);
+  if (!block) return ['material', ...keysOf({ inputs: MATERIAL_PROPERTIES }, PROPERTY_ALIASES)];
+  if (part === undefined || (block.form === 'list' && /^\d+$/.test(part))) return keysOf(block, PROPERTY_ALIASES);
+  const p = block.parts?.[part];
+  return p ? keysOf(p, PROPERTY_ALIASES) : [];
+}
+
+interface BlockContext {
+  report: FileReport;
+  params: Map<string, Param>;
+  materials: Map<string, Material>;
+  /** The structure's kind, when it is a known one. */
+  kind: Kind | undefined;
+}
+
+const article = (word: string) => (/^[aeiou]/.test(word) ? 'an' : 'a');
+
+/**
+ * Every input block of a structure: its inputs read into `params` (material values first, then
+ * what the file writes, then defaults), and the shape facts of the blocks that belong on this kind.
+ */
+function readBlocks(raw: Record<string, unknown>, ctx: BlockContext): BlockFacts {
+  const read = new Map<string, Record<string, unknown>>();
+  for (const block of BLOCK_LIST) {
+    const b = raw[block.key];
+    if (block.form === 'list' ? !Array.isArray(b) : !isMapping(b)) continue; // absent, or reported by the schema
+    if (ctx.kind && !block.kinds.includes(ctx.kind)) {
+      const what = `${article(block.key)} ${block.key} ${block.form === 'list' ? 'list' : 'block'}`;
+      ctx.report.add('unknown-field', `/${block.key}`, { expected: `${what} only on ${block.where}, not on a ${ctx.kind}` }, 'key');
+      continue;
+    }
+    const ok = block.form === 'list' ? readListBlock(block, b as unknown[], ctx) : readMappingBlock(block, b as Record<string, unknown>, ctx);
+    if (ok) read.set(block.key, b as Record<string, unknown>);
   }
-  if (typeof d.liquid !== 'string') return undefined; // reported by the schema
-  const liquid = d.liquid;
-  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
-  if (liquid === 'none') {
+  const facts: Record<string, unknown> = {};
+  for (const [name, fact] of Object.entries(SHAPE_FACTS)) {
+    const b = read.get(fact.block);
+    const value = b && (fact.read as (raw: Record<string, unknown>) => unknown)(b);
+    if (value !== undefined) facts[name] = value;
+  }
+  return facts as BlockFacts;
+}
+
+/** Inputs of one mapping (a block or a part of it): `name(input)` is each one's path. */
+function readInputs(ctx: BlockContext, base: string, m: Record<string, unknown>, inputs: Record<string, ParamSpec>, name: (input: string) => string): void {
+  for (const [input, spec] of Object.entries(inputs)) {
+    const w = writtenProperty(m, input, { report: ctx.report, base });
+    const path = name(input);
+    if (!w) {
+      if (spec.default && !ctx.params.has(path)) ctx.params.set(path, { name: path, value: spec.default.value, unit: spec.unit, written: spec.default.written, origin: { type: 'default', pos: ctx.report.pos(base) } });
+      continue;
+    }
+    const pointer = `${base}/${w.key}`;
+    const r = readValue(ctx.report, pointer, w.raw, spec);
+    if (r) ctx.params.set(path, { name: path, ...r, unit: spec.unit, origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
+  }
+}
+
+/** The table values of a part's `material` that stand for inputs the part does not write. */
+function readMaterial(ctx: BlockContext, base: string, m: Record<string, unknown>, properties: readonly string[], name: (input: string) => string): void {
+  if (typeof m.material !== 'string') return; // reported by the schema
+  const pointer = `${base}/material`;
+  const material = ctx.materials.get(m.material);
+  if (!material) return reportUnknownMaterial(ctx.report, pointer, m.material, ctx.materials);
+  for (const prop of properties) {
+    const mp = material.properties[prop];
+    if (mp) ctx.params.set(name(prop), materialParam(name(prop), m.material, mp, ctx.report.pos(pointer)));
+  }
+}
+
+function readMappingBlock(block: InputBlock, b: Record<string, unknown>, ctx: BlockContext): boolean {
+  const base = `/${block.key}`;
+  if (block.key === 'drying' && !readLiquid(b, ctx)) return false;
+  for (const [partName, part] of Object.entries(block.parts ?? {})) {
+    const pb = `${base}/${partName}`;
+    const value = b[partName];
+    if (part.form === 'mapping') {
+      if (!isMapping(value)) continue;
+      const name = (input: string) => `${block.key}.${partName}_${input}`;
+      if (part.material) readMaterial(ctx, pb, value, part.material, name);
+      readInputs(ctx, pb, value, part.inputs, name);
+      continue;
+    }
+    if (!Array.isArray(value)) continue;
+    value.forEach((entry, i) => {
+      if (part.form === 'values') {
+        const [item, spec] = Object.entries(part.inputs)[0]!;
+        const pointer = `${pb}/${i}`;
+        const r = readValue(ctx.report, pointer, entry, spec);
+        if (r) ctx.params.set(`${block.key}.${item}_${i + 1}`, { name: `${block.key}.${item}_${i + 1}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
+      } else if (isMapping(entry)) readInputs(ctx, `${pb}/${i}`, entry, part.inputs, (input) => `${block.key}.${partName}_${i + 1}_${input}`);
+    });
+  }
+  readInputs(ctx, base, b, block.inputs, (input) => `${block.key}.${input}`);
+  return true;
+}
+
+/** A list block (deposition): each entry names itself, and its inputs are `<block>.<entry>.<name>`. */
+function readListBlock(block: InputBlock, entries: unknown[], ctx: BlockContext): boolean {
+  const seen = new Set<string>();
+  const by = block.entryName!;
+  entries.forEach((entry, i) => {
+    // An entry without its name or another required word (a method) was reported by the schema.
+    if (!isMapping(entry) || Object.keys(block.fields ?? {}).some((f) => (block.required ?? []).includes(f) && typeof entry[f] !== 'string')) return;
+    const name = entry[by] as string;
+    if (seen.has(name)) return ctx.report.add('duplicate-id', `/${block.key}/${i}/${by}`, { found: name });
+    seen.add(name);
+    readInputs(ctx, `/${block.key}/${i}`, entry, block.inputs, (input) => `${block.key}.${name}.${input}`);
+  });
+  return true;
+}
+
+/** The rinse liquid: its surface tension from the materials, or none (no liquid–vapour interface). */
+function readLiquid(d: Record<string, unknown>, ctx: BlockContext): boolean {
+  if (typeof d.liquid !== 'string') return false; // reported by the schema
+  const { report, params, materials } = ctx;
+  if (d.liquid === 'none') {
     if (d.surface_tension !== undefined) {
       report.add('bad-value', '/drying/surface_tension', { expected: 'no surface tension with liquid: none (drying without a liquid–vapour interface)', found: `"${String(d.surface_tension)}"` }, 'key');
-      return undefined;
+      return false;
     }
-    params.set('drying.surface_tension', { name: 'drying.surface_tension', value: 0, unit: 'N/m', written: 'none (no liquid–vapour interface)', origin: handbook('/drying/liquid') });
-  } else {
-    const m = materials.get(liquid);
-    const gamma = m?.properties.surface_tension;
-    if (!m) reportUnknownMaterial(report, '/drying/liquid', liquid, new Map([...materials].filter(([, x]) => x.properties.surface_tension)));
-    else if (!gamma && d.surface_tension === undefined) report.add('bad-value', '/drying/liquid', { expected: 'a liquid with a surface tension (such as water or isopropanol), or none', found: `"${liquid}"` });
-    else if (gamma) {
-      params.set('drying.surface_tension', materialParam('drying.surface_tension', liquid, gamma, report.pos('/drying/liquid')));
-    }
+    params.set('drying.surface_tension', { name: 'drying.surface_tension', value: 0, unit: 'N/m', written: 'none (no liquid–vapour interface)', origin: { type: 'handbook', pos: report.pos('/drying/liquid') } });
+    return true;
   }
-  for (const [name, spec] of Object.entries(DRYING_PARAMS)) {
-    if (d[name] === undefined) continue;
-    const r = readValue(report, `/drying/${name}`, d[name], spec);
-    if (r) params.set(`drying.${name}`, { name: `drying.${name}`, ...r, unit: spec.unit, origin: handbook(`/drying/${name}`) });
-  }
-  const supports = Array.isArray(d.supports) ? d.supports : [];
-  supports.forEach((raw, i) => {
-    const pointer = `/drying/supports/${i}`;
-    const r = readValue(report, pointer, raw, SUPPORT_SPEC);
-    if (!r) return;
-    params.set(`drying.support_${i + 1}`, { name: `drying.support_${i + 1}`, ...r, unit: 'm', origin: handbook(pointer) });
-  });
-  return { liquid, supportCount: supports.length, supportHold: d.supports_hold === 'clamped' ? 'clamped' : 'pinned' };
-}
-
-/** The `etch:` block: recipe numbers and optional calibration points. */
-export function readEtch(report: FileReport, e: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>): EtchShape | undefined {
-  if (kind && !isOpening(kind)) {
-    report.add('unknown-field', '/etch', { expected: `an etch block only on openings (hole, trench, via), not on a ${kind}` }, 'key');
-    return undefined;
-  }
-  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
-  for (const [name, spec] of Object.entries(ETCH_PARAMS)) {
-    if (e[name] === undefined) continue;
-    const r = readValue(report, `/etch/${name}`, e[name], spec);
-    if (r) params.set(`etch.${name}`, { name: `etch.${name}`, ...r, unit: spec.unit, origin: handbook(`/etch/${name}`) });
-  }
-  if (e.mask_thickness === undefined) {
-    // The format makes the mask optional: none in the conductance path unless written.
-    params.set('etch.mask_thickness', { name: 'etch.mask_thickness', value: 0, unit: 'm', written: '0 (no mask written)', origin: handbook('/etch') });
-  }
-  const points = Array.isArray(e.calibration) ? e.calibration : [];
-  points.forEach((point, i) => {
-    if (!isMapping(point)) return;
-    for (const [name, spec] of Object.entries(CALIBRATION_SPECS)) {
-      if (point[name] === undefined) continue;
-      const pointer = `/etch/calibration/${i}/${name}`;
-      const r = readValue(report, pointer, point[name], spec);
-      if (r) params.set(`etch.calibration_${i + 1}_${name}`, { name: `etch.calibration_${i + 1}_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
-    }
-  });
-  let ion: EtchShape['ion'];
-  if (isMapping(e.ion)) {
-    for (const [name, spec] of Object.entries(ION_PARAMS)) {
-      if (e.ion[name] === undefined) continue;
-      const pointer = `/etch/ion/${name}`;
-      const r = readValue(report, pointer, e.ion[name], spec);
-      if (r) params.set(`etch.ion_${name}`, { name: `etch.ion_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
-    }
-    ion = { spread: e.ion.angular_spread !== undefined };
-  }
-  return { calibrationPoints: points.length, ...(ion ? { ion } : {}) };
-}
-
-/** The `deposition:` list: film steps with their method and recipe numbers. */
-export function readDeposition(report: FileReport, steps: unknown[], kind: Kind | undefined, params: Map<string, Param>): DepositionShape | undefined {
-  if (kind && !isOpening(kind) && kind !== 'cylinder') {
-    report.add('unknown-field', '/deposition', { expected: `a deposition list only on openings and hollow cylinders, not on a ${kind}` }, 'key');
-    return undefined;
-  }
-  const films: DepositionShape['films'] = [];
-  const seen = new Set<string>();
-  steps.forEach((step, i) => {
-    if (!isMapping(step) || typeof step.film !== 'string' || typeof step.method !== 'string') return; // reported by the schema
-    if (seen.has(step.film)) {
-      report.add('duplicate-id', `/deposition/${i}/film`, { found: step.film });
-      return;
-    }
-    seen.add(step.film);
-    for (const [name, spec] of Object.entries(DEPOSITION_PARAMS)) {
-      if (step[name] === undefined) continue;
-      const pointer = `/deposition/${i}/${name}`;
-      const r = readValue(report, pointer, step[name], spec);
-      if (r) params.set(`deposition.${step.film}.${name}`, { name: `deposition.${step.film}.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
-    }
-    films.push({ film: step.film, method: step.method as DepositionShape['films'][number]['method'] });
-  });
-  return { films };
-}
-
-/** The `cell:` block: dielectric (a material, with inline overrides), electrode surfaces, circuit numbers. */
-export function readCell(report: FileReport, c: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>, materials: Map<string, Material>): CellShape | undefined {
-  if (kind && kind !== 'cylinder') {
-    report.add('unknown-field', '/cell', { expected: `a cell block only on a hollow cylinder (the storage electrode), not on a ${kind}` }, 'key');
-    return undefined;
-  }
-  const handbook = (pointer: string) => ({ type: 'handbook' as const, pos: report.pos(pointer) });
-  for (const [name, spec] of Object.entries(CELL_PARAMS)) {
-    if (c[name] === undefined) continue;
-    const r = readValue(report, `/cell/${name}`, c[name], spec);
-    if (r) params.set(`cell.${name}`, { name: `cell.${name}`, ...r, unit: spec.unit, origin: handbook(`/cell/${name}`) });
-  }
-  if (isMapping(c.dielectric)) {
-    const d = c.dielectric;
-    if (typeof d.material === 'string') {
-      const m = materials.get(d.material);
-      if (!m) reportUnknownMaterial(report, '/cell/dielectric/material', d.material, materials);
-      else if (m.properties.dielectric_constant) {
-        params.set('cell.dielectric_dielectric_constant', materialParam('cell.dielectric_dielectric_constant', d.material, m.properties.dielectric_constant, report.pos('/cell/dielectric/material')));
-      }
-    }
-    for (const [name, spec] of Object.entries(CELL_DIELECTRIC_PARAMS)) {
-      if (d[name] === undefined) continue;
-      const pointer = `/cell/dielectric/${name}`;
-      const r = readValue(report, pointer, d[name], spec);
-      if (r) params.set(`cell.dielectric_${name}`, { name: `cell.dielectric_${name}`, ...r, unit: spec.unit, origin: handbook(pointer) });
-    }
-  }
-  const surfaces = Array.isArray(c.electrode_surfaces) ? (c.electrode_surfaces.filter((x) => typeof x === 'string') as ElectrodeSurface[]) : [];
-  return { surfaces };
-}
-
-/** The `via:` block: conductor and liner materials, with inline overrides. */
-export function readVia(report: FileReport, v: Record<string, unknown>, kind: Kind | undefined, params: Map<string, Param>, materials: Map<string, Material>): true | undefined {
-  if (kind && kind !== 'via') {
-    report.add('unknown-field', '/via', { expected: `a via block only on a via, not on a ${kind}` }, 'key');
-    return undefined;
-  }
-  const fromMaterial = (pointer: string, id: unknown, prop: string, name: string) => {
-    if (typeof id !== 'string') return;
-    const m = materials.get(id);
-    if (!m) return reportUnknownMaterial(report, pointer, id, materials);
-    const p = m.properties[prop];
-    if (p) params.set(name, materialParam(name, id, p, report.pos(pointer)));
-  };
-  const inline = (pointer: string, raw: unknown, name: string) => {
-    if (raw === undefined) return;
-    const spec = VIA_PARAMS[name.slice('via.'.length)]!;
-    const r = readValue(report, pointer, raw, spec);
-    if (r) params.set(name, { name, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
-  };
-  if (isMapping(v.conductor)) {
-    fromMaterial('/via/conductor/material', v.conductor.material, 'resistivity', 'via.conductor_resistivity');
-    inline('/via/conductor/resistivity', v.conductor.resistivity, 'via.conductor_resistivity');
-    for (const prop of Object.keys(VIA_CONDUCTOR_MECH)) {
-      fromMaterial('/via/conductor/material', v.conductor.material, prop, `via.conductor_${prop}`);
-      const w = writtenProperty(v.conductor, prop, { report, base: '/via/conductor' });
-      if (!w) continue;
-      const spec = VIA_CONDUCTOR_MECH[prop]!;
-      const pointer = `/via/conductor/${w.key}`;
-      const r = readValue(report, pointer, w.raw, spec);
-      if (r) params.set(`via.conductor_${prop}`, { name: `via.conductor_${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
-    }
-  }
-  if (isMapping(v.liner)) {
-    fromMaterial('/via/liner/material', v.liner.material, 'dielectric_constant', 'via.liner_dielectric_constant');
-    inline('/via/liner/thickness', v.liner.thickness, 'via.liner_thickness');
-    inline('/via/liner/dielectric_constant', v.liner.dielectric_constant, 'via.liner_dielectric_constant');
-  }
+  const m = materials.get(d.liquid);
+  const gamma = m?.properties.surface_tension;
+  if (!m) reportUnknownMaterial(report, '/drying/liquid', d.liquid, new Map([...materials].filter(([, x]) => x.properties.surface_tension)));
+  else if (!gamma && d.surface_tension === undefined) report.add('bad-value', '/drying/liquid', { expected: 'a liquid with a surface tension (such as water or isopropanol), or none', found: `"${d.liquid}"` });
+  else if (gamma) params.set('drying.surface_tension', materialParam('drying.surface_tension', d.liquid, gamma, report.pos('/drying/liquid')));
   return true;
 }
