@@ -34,14 +34,18 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
   for (const v of shown) {
     const rule = h.rules.find((r) => r.id === v.rule)!;
     const word = v.status === 'fail' ? (v.severity === 'blocking' ? 'FAIL' : 'fail (advisory)') : STATUS_WORDS[v.status];
-    rows.push([word, v.rule, v.structure, v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : valuePhrase(v), limitPhrase(rule, v.unit), formatMargin(v.margin)]);
+    // A value's reason can be a paragraph: the table says there is none, the reasons follow it.
+    const value = v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : v.value === null ? (v.unbounded ? `unbounded ${v.unbounded === 'above' ? '(+∞)' : '(−∞)'}` : 'no value (below)') : valuePhrase(v);
+    rows.push([word, v.rule, v.structure, value, limitPhrase(rule, v.unit), formatMargin(v.margin)]);
   }
+  const reasons = shown.filter((v) => v.status !== 'incomplete' && v.value === null && !v.unbounded).map((v) => `  ${v.rule} on ${v.structure}: ${v.reason ?? 'no value'}`);
   const c = results.counts;
   const judged = h.waivers.length === 0 ? '' : results.on ? `, ${plural(h.waivers.length, 'waiver')} (judged on ${results.on})` : `, ${plural(h.waivers.length, 'waiver')}`;
   const lines = [
     `${h.meta.title}: ${plural(h.structures.length, 'structure')}, ${plural(h.rules.length, 'rule')}${judged}`,
     '',
     table(rows),
+    ...(reasons.length ? ['', 'Without a value:', ...reasons] : []),
     ...renderWaivers(h, results),
     '',
     `${c.pass} pass, ${c.fail} fail (${results.blockingFailures} blocking), ${c.waived} waived, ${c.incomplete} incomplete, ${c['not-applicable']} not applicable`,
