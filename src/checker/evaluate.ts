@@ -185,7 +185,9 @@ function evaluatePlan(plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Com
   if (tol.length === 0) return { nominal, decisive: nominal, corners: 1 };
   if (tol.length > MAX_TOLERANCED_INPUTS) throw new Error(`${plan.quantity} reads ${tol.length} toleranced inputs; corners are limited to ${MAX_TOLERANCED_INPUTS}`);
   let worst: Point | null = null;
+  let worstMask = 0;
   const count = 1 << tol.length;
+  const values = new Float64Array(count);
   for (let mask = 0; mask < count; mask++) {
     const inputs = nominalInputs.slice();
     const sides: Point['sides'] = plan.params.map(() => 'nominal');
@@ -197,34 +199,40 @@ function evaluatePlan(plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Com
     });
     const pt = evaluatePoint(plan, inputs, sides);
     const v = comparable(pt);
+    values[mask] = v;
     if (worst === null) worst = pt;
     else {
       const w = comparable(worst);
       // An undefined value is the worst there is; otherwise lowest for at_least, highest for at_most.
       const worse = Number.isNaN(v) ? !Number.isNaN(w) : !Number.isNaN(w) && (comparison === 'at_least' ? v < w : v > w);
-      if (worse) worst = pt;
+      if (worse) {
+        worst = pt;
+        worstMask = mask;
+      }
     }
   }
-  return { nominal, decisive: withoutIdleInputs(plan, worst!, tol), corners: count };
+  return { nominal, decisive: withoutIdleInputs(plan, worst!, tol, values, worstMask), corners: count };
 }
 
 /**
  * The worst corner with every toleranced input the value does not depend on put back at nominal,
  * so the corner lists only the inputs that decide it (a keep-out radius that reads the depth only
- * for a validity flag does not list the depth).
+ * for a validity flag does not list the depth). An input is idle when the corner across its
+ * tolerance, already in the sweep, has the same value; the point is then evaluated once more, and
+ * kept only if it still gives the deciding value.
  */
-function withoutIdleInputs(plan: ReadyPlan, worst: Point, tol: number[]): Point {
-  let point = worst;
-  const target = comparable(worst);
-  for (const i of tol) {
-    const inputs = point.inputs.slice();
+function withoutIdleInputs(plan: ReadyPlan, worst: Point, tol: number[], values: Float64Array, worstMask: number): Point {
+  const target = values[worstMask]!;
+  const idle = tol.filter((_, bit) => Object.is(values[worstMask ^ (1 << bit)], target));
+  if (idle.length === 0) return worst;
+  const inputs = worst.inputs.slice();
+  const sides = worst.sides.slice();
+  for (const i of idle) {
     inputs[i] = plan.params[i]!.value;
-    const sides = point.sides.slice();
     sides[i] = 'nominal';
-    const trial = evaluatePoint(plan, inputs, sides);
-    if (Object.is(comparable(trial), target)) point = trial;
   }
-  return point;
+  const trial = evaluatePoint(plan, inputs, sides);
+  return Object.is(comparable(trial), target) ? trial : worst;
 }
 
 /** The validity ranges a step's arguments leave (a `holds` check needs every argument known). */
