@@ -5,26 +5,11 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { QUANTITIES } from '../../src/engines/index.ts';
-import type { Param } from '../../src/model/types.ts';
-import { makeRule, makeStructure, um } from '../helpers.ts';
+import { copperVia, makeRule, type P, um } from '../helpers.ts';
 
-function via(dT: number | [number, number, number], depth: number | [number, number, number] = 50 * um) {
-  const s = makeStructure('via', { cd: 10 * um, depth }, { array: 'square' });
-  const set = (name: string, v: number | [number, number, number]) => {
-    const [value, low, high] = Array.isArray(v) ? v : [v, undefined, undefined];
-    s.params.set(name, { name, value, ...(low !== undefined ? { low, high } : {}), unit: '1', written: String(value), origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } } satisfies Param);
-  };
-  set('via.conductor_youngs_modulus', 120e9);
-  set('via.conductor_poisson_ratio', 0.34);
-  set('via.conductor_thermal_expansion', 16.7e-6);
-  set('materials.substrate.isotropic_youngs_modulus', 130e9);
-  set('materials.substrate.isotropic_poisson_ratio', 0.28);
-  set('materials.substrate.thermal_expansion', 2.6e-6);
-  set('anneal.temperature_change', dT);
+function via(dT: P, depth: P = 50 * um) {
+  const { s, set } = copperVia(depth, dT);
   set('keep_out.mobility_shift', 0.05);
-  // Lightly doped channels at room temperature: the piezoresistance factor is 1 (Kanda 1982).
-  set('keep_out.channel_doping', 1e21);
-  set('keep_out.temperature', 300);
   return s;
 }
 

@@ -20,8 +20,7 @@ import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/ev
 import { freeSlidingProtrusion, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 
 import { MemorySource } from '../../src/model/memory-source.ts';
-import type { Param } from '../../src/model/types.ts';
-import { expectRel, makeRule, makeStructure, um } from '../helpers.ts';
+import { copperVia, expectRel, makeRule, makeStructure, um } from '../helpers.ts';
 import { HOPCROFT_C, hillAverage, holeStiffness001, poissonOf, youngsAlong } from './anisotropic-silicon.ts';
 
 describe('piezoresistance (Smith 1954, in 1e-11 /Pa)', () => {
@@ -231,28 +230,6 @@ describe('wafer bow (Stoney, biaxial)', () => {
     expect(siliconBiaxialModulus('111') / 1e9).toBeCloseTo(229.1, 0);
   });
 });
-
-/**
- * A 10 µm copper via in isotropic silicon (E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K), channels
- * lightly doped (1e15 cm⁻³) at 300 K.
- */
-function copperVia(depth: number, dT: number): { s: ReturnType<typeof makeStructure>; set: (name: string, value: number) => void } {
-  const s = makeStructure('via', { cd: 10 * um, depth }, { array: 'square' });
-  const pos = { file: 'test', line: 1, column: 1 };
-  const set = (name: string, value: number) => {
-    s.params.set(name, { name, value, unit: '1', written: String(value), origin: { type: 'handbook', pos } } satisfies Param);
-  };
-  set('via.conductor_youngs_modulus', 120e9);
-  set('via.conductor_poisson_ratio', 0.34);
-  set('via.conductor_thermal_expansion', 16.7e-6);
-  set('materials.substrate.isotropic_youngs_modulus', 130e9);
-  set('materials.substrate.isotropic_poisson_ratio', 0.28);
-  set('materials.substrate.thermal_expansion', 2.6e-6);
-  set('anneal.temperature_change', dT);
-  set('keep_out.channel_doping', 1e21);
-  set('keep_out.temperature', 300);
-  return { s, set };
-}
 
 describe('keep-out radius and bow of a via structure', () => {
   const { s, set } = copperVia(50 * um, -300);
