@@ -1,0 +1,30 @@
+// Mutation testing of the engines and the checker (`npm run mutate`; DEVELOPERS.md, "Mutation
+// testing"). Narrow a run with `npm run mutate -- --mutate src/engines/geometry/index.ts`.
+// Stryker mutates copies in a sandbox under .stryker-tmp/, never the working tree.
+
+/** @type {import('@stryker-mutator/api/core').PartialStrykerOptions} */
+export default {
+  testRunner: 'vitest',
+  plugins: ['@stryker-mutator/vitest-runner'],
+  // Only the fast unit suites (no browser, history, site, CLI or corpus suites).
+  vitest: { configFile: 'vitest.mutate.config.ts' },
+  mutate: ['src/engines/**/*.ts', 'src/checker/**/*.ts'],
+  // Strings here are prose and TeX (titles, sources, reasons, formulas shown on the pages), not
+  // computation: the report's own tests read them. Every other mutator runs.
+  mutator: { excludedMutations: ['StringLiteral'] },
+  // Each mutant runs only the tests that reached it in the first, instrumented run.
+  coverageAnalysis: 'perTest',
+  // Re-test only mutants whose code or covering tests changed since the last run.
+  incremental: true,
+  incrementalFile: 'reports/mutation/stryker-incremental.json',
+  // Two test processes, one per core of this machine (lower it when the machine is shared).
+  concurrency: 2,
+  reporters: ['clear-text', 'progress', 'html', 'json'],
+  htmlReporter: { fileName: 'reports/mutation/mutation.html' },
+  jsonReporter: { fileName: 'reports/mutation/mutation.json' },
+  clearTextReporter: { allowColor: false, logTests: false },
+  tempDirName: '.stryker-tmp',
+  // Build output and caches need not be copied into the sandbox.
+  ignorePatterns: ['site', '.site-*', 'coverage', '.cache'],
+  thresholds: { high: 80, low: 60, break: null },
+};
