@@ -17,6 +17,25 @@ describe('space when an opening closes before its bottom', () => {
   });
 });
 
+describe('neighbours that touch', () => {
+  it('leave no space between vertical holes one CD apart', () => {
+    // s = p − CD = 100 − 100 = 0 nm (hand): the holes touch, so there is no wall between them.
+    const s = makeStructure('hole', { cd: 100 * nm, depth: 1 * um, pitch: 100 * nm, sidewall_angle: deg(90) }, { array: 'square' });
+    expect(value(s, 'geometry.space')?.value).toBeNull();
+    expect(value(s, 'geometry.space')?.reason).toMatch(/touch/);
+  });
+});
+
+describe('a re-entrant body that narrows to nothing', () => {
+  it('has no base CD', () => {
+    // Pillar 20 nm at the top, 1 µm tall, θ = 91°: CD_b = 20 + 2·1000·cot 91° = 20 − 2000·0.017455065
+    // = −14.9 nm (hand; cot 91° = −tan 1° from tables): it narrows to a point above its base.
+    const s = makeStructure('pillar', { cd: 20 * nm, height: 1 * um, sidewall_angle: deg(91) }, { array: 'square' });
+    expect(value(s, 'geometry.bottom_cd')?.value).toBeNull();
+    expect(value(s, 'geometry.bottom_cd')?.reason).toMatch(/narrows to nothing/);
+  });
+});
+
 describe('overlapping round neighbours', () => {
   it('have no open-area fraction between d = p and the point where the naive ratio reaches 1', () => {
     // Square cell: π d²/(4p²) stays below 1 up to d = 2p/√π ≈ 1.128p, but circles with d > p
@@ -29,15 +48,24 @@ describe('overlapping round neighbours', () => {
 });
 
 describe('hollow cylinders that cannot exist', () => {
-  it('give no volume when the wall is as thick as half the CD', () => {
-    const s = makeStructure('cylinder', { cd: 20 * nm, height: 1 * um, wall: 10 * nm, sidewall_angle: deg(90) }, { array: 'square' });
-    expect(value(s, 'geometry.volume')?.value).toBeNull();
-    expect(value(s, 'geometry.sidewall_area')?.value).toBeNull();
+  it('give no volume, area or open fraction when the wall is as thick as half the CD', () => {
+    // Cavity diameter CD − 2t_w = 20 − 2·10 = 0 nm: there is no cavity. The reason must say so,
+    // not be the checker's fallback for a formula that went non-finite (0/0 at the cavity's apex).
+    const s = makeStructure('cylinder', { cd: 20 * nm, height: 1 * um, wall: 10 * nm, pitch: 40 * nm, sidewall_angle: deg(90) }, { array: 'square' });
+    for (const name of ['geometry.volume', 'geometry.sidewall_area', 'geometry.open_area_fraction']) {
+      expect(value(s, name)?.value, name).toBeNull();
+      expect(value(s, name)?.reason, name).toMatch(/half the CD/);
+    }
   });
 
-  it('give no volume when the wall is thicker than the cylinder is tall', () => {
-    const s = makeStructure('cylinder', { cd: 100 * nm, height: 20 * nm, wall: 30 * nm, sidewall_angle: deg(90) }, { array: 'square' });
-    expect(value(s, 'geometry.volume')?.value).toBeNull();
+  it('give no volume when the wall is as thick as, or thicker than, the cylinder is tall', () => {
+    // Cavity depth H − t_w = 20 − 30 < 0 and 20 − 20 = 0: no cavity (the loader refuses both, as the
+    // corpus case wall-as-thick-as-height shows).
+    for (const height of [20 * nm, 30 * nm]) {
+      const s = makeStructure('cylinder', { cd: 100 * nm, height, wall: 30 * nm, sidewall_angle: deg(90) }, { array: 'square' });
+      expect(value(s, 'geometry.volume')?.value, `H = ${height}`).toBeNull();
+      expect(value(s, 'geometry.volume')?.reason, `H = ${height}`).toMatch(/as thick as/);
+    }
   });
 
   it('treat a cavity that narrows to nothing above its floor as a cone to its apex', () => {

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
 import { buildPlan } from '../../src/checker/plan.ts';
-import { frustumVolume } from '../../src/engines/geometry/index.ts';
+import { cotangent, frustumVolume } from '../../src/engines/geometry/index.ts';
 import type { Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeStructure, nm, um } from '../helpers.ts';
 
@@ -75,6 +75,23 @@ describe('taper: bottom CD and closure depth', () => {
     expect(b).toBeGreaterThan(50 * nm);
   });
 
+  it('keeps the CD of a vertical wall exactly: cot 90° = 0, so CD_b = CD and the ratio is 1', () => {
+    // Closed form: cot 90° = 0 exactly, so CD_b = 100 nm − 2·1000 nm·0 = 100 nm. A floating-point
+    // cos(π/2)/sin(π/2) = 6.1e-17 would leave 2·1 µm·6.1e-17 = 1.2e-22 m (≈ 9 ulp of 100 nm) off.
+    const s = makeStructure('hole', { cd: 100 * nm, depth: 1 * um, pitch: 200 * nm, sidewall_angle: deg(90) }, { array: 'square' });
+    expect(q(s, 'geometry.bottom_cd')).toBe(100 * nm);
+    expect(q(s, 'geometry.bottom_to_top_ratio')).toBe(1);
+  });
+
+  it('has no bottom CD for an opening exactly as deep as its closure depth', () => {
+    // D = D_c gives CD_b = CD − 2D·cot θ = 0 (closed form): the walls meet at the bottom, which is a
+    // point, not an opening. CD is set to 2D·cot 89° so the difference is exactly zero.
+    const s = makeStructure('hole', { cd: 2 * (1 * um) * cotangent(deg(89)), depth: 1 * um, sidewall_angle: deg(89) });
+    const r = evaluateStructure(s).quantities['geometry.bottom_cd'];
+    expect(r?.value).toBeNull();
+    expect(r?.reason).toMatch(/closes/);
+  });
+
   it('closes a tapered opening at D_c = (CD/2)·tan θ', () => {
     // 50 nm · tan 89° = 50 nm · 57.289962 = 2864.50 nm (hand; tan 89° from tables).
     expectRel(q(hole(), 'geometry.closure_depth'), 50 * nm * 57.289962, 7);
@@ -89,20 +106,35 @@ describe('taper: bottom CD and closure depth', () => {
     expect(r?.unbounded).toBeUndefined();
   });
 
-  it('reports no closure for a vertical opening: null, unbounded above', () => {
-    // tan 90° is infinite: a vertical wall never closes (the brief: null with a reason, never a fake large number).
-    const s = makeStructure('hole', { cd: 100 * nm, depth: 1 * um, sidewall_angle: deg(90) });
-    const r = evaluateStructure(s).quantities['geometry.closure_depth'];
-    expect(r).toBeDefined();
-    expect(r!.value).toBeNull();
-    expect(r!.unbounded).toBe('above');
-    expect(r!.reason).toBeTruthy();
+  it('reports no closure for a vertical or re-entrant opening: null, unbounded above', () => {
+    // tan 90° is infinite: a vertical wall never closes (the brief: null with a reason, never a fake
+    // large number); at 91° the opening widens downward (tan 91° < 0) and never closes either.
+    for (const angle of [90, 91]) {
+      const s = makeStructure('hole', { cd: 100 * nm, depth: 1 * um, sidewall_angle: deg(angle) });
+      const r = evaluateStructure(s).quantities['geometry.closure_depth'];
+      expect(r, `${angle}°`).toBeDefined();
+      expect(r!.value, `${angle}°`).toBeNull();
+      expect(r!.unbounded, `${angle}°`).toBe('above');
+      expect(r!.reason, `${angle}°`).toBeTruthy();
+    }
+  });
+
+  it('closes a wall one nanoradian from vertical far below: D_c = (CD/2)/tan ε ≈ CD/(2ε)', () => {
+    // θ = π/2 − ε with ε = π/2 − θ taken exactly in floating point (1.0000000827e-9 here);
+    // tan(π/2 − ε) = 1/tan ε = (1/ε)(1 − ε²/3 …), so D_c = 50 nm/ε ≈ 50.0 m (closed form). The
+    // rounding of π/2 itself (6e-17) moves this by 6e-8 relative, inside the 1e-6 checked.
+    const angle = Math.PI / 2 - 1e-9;
+    const eps = Math.PI / 2 - angle;
+    const s = makeStructure('hole', { cd: 100 * nm, depth: 1 * um, sidewall_angle: angle });
+    expectRel(q(s, 'geometry.closure_depth'), (50 * nm) / eps, 6);
   });
 
   it('does not apply closure depth to standing kinds', () => {
     for (const kind of ['pillar', 'cylinder', 'line'] as const) {
       const s = makeStructure(kind, { cd: 30 * nm, height: 1 * um, pitch: 60 * nm, sidewall_angle: deg(88), wall: 5 * nm, length: 1 * um }, { array: 'square' });
-      expect(buildPlan(s, 'geometry.closure_depth').status, kind).toBe('not-applicable');
+      const plan = buildPlan(s, 'geometry.closure_depth');
+      expect(plan.status, kind).toBe('not-applicable');
+      expect(plan.status === 'not-applicable' ? plan.reason : '', kind).toBeTruthy();
       expect(evaluateStructure(s).quantities['geometry.closure_depth'], kind).toBeUndefined();
     }
   });
@@ -253,12 +285,16 @@ describe('volumes and areas against numerical integration', () => {
     const s = makeStructure('cylinder', { cd: 30 * nm, height: 2 * um, pitch: 45 * nm, sidewall_angle: deg(90), wall: 5 * nm }, { array: 'hexagonal' });
     expectRel(q(s, 'geometry.volume'), (Math.PI / 4) * (900 * 2000 - 400 * 1995) * 1e-27, 9);
     expectRel(q(s, 'geometry.volume'), 7.86969e-22, 5);
+    // A volume is reported in m³ (SI: a length cubed).
+    expect(evaluateStructure(s).quantities['geometry.volume']?.unit).toBe('m^3');
   });
 
   it('vertical hollow cylinder sidewall area is the outer plus the inner face', () => {
     // π·30·2000 + π·20·1995 nm² = π·99,900 nm² = 3.13845e-13 m² (hand).
     const s = makeStructure('cylinder', { cd: 30 * nm, height: 2 * um, pitch: 45 * nm, sidewall_angle: deg(90), wall: 5 * nm }, { array: 'hexagonal' });
     expectRel(q(s, 'geometry.sidewall_area'), Math.PI * 99_900 * 1e-18, 9);
+    // An area is reported in m² (SI: a length squared).
+    expect(evaluateStructure(s).quantities['geometry.sidewall_area']?.unit).toBe('m^2');
   });
 
   // A strongly tapered cup, so any inconsistency in the cavity shape shows: top 100 nm, 1 µm tall,

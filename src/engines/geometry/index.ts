@@ -19,6 +19,7 @@ const VERTICAL_TOLERANCE = 1e-9;
 
 /** cot θ, exactly zero for a vertical wall (floating-point cos(π/2) is 6e-17, not 0). */
 export function cotangent(angle: number): number {
+  // Stryker disable next-line EqualityOperator: `<` and `<=` differ only if |θ − π/2| were exactly the double 1e-9; near π/2 that difference is exact and a multiple of 2⁻⁵², which 1e-9 is not.
   return Math.abs(angle - Math.PI / 2) < VERTICAL_TOLERANCE ? 0 : Math.cos(angle) / Math.sin(angle);
 }
 
@@ -50,6 +51,7 @@ export function cavity(cd: number, bottom: number, height: number, wall: number)
   if (top <= 0) return noValue('the wall is at least half the CD: the cylinder has no cavity');
   if (depth <= 0) return noValue('the wall is at least as thick as the cylinder is tall');
   const floor = bottom + ((cd - bottom) * wall) / height - 2 * wall;
+  // Stryker disable next-line EqualityOperator: at floor = 0 both branches give the same cup (bottom 0, depth·top/top = depth, to one rounding).
   if (floor > 0) return { top, bottom: floor, depth };
   // Linear narrowing from `top` at the rim to `floor` at `depth` reaches zero at depth·top/(top − floor).
   return { top, bottom: 0, depth: (depth * top) / (top - floor) };
@@ -139,8 +141,11 @@ const closureDepth: QuantityDef = {
       inputs: { cd: 'geometry.cd', angle: 'geometry.sidewall_angle' },
       symbols: { cd: '\\mathrm{CD}', angle: '\\theta' },
       formula: 'D_c = \\frac{\\mathrm{CD}}{2}\\tan\\theta',
-      compute: ({ cd, angle }) =>
-        angle >= Math.PI / 2 - VERTICAL_TOLERANCE ? noValue('vertical or re-entrant sidewalls never close', 'above') : (cd / 2) * Math.tan(angle),
+      // D_c = (CD/2)·tan θ = CD/(2 cot θ), with the same notion of "vertical" as the bottom CD.
+      compute: ({ cd, angle }) => {
+        const cot = cotangent(angle);
+        return cot <= 0 ? noValue('vertical or re-entrant sidewalls never close', 'above') : cd / (2 * cot);
+      },
     });
   },
 };
