@@ -6,7 +6,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { CAUTION, STATUS_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
+import { CAUTION, STATUS_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -35,7 +35,7 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
     const rule = h.rules.find((r) => r.id === v.rule)!;
     const word = v.status === 'fail' ? (v.severity === 'blocking' ? 'FAIL' : 'fail (advisory)') : STATUS_WORDS[v.status];
     // A value's reason can be a paragraph: the table says there is none, the reasons follow it.
-    const value = v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : v.value === null ? (v.unbounded ? `unbounded ${v.unbounded === 'above' ? '(+∞)' : '(−∞)'}` : 'no value (below)') : valuePhrase(v);
+    const value = v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : v.value === null && !v.unbounded ? 'no value (below)' : valueWord(v);
     rows.push([word, v.rule, v.structure, value, limitPhrase(rule, v.unit), formatMargin(v.margin)]);
   }
   const reasons = shown.filter((v) => v.status !== 'incomplete' && v.value === null && !v.unbounded).map((v) => `  ${v.rule} on ${v.structure}: ${v.reason ?? 'no value'}`);

@@ -47,8 +47,6 @@ export interface InputBlock {
   inputs: Record<string, ParamSpec>;
   fields?: Record<string, JsonSchema>;
   parts?: Record<string, InputPart>;
-  /** A `material` field of the block itself whose table values give these inputs (none so far). */
-  material?: readonly string[];
 }
 
 const ALL_KINDS: readonly Kind[] = ['hole', 'trench', 'via', 'pillar', 'cylinder', 'line'];
@@ -354,23 +352,4 @@ export const SHAPE_FACTS: {
 export function keysOf(b: { inputs: Record<string, unknown>; fields?: Record<string, unknown>; parts?: Record<string, unknown> }, aliases: Record<string, string> = {}): string[] {
   const inputs = Object.keys(b.inputs).flatMap((k) => (aliases[k] ? [k, aliases[k]] : [k]));
   return [...Object.keys(b.fields ?? {}), ...inputs, ...Object.keys(b.parts ?? {})];
-}
-
-/** The spec of a block input by its path (`etch.ion_angular_spread`, `deposition.liner.thickness`), if it is one. */
-export function blockInputSpec(path: string): ParamSpec | undefined {
-  const [key, a, b] = path.split('.');
-  const block = BLOCK_LIST.find((x) => x.key === key);
-  if (!block || a === undefined) return undefined;
-  if (block.form === 'list') return b !== undefined ? block.inputs[b] : undefined;
-  if (block.inputs[a]) return block.inputs[a];
-  for (const [name, part] of Object.entries(block.parts ?? {})) {
-    if (part.form === 'values') {
-      const [item, spec] = Object.entries(part.inputs)[0]!;
-      if (new RegExp(`^${item}_\\d+$`).test(a)) return spec;
-    } else if (part.form === 'list') {
-      const m = new RegExp(`^${name}_\\d+_(.+)$`).exec(a);
-      if (m) return part.inputs[m[1]!];
-    } else if (a.startsWith(`${name}_`)) return part.inputs[a.slice(name.length + 1)];
-  }
-  return undefined;
 }

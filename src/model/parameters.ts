@@ -2,8 +2,6 @@
 // to. The input blocks (etch, deposition, fill, ...) are declared in blocks.ts. The JSON Schemas and
 // the loader are both generated from these, so a new input is added in one place.
 
-import { blockInputSpec } from './blocks.ts';
-
 export interface ParamSpec {
   unit: string;
   description: string;
@@ -52,11 +50,3 @@ export const GEOMETRY_BY_KIND: Record<string, string[]> = {
   cylinder: ['cd', 'height', 'pitch', 'sidewall_angle', 'wall'],
   line: ['cd', 'height', 'pitch', 'sidewall_angle', 'length'],
 };
-
-/** The spec of any input path (`geometry.cd`, `materials.body.youngs_modulus`, `etch.ion_angular_spread`), or undefined. */
-export function paramSpecOf(path: string): ParamSpec | undefined {
-  const [block, a, b] = path.split('.');
-  if (block === 'geometry' && a) return GEOMETRY_PARAMS[a];
-  if (block === 'materials' && b) return MATERIAL_PROPERTIES[b];
-  return blockInputSpec(path);
-}

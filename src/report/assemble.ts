@@ -438,6 +438,9 @@ function worstWord(vs: Verdict[]): string {
 }
 
 /** Formula of each variant a quantity has, for the methods page: every kind with every array it can have. */
+/** The example shapes every quantity's methods-page formulas are found on (the same for all). */
+const EXAMPLE_SHAPES = exampleShapes();
+
 /**
  * Every formula a quantity has over the example shapes of every kind and block, each labelled by
  * where it applies: the kinds, and the block alternative when the formula differs from the base.
@@ -446,7 +449,7 @@ function variantsOf(name: string): Array<{ label: string; formulaHtml: string }>
   const q = QUANTITIES.get(name)!;
   const seen = new Map<string, { kinds: Set<string>; when: Set<string> }>();
   const baseFormula = new Map<string, string>();
-  for (const ex of exampleShapes()) {
+  for (const ex of EXAMPLE_SHAPES) {
     const v = q.variant(ex.shape);
     if (!('formula' in v)) continue;
     const where = isElongated(ex.kind) ? ex.kind : `${ex.kind} (${ex.array})`;

@@ -19,10 +19,14 @@ export function limitPhrase(rule: Pick<Rule, 'comparison' | 'limit'>, unit: stri
   return `${rule.comparison === 'at_least' ? '≥' : '≤'} ${formatValue(rule.limit, unit)}`;
 }
 
-export function valuePhrase(v: Pick<Verdict, 'value' | 'unit' | 'reason' | 'unbounded'>): string {
+/** A value in a few words: the number, "unbounded (+∞)" or "no value", without the reason. */
+export function valueWord(v: Pick<Verdict, 'value' | 'unit' | 'unbounded'>): string {
   if (v.value !== null) return formatValue(v.value, v.unit);
-  if (v.unbounded) return `unbounded ${v.unbounded === 'above' ? '(+∞)' : '(−∞)'}: ${v.reason ?? ''}`;
-  return `no value: ${v.reason ?? ''}`;
+  return v.unbounded ? `unbounded ${v.unbounded === 'above' ? '(+∞)' : '(−∞)'}` : 'no value';
+}
+
+export function valuePhrase(v: Pick<Verdict, 'value' | 'unit' | 'reason' | 'unbounded'>): string {
+  return v.value !== null ? valueWord(v) : `${valueWord(v)}: ${v.reason ?? ''}`;
 }
 
 export function originPhrase(o: ParamOrigin): string {
