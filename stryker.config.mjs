@@ -5,13 +5,15 @@
 /** @type {import('@stryker-mutator/api/core').PartialStrykerOptions} */
 export default {
   testRunner: 'vitest',
-  plugins: ['@stryker-mutator/vitest-runner'],
+  plugins: ['@stryker-mutator/vitest-runner', './test/mutation/prose-ignorer.mjs'],
   // Only the fast unit suites (no browser, history, site, CLI or corpus suites).
   vitest: { configFile: 'vitest.mutate.config.ts' },
   mutate: ['src/engines/**/*.ts', 'src/checker/**/*.ts'],
   // Strings here are prose and TeX (titles, sources, reasons, formulas shown on the pages), not
   // computation: the report's own tests read them. Every other mutator runs.
   mutator: { excludedMutations: ['StringLiteral'] },
+  // Nor are lists made only of strings (assumptions, reasons): test/mutation/prose-ignorer.mjs.
+  ignorers: ['prose'],
   // Each mutant runs only the tests that reached it in the first, instrumented run.
   coverageAnalysis: 'perTest',
   // Re-test only mutants whose code or covering tests changed since the last run.

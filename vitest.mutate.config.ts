@@ -11,6 +11,8 @@ export default mergeConfig(
   base,
   defineConfig({
     test: {
+      // A test file that fails to load counts as a failed test (see the reporter's header).
+      reporters: ['default', './test/mutation/load-failure-reporter.ts'],
       exclude: [
         ...configDefaults.exclude,
         'test/browser/**',

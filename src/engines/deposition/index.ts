@@ -253,7 +253,8 @@ const stepCoverage = stepQuantity(
       'The opening is taken as convex (every surface sees every other): exact for straight openings, and for profiles lined by films that thin with depth.',
     ],
     better: 'higher',
-    sweep: { input: () => 'geometry.depth', from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
+    // A cylinder's film lines its inside over its height; openings have a depth.
+    sweep: { input: (shape) => (shape.kind === 'cylinder' ? 'geometry.height' : 'geometry.depth'), from: 0.25, to: 2, axis: { label: 'aspect ratio', unit: '1', map: (depth, p) => depth / p['geometry.cd']! } },
   },
   undefined,
   (method, elongated) =>

@@ -1,0 +1,22 @@
+// A Stryker ignorer for mutation runs (stryker.config.mjs): a list made only of sentences is prose
+// (assumptions, reasons, sources shown on the methods pages), not computation. String literals are
+// already excluded from mutation; this leaves out emptying such a list (`[...]` → `[]`), for the
+// same reason. A list holding names or anything but sentences is mutated as usual.
+import { declareValuePlugin, PluginKind } from '@stryker-mutator/api/plugin';
+
+// Prose is words: a string with a space in it. A list of names (`['etch.open_rate']`) is data.
+const isProse = (node) =>
+  (node.type === 'StringLiteral' && /\s/.test(node.value)) ||
+  (node.type === 'TemplateLiteral' && node.quasis.some((q) => /\s/.test(q.value.cooked ?? '')));
+
+export const strykerPlugins = [
+  declareValuePlugin(PluginKind.Ignore, 'prose', {
+    shouldIgnore(path) {
+      const node = path.node;
+      if (node.type === 'ArrayExpression' && node.elements.length > 0 && node.elements.every((e) => e && isProse(e))) {
+        return 'a list of prose strings (string literals are not mutated either)';
+      }
+      return undefined;
+    },
+  }),
+];
