@@ -243,6 +243,7 @@ function ionInputs(etch: Recipe): Record<string, string> {
 }
 
 function ionOf(a: Record<string, number>): { rho: number; spread?: number } | undefined {
+  // Stryker disable next-line ConditionalExpression: a spread of undefined written out is read as no spread, as leaving it out is
   return a.rho === undefined ? undefined : { rho: a.rho, ...(a.spread !== undefined ? { spread: a.spread } : {}) };
 }
 
