@@ -12,7 +12,10 @@ import { COLE_TUBE, monotoneCubic, santelerTube, slotTransmission, tubeTransmiss
 import { bottomReactionMonteCarlo, depositionMonteCarlo, transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
 import { frontTransmission, rateRatio } from '../../src/engines/etch/index.ts';
 import { openingTransmission } from '../../src/engines/transport/index.ts';
-import { expectRel } from '../helpers.ts';
+import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { shapeOf } from '../../src/checker/plan.ts';
+import { QUANTITIES } from '../../src/engines/index.ts';
+import { expectRel, makeStructure } from '../helpers.ts';
 
 describe('round tube', () => {
   it('Santeler’s closed form stays within its stated 0.7 % of the table', () => {
@@ -149,5 +152,38 @@ describe('reacting walls (the Monte Carlo of film growth)', () => {
   it('accounts for every molecule: reacted on the walls, at the bottom, or escaped', () => {
     const mc = depositionMonteCarlo({ shape: 'tube', depth: 5, topWidth: 1, bottomWidth: 0.6 }, 0.05, 20_000, { bins: 5, seed: 39 });
     expect(mc.escaped + mc.reactedBottom + mc.reactedWall.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 12);
+  });
+});
+
+describe('the transmission quantity of a structure', () => {
+  const nm = 1e-9;
+  const deg = (d: number) => (d * Math.PI) / 180;
+  const transmission = QUANTITIES.get('transport.transmission')!;
+  const hole = (depth: number, angle = Math.PI / 2) => makeStructure('hole', { cd: 80 * nm, depth, pitch: 160 * nm, sidewall_angle: angle }, { array: 'square' });
+  it('counts a mask as more depth at the top CD: 600 nm under a 200 nm mask is Cole’s L/R = 20 (0.109304)', () => {
+    const s = hole(600 * nm);
+    s.params.set('etch.mask_thickness', { name: 'etch.mask_thickness', value: 200 * nm, unit: 'm', written: '200 nm', origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } });
+    for (const [k, v] of [['open_rate', 5e-9], ['reaction_probability', 0.2], ['time_budget', 600]] as const) s.params.set(`etch.${k}`, { name: `etch.${k}`, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } });
+    s.etch = { calibrationPoints: 0 };
+    expectRel(evaluateStructure(s).quantities['transport.transmission']?.value, 0.109304, 5);
+    const plain = transmission.variant(shapeOf(hole(600 * nm)));
+    expect('inputs' in plain && plain.inputs).not.toHaveProperty('mask');
+  });
+  it('does not apply to a standing pillar', () => {
+    const pillar = makeStructure('pillar', { cd: 40 * nm, height: 400 * nm, pitch: 100 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    expect(transmission.variant(shapeOf(pillar))).toHaveProperty('notApplicable');
+  });
+  it('has no value past the depth where a taper closes (40 nm·tan 80° = 226.85 nm), and 1 at no depth', () => {
+    expect(openingTransmission(false, 80 * nm, deg(80), 300 * nm, 0)).toMatchObject({ value: null });
+    expect(openingTransmission(false, 80 * nm, deg(80), 0, 0)).toBe(1);
+  });
+  it('flags the equal-conductance replacement once a taper narrows below half the top CD, or widens', () => {
+    // Bottom CD = CD − 2·D·cot θ: at 80° and D = CD it is 0.647 CD (holds), at D = 2 CD 0.295 CD (not).
+    const check = transmission.validity![0]!;
+    const holds = (a: Record<string, number>) => ('holds' in check ? check.holds(a) : false);
+    expect(holds({ cd: 1, angle: deg(80), depth: 1 })).toBe(true);
+    expect(holds({ cd: 1, angle: deg(80), depth: 2 })).toBe(false);
+    expect(holds({ cd: 1, angle: Math.PI / 2, depth: 50 })).toBe(true);
+    expect(holds({ cd: 1, angle: deg(91), depth: 1 })).toBe(false);
   });
 });
