@@ -77,12 +77,15 @@ export function makeRule(r: Partial<Rule> & Pick<Rule, 'quantity' | 'comparison'
  * A 10 µm copper via in isotropic silicon (E 120/130 GPa, ν 0.34/0.28, α 16.7/2.6 ppm/K; typical
  * values, [memory]), channels lightly doped (1e15 cm⁻³) at 300 K; `set` adds or replaces an input.
  */
+/** Add or replace an input of a structure, in SI, as if the handbook wrote it. */
+export function setParam(s: Structure, name: string, v: P): void {
+  const [value, low, high] = Array.isArray(v) ? v : [v, undefined, undefined];
+  s.params.set(name, { name, value, ...(low !== undefined ? { low, high } : {}), unit: '1', written: String(value), origin: { type: 'handbook', pos: POS } } satisfies Param);
+}
+
 export function copperVia(depth: P, dT: P): { s: Structure; set: (name: string, value: P) => void } {
   const s = makeStructure('via', { cd: 10 * um, depth }, { array: 'square' });
-  const set = (name: string, v: P) => {
-    const [value, low, high] = Array.isArray(v) ? v : [v, undefined, undefined];
-    s.params.set(name, { name, value, ...(low !== undefined ? { low, high } : {}), unit: '1', written: String(value), origin: { type: 'handbook', pos: POS } } satisfies Param);
-  };
+  const set = (name: string, v: P) => setParam(s, name, v);
   set('via.conductor_youngs_modulus', 120e9);
   set('via.conductor_poisson_ratio', 0.34);
   set('via.conductor_thermal_expansion', 16.7e-6);

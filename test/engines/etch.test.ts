@@ -10,9 +10,9 @@ import { depthAfter, etchEngine, fitReactionProbability, frontTransmission, ionT
 import { QUANTITIES } from '../../src/engines/index.ts';
 import { tubeTransmission } from '../../src/engines/transport/clausing.ts';
 import { shapeOf } from '../../src/checker/plan.ts';
-import type { Param, Structure } from '../../src/model/types.ts';
+import type { Structure } from '../../src/model/types.ts';
 import { seededRandom, transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
-import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, setParam, um } from '../helpers.ts';
 
 describe('Coburn–Winters rate ratio', () => {
   it('is the transmission itself when every molecule reacts (S = 1)', () => {
@@ -122,11 +122,18 @@ describe('calibration', () => {
 /** A hole with an etch block, in SI. */
 function etchedHole(geometry: Record<string, number>, etch: Record<string, number>, kind: 'hole' | 'trench' = 'hole'): Structure {
   const s = makeStructure(kind, geometry, kind === 'hole' ? { array: 'square' } : {});
-  const pos = { file: 'test', line: 1, column: 1 };
-  for (const [k, v] of Object.entries({ mask_thickness: 0, ...etch })) {
-    s.params.set(`etch.${k}`, { name: `etch.${k}`, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos } } satisfies Param);
-  }
+  for (const [k, v] of Object.entries({ mask_thickness: 0, ...etch })) setParam(s, `etch.${k}`, v);
   s.etch = { calibrationPoints: 0 };
+  return s;
+}
+
+/** Write measured (aspect ratio, rate) points into a structure's etch block. */
+function calibrate(s: Structure, points: Array<[number, number]>, ion?: { spread: boolean }): Structure {
+  points.forEach(([ar, rate], i) => {
+    setParam(s, `etch.calibration_${i + 1}_aspect_ratio`, ar);
+    setParam(s, `etch.calibration_${i + 1}_rate`, rate);
+  });
+  s.etch = { calibrationPoints: points.length, ...(ion ? { ion } : {}) };
   return s;
 }
 const value = (s: Structure, q: string) => evaluateStructure(s).quantities[q];
@@ -134,12 +141,7 @@ const value = (s: Structure, q: string) => evaluateStructure(s).quantities[q];
 describe('calibration the model cannot follow (regression: the fit was pinned at 1e-6 silently)', () => {
   const calibrated = (rates: [number, number]) => {
     const s = etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 });
-    const pos = { file: 'test', line: 1, column: 1 };
-    [[5, rates[0]], [20, rates[1]]].forEach(([ar, rate], i) => {
-      for (const [k, v] of [['aspect_ratio', ar], ['rate', rate]] as const) s.params.set(`etch.calibration_${i + 1}_${k}`, { name: `etch.calibration_${i + 1}_${k}`, value: v!, unit: '1', written: String(v), origin: { type: 'handbook', pos } } satisfies Param);
-    });
-    s.etch = { calibrationPoints: 2 };
-    return value(s, 'etch.fitted_reaction_probability')!;
+    return value(calibrate(s, [[5, rates[0]], [20, rates[1]]]), 'etch.fitted_reaction_probability')!;
   };
   it('has no fitted probability when a point is faster than the open field (6.67e-9 and 8.33e-9 m/s over 5e-9)', () => {
     expect(calibrated([400e-9 / 60, 500e-9 / 60]).value).toBeNull();
@@ -317,10 +319,8 @@ describe('depth after a time, in the interval where it lands', () => {
 
 /** An etched opening with its ion block: ρ and, if given, the angular spread. */
 function withIons(s: Structure, rho: number, spread?: number): Structure {
-  const pos = { file: 'test', line: 1, column: 1 };
-  const set = (k: string, v: number) => s.params.set(k, { name: k, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos } } satisfies Param);
-  set('etch.ion_neutral_to_ion_ratio', rho);
-  if (spread !== undefined) set('etch.ion_angular_spread', spread);
+  setParam(s, 'etch.ion_neutral_to_ion_ratio', rho);
+  if (spread !== undefined) setParam(s, 'etch.ion_angular_spread', spread);
   s.etch = { calibrationPoints: 0, ion: { spread: spread !== undefined } };
   return s;
 }
@@ -353,7 +353,7 @@ describe('ion-limited etching of a trench (ρ → ∞: the rate is the ion share
   });
   it('stops where 1 − (2/π)·AR·E[tan α] falls to the stop fraction', () => {
     const s = trench(600 * nm, 0);
-    s.params.set('etch.stop_fraction', { name: 'etch.stop_fraction', value: 0.9, unit: '1', written: '0.9', origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } });
+    setParam(s, 'etch.stop_fraction', 0.9);
     expectRel(value(s, 'etch.stop_aspect_ratio')?.value, (0.1 * Math.PI) / (2 * meanTan(sigma)), 7);
   });
   it('without an angular spread the ions all arrive: the rate is the open-field rate at any depth', () => {
@@ -497,17 +497,12 @@ describe('calibration, more closely', () => {
   });
   it('fits the calibration written on an ion-assisted trench (the structure’s own fitted quantity)', () => {
     const s = withIons(etchedHole({ cd: 100 * nm, depth: 1 * um, sidewall_angle: Math.PI / 2, pitch: 200 * nm, length: 10 * um }, { open_rate: er0, time_budget: 600, mask_thickness: 50 * nm }, 'trench'), 0.5, deg(2));
-    const pos = { file: 'test', line: 1, column: 1 };
-    [3, 6, 12].forEach((ar, i) => {
-      for (const [k, v] of [['aspect_ratio', ar], ['rate', forward(ar, 0.08)]] as const) s.params.set(`etch.calibration_${i + 1}_${k}`, { name: `etch.calibration_${i + 1}_${k}`, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos } });
-    });
-    s.etch = { calibrationPoints: 3, ion: { spread: true } };
+    calibrate(s, [3, 6, 12].map((ar) => [ar, forward(ar, 0.08)] as [number, number]), { spread: true });
     expectRel(value(s, 'etch.fitted_reaction_probability')?.value, 0.08, 6);
   });
 });
 
 describe('etch declarations on a structure', () => {
-  const pos = { file: 'test', line: 1, column: 1 };
   it('do not apply to a standing pillar', () => {
     const pillar = makeStructure('pillar', { cd: 40 * nm, height: 400 * nm, pitch: 100 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
     for (const q of etchEngine.quantities) expect(q.variant(shapeOf(pillar)), q.name).toHaveProperty('notApplicable');
@@ -522,11 +517,7 @@ describe('etch declarations on a structure', () => {
     expect(QUANTITIES.get('etch.fit_residual')!.variant(shapeOf(s))).toHaveProperty('notApplicable');
   });
   it('refuse a calibration with any point faster than the open field', () => {
-    const s = etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 });
-    [[5, 4e-9], [20, 6e-9]].forEach(([ar, rate], i) => {
-      for (const [k, v] of [['aspect_ratio', ar], ['rate', rate]] as const) s.params.set(`etch.calibration_${i + 1}_${k}`, { name: `etch.calibration_${i + 1}_${k}`, value: v!, unit: '1', written: String(v), origin: { type: 'handbook', pos } });
-    });
-    s.etch = { calibrationPoints: 2 };
+    const s = calibrate(etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 }), [[5, 4e-9], [20, 6e-9]]);
     expect(value(s, 'etch.fitted_reaction_probability')?.reason).toMatch(/above the open-field rate/);
   });
   it('chart the measured points over the rate curve as rate over open-field rate against aspect ratio', () => {
@@ -536,12 +527,8 @@ describe('etch declarations on a structure', () => {
     expectRel(sweep.axis!.map(1 * um, p), 10, 12);
   });
   it('fit the calibration residual on a calibrated structure: zero for points the model generated', () => {
-    const s = etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 });
     const rate = (k: number) => 5e-9 * (k / (k + 0.05 - k * 0.05));
-    [[5, rate(0.190941)], [20, rate(0.059422)]].forEach(([ar, r], i) => {
-      for (const [k, v] of [['aspect_ratio', ar], ['rate', r]] as const) s.params.set(`etch.calibration_${i + 1}_${k}`, { name: `etch.calibration_${i + 1}_${k}`, value: v!, unit: '1', written: String(v), origin: { type: 'handbook', pos } });
-    });
-    s.etch = { calibrationPoints: 2 };
+    const s = calibrate(etchedHole({ cd: 100 * nm, depth: 2000 * nm, sidewall_angle: Math.PI / 2 }, { open_rate: 5e-9, time_budget: 600 }), [[5, rate(0.190941)], [20, rate(0.059422)]]);
     expect(value(s, 'etch.fit_residual')?.value).toBeLessThan(1e-5);
   });
 });

@@ -15,7 +15,7 @@ import { openingTransmission } from '../../src/engines/transport/index.ts';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
 import { shapeOf } from '../../src/checker/plan.ts';
 import { QUANTITIES } from '../../src/engines/index.ts';
-import { expectRel, makeStructure } from '../helpers.ts';
+import { deg, expectRel, makeStructure, nm, setParam } from '../helpers.ts';
 
 describe('round tube', () => {
   it('Santeler’s closed form stays within its stated 0.7 % of the table', () => {
@@ -156,14 +156,11 @@ describe('reacting walls (the Monte Carlo of film growth)', () => {
 });
 
 describe('the transmission quantity of a structure', () => {
-  const nm = 1e-9;
-  const deg = (d: number) => (d * Math.PI) / 180;
   const transmission = QUANTITIES.get('transport.transmission')!;
   const hole = (depth: number, angle = Math.PI / 2) => makeStructure('hole', { cd: 80 * nm, depth, pitch: 160 * nm, sidewall_angle: angle }, { array: 'square' });
   it('counts a mask as more depth at the top CD: 600 nm under a 200 nm mask is Cole’s L/R = 20 (0.109304)', () => {
     const s = hole(600 * nm);
-    s.params.set('etch.mask_thickness', { name: 'etch.mask_thickness', value: 200 * nm, unit: 'm', written: '200 nm', origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } });
-    for (const [k, v] of [['open_rate', 5e-9], ['reaction_probability', 0.2], ['time_budget', 600]] as const) s.params.set(`etch.${k}`, { name: `etch.${k}`, value: v, unit: '1', written: String(v), origin: { type: 'handbook', pos: { file: 'test', line: 1, column: 1 } } });
+    for (const [k, v] of [['mask_thickness', 200 * nm], ['open_rate', 5e-9], ['reaction_probability', 0.2], ['time_budget', 600]] as const) setParam(s, `etch.${k}`, v);
     s.etch = { calibrationPoints: 0 };
     expectRel(evaluateStructure(s).quantities['transport.transmission']?.value, 0.109304, 5);
     const plain = transmission.variant(shapeOf(hole(600 * nm)));
