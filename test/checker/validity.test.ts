@@ -2,7 +2,7 @@
 // carry the flags a verdict page shows, and a worst corner names only inputs that decide it.
 // The via is the plane-strain copper via of the thermo-mechanical tests (Cu 120 GPa, ν 0.34,
 // 16.7 ppm/K in an isotropic silicon pair 130 GPa, ν 0.28, 2.6 ppm/K; values typical, [memory]).
-import { describe, expect, it } from 'vitest';
+import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { QUANTITIES } from '../../src/engines/index.ts';
 import { copperVia, makeRule, type P, um } from '../helpers.ts';
@@ -24,8 +24,14 @@ describe('validity flags in eval', () => {
   // suite); at the via edge an n-channel along ⟨100⟩ then shifts by |π₁₁ − π₁₂|·σ₀ ≈ 1.556e-9·3e8
   // ≈ 47 % (Smith 1954 coefficients), well past the 20 % the linear model is trusted to; at
   // ΔT = −10 K it shifts by about 1.6 %.
-  const large = evaluateStructure(via(-300)).quantities[name]!;
-  const small = evaluateStructure(via(-10)).quantities[name]!;
+  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
+  // load to no test).
+  let large!: NonNullable<ReturnType<typeof evaluateStructure>['quantities'][string]>;
+  let small!: typeof large;
+  beforeEach(() => {
+    large = evaluateStructure(via(-300)).quantities[name]!;
+    small = evaluateStructure(via(-10)).quantities[name]!;
+  });
   it('flags a mobility shift beyond the linear range even when no rule reads it', () => {
     expect(large.value!).toBeGreaterThan(0.2);
     expect(small.value!).toBeLessThan(0.2);

@@ -23,27 +23,30 @@ function reads(name: string, shape: Shape, found = new Set<string>(), visited = 
   return found;
 }
 
-const computable = exampleShapes().flatMap(({ shape }) =>
-  [...QUANTITIES.values()].flatMap((q) => {
-    const v = q.variant(shape);
-    return 'compute' in v ? [{ q, v, shape }] : [];
-  }),
-);
+// Built inside each test, not when the file loads: mutation testing attributes the engine code a
+// test runs to that test, and code run while the file loads to no test at all.
+const computable = () =>
+  exampleShapes().flatMap(({ shape }) =>
+    [...QUANTITIES.values()].flatMap((q) => {
+      const v = q.variant(shape);
+      return 'compute' in v ? [{ q, v, shape }] : [];
+    }),
+  );
 
 describe('quantity declarations, over every example shape', () => {
   it('reach a formula on some example shape for every quantity', () => {
-    const reached = new Set(computable.map(({ q }) => q.name));
+    const reached = new Set(computable().map(({ q }) => q.name));
     expect([...QUANTITIES.keys()].filter((n) => !reached.has(n))).toEqual([]);
   });
 
   it('give every argument of a formula a symbol', () => {
-    const bare = computable.flatMap(({ q, v }) => Object.keys(v.inputs).filter((k) => !v.symbols?.[k]).map((k) => `${q.name}: ${k}`));
+    const bare = computable().flatMap(({ q, v }) => Object.keys(v.inputs).filter((k) => !v.symbols?.[k]).map((k) => `${q.name}: ${k}`));
     expect([...new Set(bare)]).toEqual([]);
   });
 
   it('sweep charts over an input the value depends on', () => {
     const flat: string[] = [];
-    for (const { q, shape } of computable) {
+    for (const { q, shape } of computable()) {
       for (const sweep of [q.sweep, q.extraSweep]) {
         if (!sweep) continue;
         const input = sweep.input(shape);
@@ -55,7 +58,7 @@ describe('quantity declarations, over every example shape', () => {
 
   it('compare against curves that replace inputs the value reads, constants within range', () => {
     const wrong: string[] = [];
-    for (const { q, shape } of computable) {
+    for (const { q, shape } of computable()) {
       const companion = q.sweep?.companion;
       if (!companion) continue;
       const read = reads(q.name, shape);

@@ -14,7 +14,7 @@
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { aldExposureFactor, aldFlatExposure, arrival, aspectRatioOfFactor, AVOGADRO, BOLTZMANN, straightOpening, type Arrival } from '../../src/engines/deposition/models.ts';
@@ -260,7 +260,12 @@ describe('film steps of a structure', () => {
   const r = loadStructure(HOLE);
   if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
   const s = r.handbook.structures[0]!;
-  const q = evaluateStructure(s).quantities;
+  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
+  // load to no test).
+  let q!: ReturnType<typeof evaluateStructure>['quantities'];
+  beforeEach(() => {
+    q = evaluateStructure(s).quantities;
+  });
 
   it('gives the ALD margin of the format example: 1 Pa·s against Gordon’s 0.9989 Pa·s at a = 40', () => {
     // Flat dose 3.855e-4 Pa·s (above) × (1 + 190 + 2400) = 0.99886 Pa·s (hand).

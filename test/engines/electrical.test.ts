@@ -9,7 +9,7 @@
 //   integral averaged over the pairs of points of its cross-section;
 // - common practice: a stacked cylinder node about 30 nm across and 2 µm tall (aspect ratio about
 //   66) holds roughly 15 fF, so a 100 fF bit line still sees about 150 mV from a 1 V swing.
-import { describe, expect, it } from 'vitest';
+import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
 import { depletionRadius, inversionPotential, surfaceCapacitances } from '../../src/engines/electrical/index.ts';
 import { solveTridiagonal } from '../../src/engines/numeric.ts';
@@ -153,7 +153,12 @@ describe('a dielectric that leaves no room for the plate electrode (regression: 
 
 describe('the signal of a cell (outer wall only, vertical, 36 nm, 1.5 µm, k = 40, 5 nm; 80 fF bit line, 1.2 V, half precharge)', () => {
   // C_s = 5.563250e-11 · 40 · 1.5e-6 / ln(23/18) = 3.337950e-15 / 0.2451225 = 13.6175 fF (hand).
-  const q = quantities(cellNode(1.5 * um, ['outer']));
+  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
+  // load to no test).
+  let q!: ReturnType<typeof quantities>;
+  beforeEach(() => {
+    q = quantities(cellNode(1.5 * um, ['outer']));
+  });
   it('holds 13.6175 fF', () => {
     expectRel(q['electrical.storage_capacitance']?.value, 13.6175e-15, 4);
   });
@@ -232,7 +237,10 @@ function neumannInductance(l: number, R: number): number {
 }
 
 describe('via parasitics (6 µm hole, 60 µm deep, vertical)', () => {
-  const q = quantities(via(6 * um, 60 * um, 90, 300 * nm, 1e21));
+  let q!: ReturnType<typeof quantities>;
+  beforeEach(() => {
+    q = quantities(via(6 * um, 60 * um, 90, 300 * nm, 1e21));
+  });
 
   it('resistance, oxide-only liner capacitance and RC (hand values)', () => {
     // R = 1.72e-8 · 60e-6 / (π · (2.7e-6)²) = 1.032e-12 / 2.290221e-11 = 45.061 mΩ;

@@ -7,7 +7,7 @@
 import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
 import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { marchFill, SEAM_WIDTH_DEFAULT } from '../../src/engines/deposition/fill.ts';
@@ -66,7 +66,12 @@ describe('trapped width and the seam width that makes a gap a void', () => {
   // A trench re-entrant by 1 nm over 1 µm: 100 nm at the top, 101 nm at the bottom, 200 slices of
   // 5 nm. The mouth slice (100.0025 nm) closes after 50 nm of growth; the bottom has risen to 950 nm,
   // so the deepest open slice is centred at 947.5 nm (100.9475 nm): a 0.945 nm gap is trapped (hand).
-  const opening = straightOpening(true, 1000e-9, 100e-9, 101e-9);
+  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
+  // load to no test).
+  let opening!: ReturnType<typeof straightOpening>;
+  beforeEach(() => {
+    opening = straightOpening(true, 1000e-9, 100e-9, 101e-9);
+  });
 
   it('is a seam below the default seam width of 1 nm, a void of slices 1…189 (945 nm) below a 0.5 nm one', () => {
     const seam = marchFill({ opening, method: 'conformal' });

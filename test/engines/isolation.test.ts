@@ -11,6 +11,8 @@ import { describe, expect, it } from 'vitest';
 import { evaluateStructure } from '../../src/checker/evaluate.ts';
 import { EPS_SI, EPSILON_0 } from '../../src/engines/electrical/index.ts';
 import { builtIn, depletionWidth } from '../../src/engines/electrical/isolation.ts';
+import { QUANTITIES } from '../../src/engines/index.ts';
+import { shapeOf } from '../../src/checker/plan.ts';
 import { solveTridiagonal } from '../../src/engines/numeric.ts';
 import type { Param } from '../../src/model/types.ts';
 import { expectRel, makeStructure, nm } from '../helpers.ts';
@@ -154,5 +156,33 @@ describe('punch-through margin of an isolation trench', () => {
     expect(m).toBeGreaterThan(0.95);
     expect(m).toBeLessThan(1.05);
     expectRel(m, 459 / 451.275, 4);
+  });
+});
+
+describe('where the isolation quantities apply', () => {
+  const names = ['isolation.field_in_fill', 'isolation.breakdown_margin', 'isolation.leakage_path', 'isolation.punchthrough_margin'];
+  it('only to trenches, and a trench without an isolation block is incomplete for want of it', () => {
+    const hole = makeStructure('hole', { cd: 25 * nm, depth: 217 * nm, pitch: 64 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    const trench = makeStructure('trench', { cd: 25 * nm, depth: 217 * nm, pitch: 64 * nm, sidewall_angle: Math.PI / 2 });
+    for (const name of names) {
+      const q = QUANTITIES.get(name)!;
+      expect(q.variant(shapeOf(hole)), name).toHaveProperty('notApplicable');
+      expect(q.variant(shapeOf(trench)), name).toEqual({ incomplete: ['isolation'] });
+      trench.isolation = true;
+      expect(q.variant(shapeOf(trench)), name).toHaveProperty('compute');
+      delete trench.isolation;
+    }
+  });
+
+  it('has no punch-through value in a well too lightly doped for the junction model', () => {
+    // V_bi = (kT/q)·ln(N·N⁺/n_i²) ≤ 2kT/q once N ≤ e²·n_i²/N⁺ = 7.389 · 9.312e31 / 1e26 = 6.9e6 m⁻³
+    // (hand): at 1e6 m⁻³ ln(1.074) = 0.071 < 2; at 1e8 m⁻³ ln(107.4) = 4.68 > 2.
+    const q = QUANTITIES.get('isolation.punchthrough_margin')!;
+    const trench = makeStructure('trench', { cd: 25 * nm, depth: 217 * nm, pitch: 64 * nm, sidewall_angle: Math.PI / 2 });
+    trench.isolation = true;
+    const v = q.variant(shapeOf(trench));
+    if (!('compute' in v)) throw new Error('expected a formula');
+    expect(v.compute({ path: 459 * nm, n: 1e6, v: 0 })).toMatchObject({ value: null });
+    expect(v.compute({ path: 459 * nm, n: 1e8, v: 0 })).toBeTypeOf('number');
   });
 });

@@ -15,7 +15,7 @@
 // - Stoney's equation evaluated by hand (no textbook worked example was reachable);
 // - the keep-out radius against the mobility map it is solved from.
 import { loadHandbook } from '../../src/pipeline.ts';
-import { describe, expect, it } from 'vitest';
+import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { freeSlidingProtrusion, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 
@@ -239,7 +239,12 @@ describe('keep-out radius and bow of a via structure', () => {
   set('wafer.thickness', 775e-6);
   set('wafer.diameter', 0.3);
   set('wafer.bow_limit', 50e-6);
-  const q = evaluateStructure(s).quantities;
+  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
+  // load to no test).
+  let q!: ReturnType<typeof evaluateStructure>['quantities'];
+  beforeEach(() => {
+    q = evaluateStructure(s).quantities;
+  });
 
   it('puts the keep-out circle where the mobility map, rotated around the via, reaches the threshold', () => {
     // Map: σ_rr = σ₀(a/r)², σ_θθ = −σ_rr; for a channel along x at polar angle φ, σ_L = σ_xx =

@@ -5,10 +5,16 @@
 // - Knudsen's long-tube limit W → 8R/(3L);
 // - an independent method: the seeded test-particle Monte Carlo, within its statistical error;
 // - the slot table (our Nyström solution of Clausing's equation) against the Monte Carlo.
+// - the numerical pieces (monotone interpolation, the dense solver, the Nyström solution, the
+//   branches below and beyond the tables): hand calculations shown beside each check, Fritsch &
+//   Carlson's monotonicity condition (SIAM J. Numer. Anal. 17, 238 (1980)) on their own test data
+//   (as recalled from that paper: the values are only used as a monotone data set), the short-opening
+//   limit W ≈ 1 − l/2 (half the molecules that strike a short wall go on; from memory), and the
+//   Monte Carlo again for the Nyström solver itself.
 // - for the Monte Carlo with reacting walls: Cole's value again, and the slot's line-of-sight view
 //   factors (parallel strips, strip to wall) worked by hand.
 import { describe, expect, it } from 'vitest';
-import { COLE_TUBE, monotoneCubic, santelerTube, slotTransmission, tubeTransmission } from '../../src/engines/transport/clausing.ts';
+import { COLE_TUBE, monotoneCubic, santelerTube, slotTransmission, slotTransmissionNystrom, solveDense, tubeTransmission } from '../../src/engines/transport/clausing.ts';
 import { bottomReactionMonteCarlo, depositionMonteCarlo, transmissionMonteCarlo } from '../../src/engines/transport/montecarlo.ts';
 import { frontTransmission, rateRatio } from '../../src/engines/etch/index.ts';
 import { openingTransmission } from '../../src/engines/transport/index.ts';
@@ -182,5 +188,101 @@ describe('the transmission quantity of a structure', () => {
     expect(holds({ cd: 1, angle: deg(80), depth: 2 })).toBe(false);
     expect(holds({ cd: 1, angle: Math.PI / 2, depth: 50 })).toBe(true);
     expect(holds({ cd: 1, angle: deg(91), depth: 1 })).toBe(false);
+  });
+});
+
+describe('the numerical pieces of the transmission', () => {
+  it('monotone cubic: a hand-worked Hermite segment, the knots themselves, and constants outside the data', () => {
+    // (0,0), (1,1), (2,4): secants 1 and 3, slopes m = [1, 2, 3] (ends take the end secants, the middle
+    // their mean; no limiting since (m/d)² sums stay below 9). At x = 0.5 (t = ½): h00 = h01 = ½,
+    // h10 = ⅛, h11 = −⅛ → 0·½ + ⅛·1 + 1·½ − ⅛·2 = 0.375; at 1.5: ½ + ⅛·2 + 4·½ − ⅛·3 = 2.375.
+    const f = monotoneCubic([0, 1, 2], [0, 1, 4]);
+    expect(f(0.5)).toBeCloseTo(0.375, 14);
+    expect(f(1.5)).toBeCloseTo(2.375, 14);
+    expect(f(1)).toBe(1);
+    expect(f(-3)).toBe(0);
+    expect(f(7)).toBe(4);
+    // A linear data set is reproduced exactly between its knots.
+    const line = monotoneCubic([0, 1, 3, 4], [1, 3, 7, 9]);
+    for (const x of [0.25, 2, 3.7]) expect(line(x)).toBeCloseTo(1 + 2 * x, 14);
+  });
+
+  it('monotone cubic: flat stretches stay flat and a local extremum gets a zero slope', () => {
+    // Data with a plateau: 0, 1, 1, 2. Between the equal values the curve is exactly 1.
+    const plateau = monotoneCubic([0, 1, 2, 3], [0, 1, 1, 2]);
+    for (const x of [1.1, 1.5, 1.9]) expect(plateau(x)).toBe(1);
+    // A peak at x = 1 (0, 1, 0): zero slope there and the end secants ±1 at the ends, so at t = ½
+    // f = h10·1 + h01·1 = ⅛ + ½ = 0.625 on both sides.
+    const peak = monotoneCubic([0, 1, 2], [0, 1, 0]);
+    expect(peak(0.5)).toBeCloseTo(0.625, 14);
+    expect(peak(1.5)).toBeCloseTo(0.625, 14);
+  });
+
+  it('monotone cubic: the Fritsch–Carlson limiter keeps monotone data monotone where plain averaged slopes overshoot', () => {
+    // A step: 0, 0.1, 1, 1.1 at x = 0…3. Averaged slopes give m = [0.1, 0.5, 0.5, 0.1]; on the first
+    // segment (m/d)² sums to 1 + 25 = 26 > 9, so both slopes are scaled by 3/√26: m₀ = 0.0588,
+    // m₁ = 0.2942. At t = ½ the segment value is ½·0.1 − ⅛·(0.0588 − 0.2942)·… worked out:
+    // 0.05 + ⅛·0.05883 − ⅛·0.29417 = 0.020583.
+    const step = monotoneCubic([0, 1, 2, 3], [0, 0.1, 1, 1.1]);
+    expect(step(0.5)).toBeCloseTo(0.05 + (0.3 / Math.sqrt(26) - 1.5 / Math.sqrt(26)) / 8, 12);
+    // Fritsch & Carlson's monotone test data: sampled densely, never decreases.
+    const xs = [7.99, 8.09, 8.19, 8.7, 9.2, 10, 12, 15, 20];
+    const ys = [0, 2.76429e-5, 4.37498e-2, 0.169183, 0.469428, 0.94374, 0.998636, 0.999919, 0.999994];
+    const g = monotoneCubic(xs, ys);
+    let last = -Infinity;
+    for (let x = 7.99; x <= 20; x += 0.005) {
+      const y = g(x);
+      expect(y, `x = ${x.toFixed(3)}`).toBeGreaterThanOrEqual(last - 1e-15);
+      expect(y).toBeLessThanOrEqual(1);
+      last = y;
+    }
+  });
+
+  it('the dense solver pivots: a system with a zero leading entry, solved by hand', () => {
+    // [0 2 1; 1 1 1; 2 1 3]·x = [5 4 7] has x = [1 2 1]: 0 + 4 + 1 = 5, 1 + 2 + 1 = 4, 2 + 2 + 3 = 7.
+    const x = solveDense(Float64Array.from([0, 2, 1, 1, 1, 1, 2, 1, 3]), Float64Array.from([5, 4, 7]), 3);
+    expect([...x]).toEqual([expect.closeTo(1, 13), expect.closeTo(2, 13), expect.closeTo(1, 13)]);
+    // Without row exchanges a tiny pivot ruins the answer: [1e-20 1; 1 1]·x = [1 2] → x ≈ [1, 1].
+    const y = solveDense(Float64Array.from([1e-20, 1, 1, 1]), Float64Array.from([1, 2]), 2);
+    expect([...y]).toEqual([expect.closeTo(1, 12), expect.closeTo(1, 12)]);
+  });
+
+  it('the Nyström solution of Clausing’s slot equation agrees with the test-particle Monte Carlo', () => {
+    for (const [l, seed] of [[0.7, 51], [3, 53]] as const) {
+      const mc = transmissionMonteCarlo({ shape: 'slot', depth: l, topWidth: 1, bottomWidth: 1 }, 60_000, seed);
+      expect(Math.abs(mc.value - slotTransmissionNystrom(l)), `L/w = ${l}`).toBeLessThan(3 * mc.sigma);
+      // Its mesh is converged: a coarser one changes the answer by less than 1e-6.
+      expect(Math.abs(slotTransmissionNystrom(l, 1) - slotTransmissionNystrom(l))).toBeLessThan(1e-6);
+    }
+    expect(slotTransmissionNystrom(0)).toBe(1);
+  });
+
+  it('short openings transmit about 1 − l/2, below the tables’ first rows; no length transmits everything', () => {
+    // To first order half the molecules that strike a short wall go on down; the next term is of
+    // order l²·ln(1/l) in a slot (the strip-to-wall view factor has a logarithm), l² in a tube.
+    for (const l of [0.001, 0.01, 0.03]) {
+      expect(Math.abs(slotTransmission(l) - (1 - l / 2)), `slot L/w = ${l}`).toBeLessThan(l * l * Math.log(1 / l));
+      if (l >= 0.01) expect(Math.abs(tubeTransmission(l) - (1 - l / 2)), `tube L/R = ${l}`).toBeLessThan(l * l);
+    }
+    // The tube's extension below Cole's first row meets it there.
+    expect(tubeTransmission(0.1 - 1e-9)).toBeCloseTo(0.952399, 6);
+    expect(tubeTransmission(0)).toBe(1);
+    expect(slotTransmission(0)).toBe(1);
+  });
+
+  it('long openings beyond the tables: the slot keeps (ln l + c)/l with c > 0, the tube relaxes onto Cole’s last row and Knudsen', () => {
+    for (const l of [1000, 3000]) {
+      const ratio = (slotTransmission(l) * l) / Math.log(l);
+      expect(ratio, `L/w = ${l}`).toBeGreaterThan(1);
+      expect(ratio, `L/w = ${l}`).toBeLessThan(1.03);
+    }
+    // Cole's L/R = 1000: 0.002646; just beyond it the extension starts from that value.
+    expect(tubeTransmission(1000)).toBeCloseTo(0.002646, 6);
+    expectRel(tubeTransmission(1000.001), 0.002646, 4);
+    // At L/R = 3000 the table's 0.26 % shortfall below Knudsen shrinks as 1/l to a third.
+    const shortfall = (l: number) => 1 - tubeTransmission(l) / santelerTube(l);
+    expect(shortfall(3000) / shortfall(1000)).toBeCloseTo(1 / 3, 6);
+    expect(tubeTransmission(3000) / (8 / (3 * 3000))).toBeGreaterThan(0.99);
+    expect(tubeTransmission(3000) / (8 / (3 * 3000))).toBeLessThan(1);
   });
 });

@@ -41,6 +41,14 @@ describe('the prose ignorer', () => {
   it('leaves lists of sentences unmutated', () => {
     expect(ignorer.shouldIgnore(list(text('Neutral-limited etching; the walls do not react.')))).toBeTypeOf('string');
   });
+  it('leaves a quantity’s assumptions alone, shared prose constants included, but no other mixed list', () => {
+    const facts = { type: 'Identifier', name: 'SILICON_FACTS' };
+    const node = { type: 'ArrayExpression', elements: [text('Uniform well doping.'), facts] };
+    const under = (name: string) => ({ node, parent: { type: 'ObjectProperty', key: { type: 'Identifier', name }, value: node } });
+    expect(ignorer.shouldIgnore(under('assumptions'))).toBeTypeOf('string');
+    expect(ignorer.shouldIgnore(under('inputs'))).toBeUndefined();
+    expect(ignorer.shouldIgnore({ node })).toBeUndefined();
+  });
   it('mutates lists of names, numbers and empty lists as usual', () => {
     expect(ignorer.shouldIgnore(list(text('etch.open_rate')))).toBeUndefined();
     expect(ignorer.shouldIgnore(list({ type: 'NumericLiteral', value: 1 }))).toBeUndefined();

@@ -115,6 +115,7 @@ const punchthroughMargin: QuantityDef = {
       symbols: SYMBOLS,
       formula: '\\frac{L_p}{W(V) + W(0)},\\;\\; W(V) = \\sqrt{\\frac{2\\varepsilon_{Si} N^+ (V_{bi} + V - 2k_BT/q)}{qN(N + N^+)}},\\;\\; V_{bi} = \\frac{k_BT}{q}\\ln\\frac{N N^+}{n_i^2}',
       compute: ({ path, n, v }) => {
+        // Stryker disable next-line EqualityOperator: `< 0` differs only at a potential of exactly zero, one irrational doping
         if (depletedPotential(n, 0) <= 0) return noValue('the well doping is too low for the junction model');
         return path / (depletionWidth(n, v) + depletionWidth(n, 0));
       },

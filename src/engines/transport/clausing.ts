@@ -85,12 +85,17 @@ const tubeRatio = monotoneCubic(
   COLE_TUBE.map(([l, w]) => w / santelerTube(l)),
 );
 
+const [TUBE_FIRST_L, TUBE_FIRST_W] = COLE_TUBE[0]!;
+const TUBE_FIRST_RATIO = TUBE_FIRST_W / santelerTube(TUBE_FIRST_L);
 const [TUBE_LAST_L, TUBE_LAST_W] = COLE_TUBE[COLE_TUBE.length - 1]!;
 const TUBE_LAST_RATIO = TUBE_LAST_W / santelerTube(TUBE_LAST_L);
 
 /** Transmission probability of a round tube of length L and radius R, as a function of l = L/R. */
 export function tubeTransmission(l: number): number {
   if (l <= 0) return 1;
+  // Below the table the ratio goes linearly to 1 at l = 0, where Santeler's form is exact
+  // (W → 1 − l/2): holding it at the first row's value would leave W short of 1 by 1.5e-4 at l → 0.
+  if (l < TUBE_FIRST_L) return santelerTube(l) * (1 + ((TUBE_FIRST_RATIO - 1) * l) / TUBE_FIRST_L);
   if (l > TUBE_LAST_L) {
     // Beyond the table the ratio relaxes to 1 as 1/l, so the result tends to Knudsen's 8R/(3L).
     return santelerTube(l) * (1 - ((1 - TUBE_LAST_RATIO) * TUBE_LAST_L) / l);
@@ -101,7 +106,7 @@ export function tubeTransmission(l: number): number {
 // ── Slot: Clausing's integral equation ───────────────────────────────────────────────────────
 
 /** Solve A·u = b in place by Gaussian elimination with partial pivoting (A row-major, n×n). */
-function solveDense(a: Float64Array, b: Float64Array, n: number): Float64Array {
+export function solveDense(a: Float64Array, b: Float64Array, n: number): Float64Array {
   for (let k = 0; k < n; k++) {
     let p = k;
     for (let i = k + 1; i < n; i++) if (Math.abs(a[i * n + k]!) > Math.abs(a[p * n + k]!)) p = i;
@@ -171,7 +176,7 @@ const slotLog = monotoneCubic(
   SLOT_TABLE.map(([l]) => Math.log(l)),
   SLOT_TABLE.map(([, w]) => Math.log(w)),
 );
-const [SLOT_FIRST_L, SLOT_FIRST_W] = SLOT_TABLE[0]!;
+const [SLOT_FIRST_L] = SLOT_TABLE[0]!;
 const [SLOT_LAST_L, SLOT_LAST_W] = SLOT_TABLE[SLOT_TABLE.length - 1]!;
 // Beyond the table the long-slot form W = (ln l + c)/l, with c matched at the table's end.
 const SLOT_TAIL_C = SLOT_LAST_W * SLOT_LAST_L - Math.log(SLOT_LAST_L);
@@ -179,7 +184,8 @@ const SLOT_TAIL_C = SLOT_LAST_W * SLOT_LAST_L - Math.log(SLOT_LAST_L);
 /** Transmission probability of a long slot of width w and depth L, as a function of l = L/w. */
 export function slotTransmission(l: number): number {
   if (l <= 0) return 1;
-  if (l < SLOT_FIRST_L) return 1 - ((1 - SLOT_FIRST_W) * l) / SLOT_FIRST_L;
+  // Below the table the Nyström solve itself is cheap (two panels, twelve points).
+  if (l < SLOT_FIRST_L) return slotTransmissionNystrom(l);
   if (l > SLOT_LAST_L) return (Math.log(l) + SLOT_TAIL_C) / l;
   return Math.exp(slotLog(Math.log(l)));
 }
