@@ -15,7 +15,3 @@ export const ENGINES: readonly Engine[] = [geometryEngine, transportEngine, etch
 export const QUANTITIES: ReadonlyMap<string, QuantityDef> = new Map(
   ENGINES.flatMap((e) => e.quantities.map((q) => [q.name, q] as const)),
 );
-
-export function engineOf(quantityName: string): Engine | undefined {
-  return ENGINES.find((e) => quantityName.startsWith(`${e.id}.`));
-}
