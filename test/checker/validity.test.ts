@@ -24,8 +24,7 @@ describe('validity flags in eval', () => {
   // suite); at the via edge an n-channel along ⟨100⟩ then shifts by |π₁₁ − π₁₂|·σ₀ ≈ 1.556e-9·3e8
   // ≈ 47 % (Smith 1954 coefficients), well past the 20 % the linear model is trusted to; at
   // ΔT = −10 K it shifts by about 1.6 %.
-  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
-  // load to no test).
+  // Before each test, not at load (DEVELOPERS.md, "Mutation testing").
   let large!: NonNullable<ReturnType<typeof evaluateStructure>['quantities'][string]>;
   let small!: typeof large;
   beforeEach(() => {

@@ -260,8 +260,7 @@ describe('film steps of a structure', () => {
   const r = loadStructure(HOLE);
   if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
   const s = r.handbook.structures[0]!;
-  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
-  // load to no test).
+  // Before each test, not at load (DEVELOPERS.md, "Mutation testing").
   let q!: ReturnType<typeof evaluateStructure>['quantities'];
   beforeEach(() => {
     q = evaluateStructure(s).quantities;

@@ -153,8 +153,7 @@ describe('a dielectric that leaves no room for the plate electrode (regression: 
 
 describe('the signal of a cell (outer wall only, vertical, 36 nm, 1.5 µm, k = 40, 5 nm; 80 fF bit line, 1.2 V, half precharge)', () => {
   // C_s = 5.563250e-11 · 40 · 1.5e-6 / ln(23/18) = 3.337950e-15 / 0.2451225 = 13.6175 fF (hand).
-  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
-  // load to no test).
+  // Before each test, not at load (DEVELOPERS.md, "Mutation testing").
   let q!: ReturnType<typeof quantities>;
   beforeEach(() => {
     q = quantities(cellNode(1.5 * um, ['outer']));

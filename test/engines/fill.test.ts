@@ -66,8 +66,7 @@ describe('trapped width and the seam width that makes a gap a void', () => {
   // A trench re-entrant by 1 nm over 1 µm: 100 nm at the top, 101 nm at the bottom, 200 slices of
   // 5 nm. The mouth slice (100.0025 nm) closes after 50 nm of growth; the bottom has risen to 950 nm,
   // so the deepest open slice is centred at 947.5 nm (100.9475 nm): a 0.945 nm gap is trapped (hand).
-  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
-  // load to no test).
+  // Before each test, not at load (DEVELOPERS.md, "Mutation testing").
   let opening!: ReturnType<typeof straightOpening>;
   beforeEach(() => {
     opening = straightOpening(true, 1000e-9, 100e-9, 101e-9);

@@ -41,10 +41,9 @@ describe('Gauss–Legendre rules', () => {
     }
   });
 
-  it('gives the same rule on a second call (the cache hands back what it computed)', () => {
-    const first = gaussLegendre(7);
-    expect(gaussLegendre(7).x).toEqual(first.x);
-    expect(first.x.reduce((s, _, i) => s + first.w[i]!, 0)).toBeCloseTo(2, 14);
+  it('has weights that sum to 2, the length of [−1, 1]', () => {
+    const { w } = gaussLegendre(7);
+    expect(w.reduce((s, wi) => s + wi, 0)).toBeCloseTo(2, 14);
   });
 });
 

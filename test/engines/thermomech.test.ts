@@ -239,8 +239,7 @@ describe('keep-out radius and bow of a via structure', () => {
   set('wafer.thickness', 775e-6);
   set('wafer.diameter', 0.3);
   set('wafer.bow_limit', 50e-6);
-  // Evaluated before each test, not when the file loads (mutation testing attributes code run at
-  // load to no test).
+  // Before each test, not at load (DEVELOPERS.md, "Mutation testing").
   let q!: ReturnType<typeof evaluateStructure>['quantities'];
   beforeEach(() => {
     q = evaluateStructure(s).quantities;
