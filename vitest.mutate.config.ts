@@ -13,6 +13,8 @@ export default mergeConfig(
     test: {
       // A test file that fails to load counts as a failed test (see the reporter's header).
       reporters: ['default', './test/mutation/load-failure-reporter.ts'],
+      // Engine memo tables start empty in every test (see the file's header).
+      setupFiles: ['./test/mutation/forget-memos.ts'],
       exclude: [
         ...configDefaults.exclude,
         'test/browser/**',

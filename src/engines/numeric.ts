@@ -1,12 +1,15 @@
 // Numerical tools shared by engines: Gauss–Legendre quadrature.
 
-const cache = new Map<number, { x: number[]; w: number[] }>();
+import { memoTable } from './memo.ts';
 
-/** Gauss–Legendre nodes and weights on [−1, 1] (Newton iteration on Pₙ). */
+const rules = memoTable<number, { x: number[]; w: number[] }>(64);
+
+/** Gauss–Legendre nodes and weights on [−1, 1] (Newton iteration on Pₙ), computed once per n. */
 export function gaussLegendre(n: number): { x: number[]; w: number[] } {
-  const hit = cache.get(n);
-  // Stryker disable next-line ConditionalExpression: without the cache the same rule is computed again (speed only)
-  if (hit) return hit;
+  return rules.get(n, () => legendreRule(n));
+}
+
+function legendreRule(n: number): { x: number[]; w: number[] } {
   const x: number[] = [];
   const w: number[] = [];
   for (let i = 1; i <= n; i++) {
@@ -30,9 +33,7 @@ export function gaussLegendre(n: number): { x: number[]; w: number[] } {
     x.push(z);
     w.push(2 / ((1 - z * z) * dp * dp));
   }
-  const rule = { x, w };
-  cache.set(n, rule);
-  return rule;
+  return { x, w };
 }
 
 /** ∫ₐᵇ f by 12-point Gauss–Legendre on `panels` equal panels. */

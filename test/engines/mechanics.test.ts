@@ -23,9 +23,11 @@
 import { loadHandbook } from '../../src/pipeline.ts';
 import { describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { factorBeam, meshBeam, sectionAt, uniformLoad } from '../../src/engines/mechanics/beam.ts';
+import { factorBeam, maxDeflection, meshBeam, peakStress, sectionAt, uniformLoad } from '../../src/engines/mechanics/beam.ts';
 
 import { MemorySource } from '../../src/model/memory-source.ts';
+import { QUANTITIES } from '../../src/engines/index.ts';
+import { shapeOf } from '../../src/checker/plan.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
 import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
 import { plateModulusAlong, youngsAlong } from './anisotropic-silicon.ts';
@@ -206,6 +208,128 @@ describe('finite-element body', () => {
   });
 });
 
+describe('finite-element body: loads, moments, stresses and the mesh', () => {
+  const tip = (model: { z: number[] }) => 2 * (model.z.length - 1);
+
+  it('turns a moment at the free top into rotation M·L/EI and deflection M·L²/(2EI) (Roark Table 8.1, case 3a)', () => {
+    const { model, solver } = feBody([], 'pinned');
+    const f = new Float64Array(2 * model.z.length);
+    f[tip(model) + 1] = 1;
+    const u = solver.solve(f);
+    expectRel(u[tip(model) + 1], 1, 9);
+    expectRel(u[tip(model)], 1 / 2, 9);
+  });
+
+  it('carries a load growing linearly to the free top: tip deflection 11wL⁴/(120EI), root moment wL²/3 (Roark Table 8.1, case 2a; from memory, checked by superposition with the uniform 1/8)', () => {
+    // Load w·z/L, zero at the clamped base. Its complement (zero at the top) gives wL⁴/(30EI) and
+    // wL²/6: the two add to the uniform case, 15/120 and 1/2.
+    const { model, solver } = feBody([], 'pinned');
+    const load = (z: number) => z;
+    const u = solver.solve(uniformLoad(model, load));
+    // The load is taken at each element's mid-height: second order, about 1e-4 on 96 elements.
+    expectRel(u[tip(model)], 11 / 120, 3);
+    // The unit section has c/I = 1: the peak stress is the root moment.
+    expectRel(peakStress(model, u, load), 1 / 3, 3);
+    const down = (z: number) => 1 - z;
+    const v = solver.solve(uniformLoad(model, down));
+    expectRel(v[tip(model)], 1 / 30, 3);
+    expectRel(peakStress(model, v, down), 1 / 6, 3);
+  });
+
+  it.each([
+    ['a cantilever: wL²/2 at the root (Roark Table 8.1, case 2a)', [] as number[], 'pinned' as const, 1 / 2],
+    ['a propped span: wL²/8 at the clamped end (case 2c)', [1], 'pinned' as const, 1 / 8],
+    ['a span clamped at both ends: wL²/12 at the ends (case 2d)', [1], 'clamped' as const, 1 / 12],
+  ])('gives the largest moment under a uniform load of %s', (_name, supports, hold, moment) => {
+    const { model, solver } = feBody(supports, hold);
+    const u = solver.solve(uniformLoad(model, () => 1));
+    // Element end moments from K_e·u_e − f_e are exact at the nodes for a uniform load (to round-off
+    // of the 96-element solve, a few parts in 10⁹).
+    expectRel(peakStress(model, u, () => 1), moment, 7);
+  });
+
+  it('takes the load of each element at its mid-height: a load over the lower half of a cantilever (Roark Table 8.1, case 2a with the load ending at a)', () => {
+    // Load w = 1 on 0 ≤ z < a = L/2 (a node): the root moment is w·a²/2 = 0.125; the tip deflects
+    // w·a⁴/8 + (L − a)·w·a³/6 = w·a³(4L − a)/24 = 0.018229 (superposing the loaded part's end
+    // deflection and rotation). Piecewise uniform per element, so the nodal values are exact.
+    const { model, solver } = feBody([], 'pinned');
+    const half = (z: number) => (z < 0.5 ? 1 : 0);
+    const u = solver.solve(uniformLoad(model, half));
+    expectRel(u[tip(model)], (0.125 * 3.5) / 24, 7);
+    expectRel(peakStress(model, u, half), 0.125, 7);
+  });
+
+  it('finds the peak moment at an element’s upper end: a span clamped at both ends, loaded over its top quarter', () => {
+    // Fixed-end moments of a point force P at x on a clamped span: P·x(L − x)²/L² at the base and
+    // P·x²(L − x)/L² at the top (any structural analysis text); integrated over 0.75 ≤ x ≤ 1 (w = 1,
+    // L = 1): 0.0042318 at the base, 1/12 − (0.75³/3 − 0.75⁴/4) = 0.0218099 at the top (the peak).
+    const { model, solver } = feBody([1], 'clamped');
+    const top = (z: number) => (z > 0.75 ? 1 : 0);
+    const u = solver.solve(uniformLoad(model, top));
+    expectRel(peakStress(model, u, top), 1 / 12 - (0.75 ** 3 / 3 - 0.75 ** 4 / 4), 7);
+  });
+
+  it.each([
+    // σ = M·c/I with c the outer fibre (half the width) — any strength-of-materials text; M = wL²/2.
+    ['a line: σ = 6M/W² per unit length', sectionAt('line', 20 * nm), (M: number) => (6 * M) / (20 * nm) ** 2],
+    ['a solid round body: σ = 32M/(πD³)', sectionAt('solid-round', 30 * nm), (M: number) => (32 * M) / (Math.PI * (30 * nm) ** 3)],
+    [
+      'a tube of 30 nm with a 5 nm wall: σ = 32M·D/(π(D⁴ − Dᵢ⁴))',
+      sectionAt('hollow-round', 30 * nm, 5 * nm),
+      (M: number) => (32 * M * 30 * nm) / (Math.PI * ((30 * nm) ** 4 - (20 * nm) ** 4)),
+    ],
+  ])('turns the root moment into the outer-fibre stress of %s', (_name, section, sigma) => {
+    const L = 200 * nm;
+    const E = 169e9;
+    const w = 1e-3; // N/m (a round body) or Pa (a line, per unit length)
+    const { model, solver } = feBody([], 'pinned', () => section, L, E);
+    const u = solver.solve(uniformLoad(model, () => w));
+    expectRel(peakStress(model, u, () => w), sigma((w * L * L) / 2), 7);
+  });
+
+  it('finds the largest deflection and where it is: at the top of a cantilever, 0.5785 L up a propped span (Roark Table 8.1, cases 2a, 2c)', () => {
+    const free = feBody([], 'pinned');
+    const a = maxDeflection(free.model, free.solver.solve(uniformLoad(free.model, () => 1)));
+    expectRel(a.value, 1 / 8, 9);
+    expectRel(a.z, 1, 12);
+    const propped = feBody([1], 'pinned');
+    const b = maxDeflection(propped.model, propped.solver.solve(uniformLoad(propped.model, () => 1)));
+    expectRel(b.value, ROARK.uniform['clamped-pinned'], 5);
+    // Sampled at eight points per element of 1/96: within 1/768 of (15 − √33)/16.
+    expect(Math.abs(b.z - (15 - Math.sqrt(33)) / 16)).toBeLessThan(1 / 768);
+  });
+
+  it('meshes at least the asked-for elements, one E·I and c/I per element', () => {
+    const { model } = feBody([], 'pinned');
+    expect(model.z.length).toBe(97);
+    expect(model.z[0]).toBe(0);
+    expect(model.z[96]).toBe(1);
+    expect(model.ei.length).toBe(96);
+    expect(model.stressPerMoment.length).toBe(96);
+  });
+
+  it('puts a node at a support between grid points, and merges one within a millionth of the height of a grid point', () => {
+    const between = feBody([0.123], 'pinned').model;
+    expect(between.z.length).toBe(98);
+    const [base, support] = [...between.held.keys()];
+    expect([base, between.z[support!]]).toEqual([0, 0.123]);
+    const near = feBody([0.5 + 1e-9], 'pinned').model;
+    expect(near.z.length).toBe(97);
+    expect([...near.held.keys()]).toEqual([0, 48]);
+  });
+
+  it('ignores supports outside the body (at or below its base, above its top): the base stays clamped', () => {
+    const { model, solver } = feBody([0, -0.2, 1.5], 'pinned');
+    expect([...model.held.entries()]).toEqual([[0, 'clamped']]);
+    expectRel(solver.solve(uniformLoad(model, () => 1))[tip(model)], 1 / 8, 9);
+  });
+
+  it('refuses a body without stiffness (E·I = 0): its stiffness matrix is singular', () => {
+    const model = meshBeam({ height: 1, supports: [], hold: 'pinned', modulus: 0, section: unitSection });
+    expect(() => factorBeam(model)).toThrow(/not positive definite/);
+  });
+});
+
 // ── The line model in its prismatic limit ─────────────────────────────────────────────────────
 
 /** A vertical line with a drying block: W, H, pitch in nm; E in Pa; γ in N/m. */
@@ -320,6 +444,76 @@ describe('supports', () => {
 
 const s150 = () => line(20, 200, 60, 169e9, 0.072, 0, [150 * nm]);
 
+describe('supports: which span governs, and how the page names it', () => {
+  it('two low lattices leave the 160 nm top free: it governs, from the upper lattice to the free top', () => {
+    // Supports given out of order (40 nm, then 20 nm): the body is the same.
+    const s = line(20, 200, 60, 169e9, 0.072, 0, [40 * nm, 20 * nm]);
+    const f = q(s, 'mechanics.free_length');
+    expect(f?.note).toBe('the span from the support at 40 nm (pinned) to the free top');
+    expectRel(f?.value, 160 * nm, 9);
+    const sorted = line(20, 200, 60, 169e9, 0.072, 0, [20 * nm, 40 * nm]);
+    expect(q(s, 'mechanics.tip_deflection')?.value).toBe(q(sorted, 'mechanics.tip_deflection')?.value);
+  });
+
+  it('a lattice at mid-height and one at the top: the upper span, away from the clamped base, bends most', () => {
+    // Two equal spans, clamped at the base, pinned at 100 and 200 nm: the span next to the clamp is
+    // the stiffer one (a clamp restrains more than the continuity over a pin).
+    const f = q(line(20, 200, 60, 169e9, 0.072, 0, [100 * nm, 200 * nm]), 'mechanics.free_length');
+    expect(f?.note).toBe('the span from the support at 100 nm (pinned) to the support at 200 nm (pinned)');
+    expectRel(f?.value, 100 * nm, 9);
+  });
+
+  it('label the variant by kind, supports and their hold, and show the load as ΔP on a line, F on a round body', () => {
+    const variantOf = (st: Structure) => {
+      const v = QUANTITIES.get('mechanics.collapse_margin')!.variant(shapeOf(st));
+      if (!('compute' in v)) throw new Error('no variant');
+      return v;
+    };
+    const one = line(20, 200, 60, 169e9, 0.072, 0, [100 * nm]);
+    one.drying!.supportHold = 'clamped';
+    expect(variantOf(one).label).toBe('line, 1 support (clamped)');
+    expect(variantOf(one).symbols?.load).toBe('\\Delta P');
+    expect(variantOf(one).symbols?.support_1).toBe('z_{1}');
+    expect(variantOf(line(20, 200, 60, 169e9, 0.072, 0, [50 * nm, 100 * nm])).label).toBe('line, 2 supports (pinned)');
+    const pillar = makeStructure('pillar', { cd: 30 * nm, height: 300 * nm, pitch: 90 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    addDrying(pillar, 169e9, 0.072, 0, []);
+    expect(variantOf(pillar).label).toBe('pillar, no supports');
+    expect(variantOf(pillar).symbols?.load).toBe('F');
+  });
+});
+
+describe('which capillary load applies', () => {
+  const pillar = () => {
+    const s = makeStructure('pillar', { cd: 30 * nm, height: 300 * nm, pitch: 90 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    addDrying(s, 169e9, 0.072, 0, []);
+    return s;
+  };
+  const status = (st: Structure, name: string) => evaluateRule(makeRule({ quantity: name, comparison: 'at_most', limit: 1 }), st, new PlanCache()).status;
+
+  it('a line carries the Laplace pressure, not the meniscus force between round neighbours', () => {
+    const s = line(20, 200, 60, 169e9, 0.072);
+    expect(q(s, 'mechanics.capillary_pressure')?.value).toBeGreaterThan(0);
+    expect(status(s, 'mechanics.meniscus_force')).toBe('not-applicable');
+  });
+
+  it('a pillar carries the meniscus force, not the Laplace pressure', () => {
+    expect(q(pillar(), 'mechanics.meniscus_force')?.value).toBeGreaterThan(0);
+    expect(status(pillar(), 'mechanics.capillary_pressure')).toBe('not-applicable');
+  });
+
+  it('an opening carries neither; a standing body without a drying block lacks the liquid', () => {
+    const hole = makeStructure('hole', { cd: 20 * nm, depth: 200 * nm, pitch: 60 * nm }, { array: 'square' });
+    expect(status(hole, 'mechanics.capillary_pressure')).toBe('not-applicable');
+    expect(status(hole, 'mechanics.meniscus_force')).toBe('not-applicable');
+    const dry = makeStructure('pillar', { cd: 30 * nm, height: 300 * nm, pitch: 90 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    const bare = makeStructure('line', { cd: 20 * nm, height: 200 * nm, pitch: 60 * nm, sidewall_angle: Math.PI / 2 });
+    expect(evaluateStructure(dry).incomplete['mechanics.meniscus_force']).toEqual(['drying.liquid']);
+    expect(evaluateStructure(bare).incomplete['mechanics.capillary_pressure']).toEqual(['drying.liquid']);
+  });
+});
+
+
+
 describe('limits', () => {
   it('no surface tension (drying without a liquid–vapour interface): no load, margin unbounded above', () => {
     const s = line(20, 200, 60, 169e9, 0);
@@ -358,6 +552,22 @@ describe('round bodies', () => {
     }
   });
 
+  it('a pillar held at its top: the worst liquid level bends the clamped–pinned span most (shooting solution, scanned)', () => {
+    // Prismatic, so the meniscus force F = 2πγ(CD/2)²/p is the same at every level; the largest
+    // deflection under a point force scanned along a clamped–pinned span is F·H³/(E·I) times the
+    // unit solution's largest w(a) at the force.
+    const [cd, H, p, E, g] = [40 * nm, 400 * nm, 160 * nm, 169e9, 0.072];
+    const s = makeStructure('pillar', { cd, height: H, pitch: p, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    addDrying(s, E, g, 0, [H]);
+    let shoot = 0;
+    for (let a = 0.3; a <= 0.8; a += 0.005) {
+      const w = solveBeam('clamped', 'pinned', pointAt(a), 1, 4000);
+      shoot = Math.max(shoot, Math.abs(w[Math.round(a * 4000)]!));
+    }
+    const F = (2 * Math.PI * g * (cd / 2) ** 2) / p;
+    expectRel(q(s, 'mechanics.tip_deflection')?.value, ((F * H ** 3) / (E * ((Math.PI * cd ** 4) / 64))) * shoot, 3);
+  });
+
   it('an unsupported 30 nm × 2 µm titanium-nitride cylinder with a 15 nm gap collapses in water', () => {
     // Common practice: storage-node cylinders about 30 nm across and 2 µm tall cannot stand
     // unsupported. Pitch 45 nm leaves a 15 nm gap; wall 5 nm; E = 400 GPa; water 0.072 N/m.
@@ -392,6 +602,59 @@ describe('validity flags', () => {
   it('stay quiet for a sparse array', () => {
     // 40 nm on a 200 nm pitch: CD/p = 0.2; 400 nm tall is ten widths.
     expect(warnings(verdictFor(40, 200))).toEqual([]);
+  });
+});
+
+describe('validity flags and formulas of every collapse quantity', () => {
+  const flags = (st: Structure, name: string) => (q(st, name)?.outside_validity ?? []).join(' ');
+  const pillar = (cd: number, height: number) => {
+    const st = makeStructure('pillar', { cd: cd * nm, height: height * nm, pitch: 4 * cd * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
+    addDrying(st, 169e9, 0.072, 0, []);
+    return st;
+  };
+
+  it('flag the Laplace pressure across a gap of a few molecules (1.5 nm), not across 40 nm', () => {
+    expect(flags(line(20, 200, 21.5, 169e9, 0.072), 'mechanics.capillary_pressure')).toMatch(/few molecules wide/);
+    expect(flags(line(20, 200, 60, 169e9, 0.072), 'mechanics.capillary_pressure')).toBe('');
+  });
+
+  it('flag beam theory for a body no taller than twice its width, not for one ten widths tall', () => {
+    expect(flags(pillar(100, 200), 'mechanics.tip_deflection')).toMatch(/several times taller than it is wide/);
+    expect(flags(pillar(40, 400), 'mechanics.tip_deflection')).toBe('');
+  });
+
+  it('flag the margin of a span bent beyond a tenth of its length (a 10 nm line 2 µm tall bends 0.5 mm on paper), not of a stiff one', () => {
+    // 3γH⁴/(E·s·W³) = 3 · 0.072 · (2 µm)⁴ / (169 GPa · 40 nm · (10 nm)³) = 0.51 mm (hand).
+    expect(flags(line(10, 2000, 50, 169e9, 0.072), 'mechanics.collapse_margin')).toMatch(/exceeds a tenth of the span/);
+    expect(flags(line(20, 200, 60, 169e9, 0.072), 'mechanics.collapse_margin')).toBe('');
+  });
+
+  it('leave the strength margin unbounded above when nothing bends the body', () => {
+    expect(q(line(20, 200, 60, 169e9, 0), 'mechanics.stress_margin')).toMatchObject({ value: null, unbounded: 'above' });
+  });
+
+  it('show a line’s formulas (plate modulus, s/8, the half-width fibre) and a round body’s (the meniscus force F, δ_crit, the half-diameter fibre)', () => {
+    const formula = (st: Structure, name: string) => {
+      const v = QUANTITIES.get(name)!.variant(shapeOf(st));
+      return 'formula' in v ? v.formula : '';
+    };
+    const l = line(20, 200, 60, 169e9, 0.072);
+    const r = pillar(40, 400);
+    const markers: Record<string, [RegExp, RegExp]> = {
+      'mechanics.free_length': [/z_\{above\}/, /z_\{above\}/],
+      'mechanics.tip_deflection': [/E' = \\frac\{E\}\{1-\\nu\^2\}/, /F\\,\\delta\(z - z_F\)/],
+      'mechanics.critical_height': [/./, /./],
+      'mechanics.collapse_margin': [/s\/8/, /\\delta_\{crit\}/],
+      'mechanics.base_stress': [/W\(z\)\/2/, /D\(z\)\/2/],
+      'mechanics.stress_margin': [/\\sigma_f/, /\\sigma_f/],
+    };
+    for (const [name, [forLine, forRound]] of Object.entries(markers)) {
+      expect(formula(l, name), name).toMatch(forLine);
+      expect(formula(r, name), name).toMatch(forRound);
+    }
+    for (const name of ['mechanics.tip_deflection', 'mechanics.critical_height', 'mechanics.collapse_margin', 'mechanics.base_stress']) {
+      expect(formula(l, name), name).not.toBe(formula(r, name));
+    }
   });
 });
 

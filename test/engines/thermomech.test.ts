@@ -17,7 +17,7 @@
 import { loadHandbook } from '../../src/pipeline.ts';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
-import { freeSlidingProtrusion, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
+import { freeSlidingProtrusion, matrixStress, piezo, piezoFactor, SMITH, siliconBiaxialModulus, thermomechEngine, viaEdgeStress } from '../../src/engines/thermomech/index.ts';
 
 import { MemorySource } from '../../src/model/memory-source.ts';
 import { copperVia, expectRel, makeRule, makeStructure, um } from '../helpers.ts';
@@ -47,6 +47,12 @@ describe('piezoresistance factor P(N, T)', () => {
     // 400 K, 1e18 cm⁻³: Θ = 4/3, Θ^−0.9 = 0.77192, Θ^−0.1 = 0.97164, (1/60)^0.43 = 0.17196,
     // Θ^−3 (1/700)^1.6 = 1.18e-5; P = 0.77192/1.16709 = 0.66138.
     expect(piezoFactor('p100', 1e18 * cm3, 400)).toBeCloseTo(0.6614, 4);
+    // Heavy doping away from 300 K, where the third term counts. 400 K, 1e20 cm⁻³: Θ^−0.1·(1e20/6e19)^0.43
+    // = 0.97164 · 1.24565 = 1.21032, Θ^−3·(1/7)^1.6 = 0.421875 · 0.044448 = 0.018751; P = 0.77189/2.22907
+    // = 0.34628. 250 K, 3e20 cm⁻³: Θ = 5/6, Θ^−0.9 = 1.17832, Θ^−0.1 = 1.01840, 5^0.43 = 1.99783, so
+    // 2.03458; Θ^−3 = 1.728, (3/7)^1.6 = 0.25778, so 0.44543; P = 1.17832/3.48001 = 0.33860.
+    expect(piezoFactor('p110', 1e20 * cm3, 400)).toBeCloseTo(0.34628, 4);
+    expect(piezoFactor('p110', 3e20 * cm3, 250)).toBeCloseTo(0.3386, 4);
   });
 
   it('agrees with Harley & Kenny’s fit to measured p-type coefficients at 300 K within 7 %', () => {
@@ -332,6 +338,114 @@ describe('keep-out radius and bow of a via structure', () => {
     expectRel(q['thermomech.wafer_bow']?.value, (kappa * 0.15 * 0.15) / 2, 12);
     expect(q['thermomech.wafer_bow']?.value).toBeCloseTo(124.7e-6, 7);
     expectRel(q['thermomech.bow_margin']?.value, 50e-6 / ((kappa * 0.15 * 0.15) / 2), 12);
+  });
+});
+
+describe('the figures, formulas and scope of the via quantities', () => {
+  const { s, set } = copperVia(50 * um, -300);
+  set('keep_out.mobility_shift', 0.05);
+  const variantOf = (name: string, shape: Parameters<(typeof thermomechEngine.quantities)[number]['variant']>[0] = { kind: 'via', via: true }) => {
+    const v = thermomechEngine.quantities.find((d) => d.name === name)!.variant(shape);
+    if (!('compute' in v)) throw new Error(`${name} does not apply`);
+    return v;
+  };
+  const figureOf = (out: unknown) => (typeof out === 'object' && out !== null && 'figure' in out ? (out as { figure: { type: string } & Record<string, unknown> }).figure : undefined);
+
+  it('falls off as (a/r)² outside the via, the hoop stress the negative of the radial (Lamé; Timoshenko & Goodier)', () => {
+    expect(matrixStress(-80e6, 5e-6, 10e-6)).toEqual({ radial: -20e6, hoop: 20e6 });
+    expect(matrixStress(-80e6, 5e-6, 5e-6)).toEqual({ radial: -80e6, hoop: 80e6 });
+  });
+
+  it('draws the stress profile from the via edge to ten radii: σ₀ at the edge, σ₀/100 at 10a', () => {
+    const s0 = evaluateStructure(s).quantities['thermomech.via_stress']!.value!;
+    const fig = figureOf(variantOf('thermomech.via_stress').compute({ e1: 120e9, nu1: 0.34, a1: 16.7e-6, e2: 130e9, nu2: 0.28, a2: 2.6e-6, dT: -300, cd: 10e-6, depth: 50e-6 }));
+    expect(fig?.type).toBe('stress-profile');
+    const points = fig!.points as Array<{ r: number; radial: number; hoop: number }>;
+    expect(fig!.radius).toBe(5e-6);
+    expect(points.length).toBe(61);
+    expectRel(points[0]!.r, 5e-6, 12);
+    expectRel(points[0]!.radial, s0, 12);
+    expectRel(points[60]!.r, 50e-6, 12);
+    expectRel(points[60]!.radial, s0 / 100, 12);
+    expectRel(points[30]!.r, 27.5e-6, 12);
+    for (const p of points) expectRel(p.hoop, -p.radial, 12);
+  });
+
+  it('maps a square 1.5 keep-out radii (at least three via radii) across, 41 × 41 cells, empty inside the via', () => {
+    const args = (limit: number) => ({ s0: -100e6, cd: 10e-6, limit, doping: 1e21, temperature: 300 });
+    const wide = variantOf('thermomech.keep_out_radius_p110').compute(args(0.05)) as { value: number; note: string; figure: Record<string, unknown> };
+    expect(wide.figure.channel).toBe('p-channel ⟨110⟩');
+    expect((wide.figure.values as unknown[]).length).toBe(41 * 41);
+    expectRel(wide.figure.extent as number, 1.5 * Math.max(wide.value, 10e-6), 12);
+    // A threshold the shift never reaches: the zone is the via itself and the map spans 1.5 × 2a.
+    const none = variantOf('thermomech.keep_out_radius_p110').compute(args(0.9)) as { value: number; note: string; figure: Record<string, unknown> };
+    expect(none.value).toBe(5e-6);
+    expect(none.note).toBe('the shift stays under the threshold everywhere outside the via');
+    expectRel(none.figure.extent as number, 15e-6, 12);
+    expect(wide.note).toMatch(/along and across the channel/);
+  });
+
+  it('print each channel’s coefficient difference in its formula (Smith 1954): 155.6, 13.6, 7.7 and 138.1 × 10⁻¹¹ /Pa', () => {
+    const expected = { n100: '155.6', n110: '13.6', p100: '7.7', p110: '138.1' };
+    for (const [channel, diff] of Object.entries(expected)) {
+      expect(variantOf(`thermomech.mobility_shift_${channel}`).formula).toContain(`${diff}\\times 10^{-11}`);
+    }
+    expect(variantOf('thermomech.mobility_shift_n100').formula).toContain('\\frac{300\\,\\mathrm{K}}{T}');
+    expect(variantOf('thermomech.mobility_shift_p110').formula).toContain('\\Theta^{-3}');
+  });
+
+  it('print the wafer’s biaxial modulus in the bow formula: 180.3 GPa for (001), 229.1 GPa for (111)', () => {
+    expect(variantOf('thermomech.wafer_bow', { kind: 'via', via: true }).formula).toContain('M_s(001) = 180.3');
+    expect(variantOf('thermomech.wafer_bow', { kind: 'via', via: true, waferOrientation: '111' }).formula).toContain('M_s(111) = 229.1');
+  });
+
+  it('apply the via stress, shifts and keep-out zones to vias only', () => {
+    const hole = makeStructure('hole', { cd: 1 * um, depth: 5 * um }, { array: 'square' });
+    for (const name of ['thermomech.via_stress', 'thermomech.mobility_shift_n100', 'thermomech.keep_out_radius_p110', 'thermomech.protrusion']) {
+      expect(evaluateRule(makeRule({ quantity: name, comparison: 'at_most', limit: 1 }), hole, new PlanCache()).status, name).toBe('not-applicable');
+    }
+  });
+});
+
+describe('validity of the bow, the threshold and the plane-strain via', () => {
+  const warnings = (st: ReturnType<typeof copperVia>['s'], name: string) => evaluateStructure(st).quantities[name]?.outside_validity ?? [];
+
+  it('holds plane strain from exactly three diameters deep', () => {
+    expect(warnings(copperVia(30 * um, -100).s, 'thermomech.via_stress')).toEqual([]);
+    expect(warnings(copperVia(29 * um, -100).s, 'thermomech.via_stress').join(' ')).toMatch(/plane strain/);
+  });
+
+  it('flags Stoney’s equation for a film over 1 % of the wafer thickness, not for a thin one', () => {
+    const bow = (hf: number) => {
+      const { s, set } = copperVia(50 * um, -300);
+      set('film.stress', 250e6);
+      set('film.thickness', hf);
+      set('wafer.thickness', 775e-6);
+      set('wafer.diameter', 0.3);
+      set('wafer.bow_limit', 50e-6);
+      return warnings(s, 'thermomech.wafer_bow').join(' ');
+    };
+    expect(bow(0.8e-6)).toBe('');
+    expect(bow(10e-6)).toMatch(/1 % of the wafer thickness/);
+  });
+
+  it('flags a keep-out threshold above 20 % (outside linear piezoresistance) and a shift above 20 %', () => {
+    const { s, set } = copperVia(50 * um, -300);
+    set('keep_out.mobility_shift', 0.3);
+    expect(warnings(s, 'thermomech.keep_out_radius_p110').join(' ')).toMatch(/threshold above 20 %/);
+    // 138.1e-11 /Pa × 0.99 × |σ₀| of a few hundred MPa is above 20 % at the edge.
+    expect(warnings(s, 'thermomech.mobility_shift_p110').join(' ')).toMatch(/20 % shift/);
+    expect(warnings(s, 'thermomech.mobility_shift_n110')).toEqual([]);
+  });
+
+  it('leaves the bow margin unbounded above for a film without stress', () => {
+    const { s, set } = copperVia(50 * um, -300);
+    set('film.stress', 0);
+    set('film.thickness', 0.8e-6);
+    set('wafer.thickness', 775e-6);
+    set('wafer.diameter', 0.3);
+    set('wafer.bow_limit', 50e-6);
+    expect(evaluateStructure(s).quantities['thermomech.bow_margin']).toMatchObject({ value: null, unbounded: 'above' });
   });
 });
 

@@ -9,6 +9,7 @@ import { noted, noValue, variant, type Engine, type NoValue, type Outcome, type 
 import { bottomCd, cavity } from '../geometry/index.ts';
 import { MARCH_BANDS, marchFill, RESOLVE_GROWTH, SEAM_WIDTH_DEFAULT, type FillResult } from './fill.ts';
 import { aldExposureFactor, aldFlatExposure, aldSaturatedDepth, arrival, aspectRatioOfFactor, depthOf, straightOpening, wallCoverageAt, widthAt, type Opening } from './models.ts';
+import { memoTable } from '../memo.ts';
 
 const GORDON =
   'Gordon, Hausmann, Kim & Shepard, Chem. Vap. Deposition 9, 73 (2003): P·t = S·√(2πmk_BT)·(1 + 19a/4 + 3a²/2); trenches with a = L/(2w) (Cremers, Puurunen & Dendooven, Appl. Phys. Rev. 6, 021302 (2019)); along a taper or a lined profile, Gordon’s derivation (a saturation front fed through the resistance above it) carried out with the local cross-section [derived], a the equivalent aspect ratio';
@@ -355,13 +356,14 @@ function fillInputs(shape: Shape): Record<string, string> {
   return inputs;
 }
 
-const fillMemo = new Map<string, FillResult | NoValue>();
+const fills = memoTable<string, FillResult | NoValue>(64);
 
 /** March the fill of the opening described by the inputs (memoised: several quantities share it). */
 export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!): FillResult | NoValue {
-  const key = JSON.stringify([shape.kind, shape.fill?.method, shape.deposition?.films, a, depth]);
-  const hit = fillMemo.get(key);
-  if (hit) return hit;
+  return fills.get(JSON.stringify([shape.kind, shape.fill?.method, shape.deposition?.films, a, depth]), () => marchOpening(shape, a, depth));
+}
+
+function marchOpening(shape: Shape, a: Record<string, number>, depth: number): FillResult | NoValue {
   const elongated = isElongated(shape.kind);
   const bottom = bottomCd(a.cd!, depth, a.angle!, true);
   const base = bottom > 0 ? straightOpening(elongated, depth, a.cd!, bottom) : noValue('the opening closes before its bottom (its taper): there is nothing to fill below that');
@@ -376,10 +378,7 @@ export function fillOf(shape: Shape, a: Record<string, number>, depth = a.depth!
           ...(a.sticking !== undefined ? { sticking: a.sticking } : {}),
           ...(a.ratio !== undefined ? { ratio: a.ratio } : {}),
         });
-  const result: FillResult | NoValue = 'reason' in march || march.converged ? march : noValue('the fill march did not close within its step limit');
-  if (fillMemo.size > 64) fillMemo.clear();
-  fillMemo.set(key, result);
-  return result;
+  return 'reason' in march || march.converged ? march : noValue('the fill march did not close within its step limit');
 }
 
 function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: (r: FillResult, a: Record<string, number>, shape: Shape) => Outcome): QuantityDef {

