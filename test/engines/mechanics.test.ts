@@ -444,6 +444,18 @@ describe('supports', () => {
 
 const s150 = () => line(20, 200, 60, 169e9, 0.072, 0, [150 * nm]);
 
+describe('a clamped lattice', () => {
+  it('at the very top holds the body clamped at both ends: Roark’s δ_max = wH⁴/(384EI) (Table 8.1, case 2d)', () => {
+    const s = line(20, 200, 60, 169e9, 0.072, 0, [200 * nm]);
+    s.drying!.supportHold = 'clamped';
+    const [W, H, S, E, g] = [20 * nm, 200 * nm, 40 * nm, 169e9, 0.072];
+    const d1 = (((2 * g) / S) * H ** 4) / (384 * ((E * W ** 3) / 12));
+    // Nodal sampling: the mid-span node is the maximum exactly (96 elements).
+    expectRel(q(s, 'mechanics.tip_deflection')?.value, d1, 6);
+    expect(q(s, 'mechanics.free_length')?.note).toMatch(/to the support at 200 nm \(clamped\)/);
+  });
+});
+
 describe('supports: which span governs, and how the page names it', () => {
   it('two low lattices leave the 160 nm top free: it governs, from the upper lattice to the free top', () => {
     // Supports given out of order (40 nm, then 20 nm): the body is the same.
@@ -501,10 +513,13 @@ describe('which capillary load applies', () => {
     expect(status(pillar(), 'mechanics.capillary_pressure')).toBe('not-applicable');
   });
 
-  it('an opening carries neither; a standing body without a drying block lacks the liquid', () => {
+  it('an opening carries neither (a trench is long, but not standing); a standing body without a drying block lacks the liquid', () => {
     const hole = makeStructure('hole', { cd: 20 * nm, depth: 200 * nm, pitch: 60 * nm }, { array: 'square' });
-    expect(status(hole, 'mechanics.capillary_pressure')).toBe('not-applicable');
-    expect(status(hole, 'mechanics.meniscus_force')).toBe('not-applicable');
+    const trench = makeStructure('trench', { cd: 20 * nm, depth: 200 * nm, pitch: 60 * nm });
+    for (const opening of [hole, trench]) {
+      expect(status(opening, 'mechanics.capillary_pressure')).toBe('not-applicable');
+      expect(status(opening, 'mechanics.meniscus_force')).toBe('not-applicable');
+    }
     const dry = makeStructure('pillar', { cd: 30 * nm, height: 300 * nm, pitch: 90 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
     const bare = makeStructure('line', { cd: 20 * nm, height: 200 * nm, pitch: 60 * nm, sidewall_angle: Math.PI / 2 });
     expect(evaluateStructure(dry).incomplete['mechanics.meniscus_force']).toEqual(['drying.liquid']);
@@ -599,6 +614,11 @@ describe('validity flags', () => {
     expect(warnings(verdictFor(40, 60)).join(' ')).toMatch(/order-of-magnitude estimate/);
   });
 
+  it('hold the linearised meniscus up to CD/p = 0.5 exactly (40 nm on an 80 nm pitch)', () => {
+    expect(warnings(verdictFor(40, 80))).toEqual([]);
+    expect(warnings(verdictFor(41, 80)).join(' ')).toMatch(/order-of-magnitude estimate/);
+  });
+
   it('stay quiet for a sparse array', () => {
     // 40 nm on a 200 nm pitch: CD/p = 0.2; 400 nm tall is ten widths.
     expect(warnings(verdictFor(40, 200))).toEqual([]);
@@ -643,7 +663,7 @@ describe('validity flags and formulas of every collapse quantity', () => {
     const markers: Record<string, [RegExp, RegExp]> = {
       'mechanics.free_length': [/z_\{above\}/, /z_\{above\}/],
       'mechanics.tip_deflection': [/E' = \\frac\{E\}\{1-\\nu\^2\}/, /F\\,\\delta\(z - z_F\)/],
-      'mechanics.critical_height': [/./, /./],
+      'mechanics.critical_height': [/L_c\^4 = \\frac\{E'\\,W\^3 s\^2\}/, /\\delta\^\* = \\min/],
       'mechanics.collapse_margin': [/s\/8/, /\\delta_\{crit\}/],
       'mechanics.base_stress': [/W\(z\)\/2/, /D\(z\)\/2/],
       'mechanics.stress_margin': [/\\sigma_f/, /\\sigma_f/],

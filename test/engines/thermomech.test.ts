@@ -394,6 +394,12 @@ describe('the figures, formulas and scope of the via quantities', () => {
     expect(variantOf('thermomech.mobility_shift_p110').formula).toContain('\\Theta^{-3}');
   });
 
+  it('name each channel in the titles: type, then direction', () => {
+    const title = (name: string) => thermomechEngine.quantities.find((d) => d.name === name)!.title;
+    expect(title('thermomech.mobility_shift_p110')).toBe('Mobility shift at the via edge, p-type channel along ⟨110⟩');
+    expect(title('thermomech.keep_out_radius_n100')).toBe('Keep-out radius, n-type channel along ⟨100⟩');
+  });
+
   it('print the wafer’s biaxial modulus in the bow formula: 180.3 GPa for (001), 229.1 GPa for (111)', () => {
     expect(variantOf('thermomech.wafer_bow', { kind: 'via', via: true }).formula).toContain('M_s(001) = 180.3');
     expect(variantOf('thermomech.wafer_bow', { kind: 'via', via: true, waferOrientation: '111' }).formula).toContain('M_s(111) = 229.1');
