@@ -1,7 +1,8 @@
 // A second, plainer march of a sticking-limited fill, for the tests to hold the engine's march to
-// (an independent numerical solution of the same growth model): half as many slices, a fixed step
-// a tenth of the engine's largest, the reactive-wall transport solved again every step on the full
-// band count, and no back-off at the pinch (the small step bounds that error instead). It shares
+// (an independent numerical solution of the same growth model): half as many slices, steps in
+// which the fastest wall moves 0.2 % of the top width (the engine's move it up to 1 %), the
+// reactive-wall transport solved again every step on the full band count, and no back-off at the
+// pinch (the small step bounds that error instead). It shares
 // with the engine only the transport solution (`arrival`, itself held to the Monte Carlo), which
 // the first-step test checks on its own.
 import { arrival, wallCoverageAt } from '../../src/engines/deposition/models.ts';
