@@ -10,11 +10,13 @@
 // - common practice: a stacked cylinder node about 30 nm across and 2 µm tall (aspect ratio about
 //   66) holds roughly 15 fF, so a 100 fF bit line still sees about 150 mV from a 1 V swing.
 import { beforeEach, describe, expect, it } from 'vitest';
-import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
 import { depletionRadius, inversionPotential, surfaceCapacitances } from '../../src/engines/electrical/index.ts';
 import { solveTridiagonal } from '../../src/engines/numeric.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
-import { deg, expectRel, makeStructure, nm, um } from '../helpers.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
+import { QUANTITIES } from '../../src/engines/index.ts';
+import { shapeOf } from '../../src/checker/plan.ts';
 
 const EPS0 = 8.8541878128e-12;
 const EPS_SI = 11.9 * EPS0; // Sze & Ng, 3rd ed., Appendix G [memory]
@@ -193,6 +195,94 @@ describe('a cup that narrows toward its floor (regression: the vertical-wall cap
     expect(cup(5.1 * nm).value).toBeGreaterThan(0);
     expect(cup(5.2 * nm).value).toBeNull();
     expect(cup(5.2 * nm).reason).toMatch(/narrowest/);
+  });
+});
+
+describe('the parallel-plate comparison each capacitance note gives (hand)', () => {
+  // Vertical cell of the signal checks: 36 nm, 5 nm wall, 5 nm film at k = 40, 1.5 µm; the cavity is
+  // 1495 nm deep. Coaxial: 2πε₀kH/ln(23/18) = 13.6175 fF outside, 2πε₀k·1495 nm/ln(13/8) = 6.8523 fF
+  // inside, ε₀kπ(8 nm)²/t = 14.242 aF on the floor. Plates of the electrode's own area:
+  // ε₀k·2π·18 nm·H/t = 12.0166 fF, ε₀k·2π·13 nm·1495 nm/t = 8.6497 fF, ε₀kπ(13 nm)²/t = 37.608 aF.
+  const note = (surfaces: Array<'inner' | 'outer' | 'bottom'>) => quantities(cellNode(1.5 * um, surfaces))['electrical.storage_capacitance']?.note;
+
+  it('outer wall: the plates give 11.8 % less (12.0166/13.6175; regression: it read "−11.8 % less")', () => {
+    expect(note(['outer'])).toBe("a parallel-plate estimate on the electrode's own area would give 11.8 % less");
+  });
+  it('inner wall: 26.2 % more (8.6497/6.8523)', () => {
+    expect(note(['inner'])).toBe("a parallel-plate estimate on the electrode's own area would give 26.2 % more");
+  });
+  it('all three surfaces: 1.1 % more (20.7040/20.4840 fF)', () => {
+    expect(note(['outer', 'inner', 'bottom'])).toBe("a parallel-plate estimate on the electrode's own area would give 1.1 % more");
+    expectRel(quantities(cellNode(1.5 * um, ['outer', 'inner', 'bottom']))['electrical.storage_capacitance']?.value, 20.484e-15, 4);
+  });
+  it('shows one term per surface in the formula', () => {
+    const formula = (surfaces: Array<'inner' | 'outer' | 'bottom'>) => {
+      const v = QUANTITIES.get('electrical.storage_capacitance')!.variant(shapeOf(cellNode(1.5 * um, surfaces)));
+      return 'formula' in v ? v.formula : '';
+    };
+    expect(formula(['outer'])).toMatch(/^C_s = \\int_0\^H \\frac\{2\\pi\\varepsilon_0 k\\,dz\}\{\\ln\\frac\{r_o \+ t_d\}\{r_o\}\},/);
+    expect(formula(['outer', 'inner', 'bottom']).split(' + ').length).toBeGreaterThanOrEqual(3);
+    expect(formula(['bottom'])).toMatch(/^C_s = \\frac\{\\varepsilon_0 k \\pi \(r_f - t_d\)\^2\}\{t_d\}/);
+  });
+});
+
+describe('the signal of a cell precharged off the middle', () => {
+  // Precharge at 0.4 of 1.2 V: the weaker state (the 0) swings 0.48 V, the 1 would swing 0.72 V.
+  const at = (p: number, required = 0.1) => {
+    const s = cellNode(1.5 * um, ['outer']);
+    setter(s)('cell.precharge', p);
+    setter(s)('cell.required_signal', required);
+    return quantities(s);
+  };
+  it('takes the smaller swing: 0.48 V · 13.6175/(13.6175 + 80) = 69.820 mV, and C_req = (0.1 · 80 fF + 64 aC)/0.38 V = 21.221 fF', () => {
+    expectRel(at(0.4)['electrical.sense_signal']?.value, 69.820e-3, 4);
+    expectRel(at(0.6)['electrical.sense_signal']?.value, 69.820e-3, 4);
+    expectRel(at(0.4)['electrical.required_capacitance']?.value, 21.221e-15, 4);
+  });
+  it('asks for no capacitance when the requirement is the whole swing (0.6 V of half of 1.2 V): none reaches it', () => {
+    expect(at(0.5, 0.6)['electrical.required_capacitance']).toMatchObject({ value: null, unbounded: 'above' });
+  });
+});
+
+describe('which cells the storage quantities read, and where a plate fits', () => {
+  const status = (st: Structure) => evaluateRule(makeRule({ quantity: 'electrical.storage_capacitance', comparison: 'at_least', limit: 1e-15 }), st, new PlanCache()).status;
+
+  it('apply to a cylinder with a cell block only', () => {
+    expect(status(makeStructure('hole', { cd: 36 * nm, depth: 1.5 * um }, { array: 'square' }))).toBe('not-applicable');
+    const bare = makeStructure('cylinder', { cd: 36 * nm, wall: 5 * nm, height: 1.5 * um, pitch: 56 * nm, sidewall_angle: deg(90) }, { array: 'hexagonal' });
+    expect(evaluateStructure(bare).incomplete['electrical.storage_capacitance']).toEqual(['cell']);
+  });
+
+  it('an outer-only electrode does not need a cavity (a solid 36 nm post: wall 18 nm); the inner wall of it says why it has none', () => {
+    const post = (surfaces: Array<'inner' | 'outer' | 'bottom'>) => {
+      const s = cellNode(1.5 * um, surfaces);
+      setter(s)('geometry.wall', 18 * nm);
+      return quantities(s)['electrical.storage_capacitance']!;
+    };
+    expectRel(post(['outer']).value, 13.6175e-15, 4);
+    expect(post(['inner']).reason).toBe('the wall is at least half the CD: the cylinder has no cavity');
+  });
+
+  it('surface by surface, gives nothing inside a cup the film fills (13.5 nm in a 13 nm radius) or that has no cavity', () => {
+    const g = { cd: 36 * nm, bottom: 36 * nm, wall: 5 * nm, height: 1.5 * um, thickness: 13.5 * nm, k: 40 };
+    expect(surfaceCapacitances(g)).toMatchObject({ inner: 0, bottom: 0 });
+    expect(surfaceCapacitances(g).outer).toBeGreaterThan(0);
+    expect(surfaceCapacitances({ ...g, wall: 20 * nm, thickness: 1 * nm })).toMatchObject({ inner: 0, bottom: 0 });
+    // A re-entrant cup is as narrow as its floor: 36 nm at the top, 20 nm at the base, 13 nm radius at
+    // the top but 5 nm at the base, so a 6 nm film fills it.
+    expect(surfaceCapacitances({ ...g, bottom: 20 * nm, thickness: 6 * nm })).toMatchObject({ inner: 0, bottom: 0 });
+  });
+
+  it('a cell widening to its base stops growing where its films meet the neighbours’: 2865 nm at 89.9°', () => {
+    // The base grows as 36 nm + 2h·tan 0.1°; the gap to the neighbours at the base, 56 nm less the
+    // base, falls to twice the 5 nm film at a base of 46 nm: h = 10 nm/(2 tan 0.1°) = 2864.8 nm (hand).
+    // 0.2 V at the end of the refresh needs (0.2 · 80 fF + 64 aC)/0.4 V = 40.16 fF, more than any
+    // such cell holds (about 27 fF at 2.86 µm).
+    const s = cellNode(1.5 * um, ['outer'], 89.9);
+    setter(s)('cell.required_signal', 0.2);
+    const h = quantities(s)['electrical.required_height']!;
+    expect(h.value).toBeNull();
+    expect(h.reason).toMatch(/above 2865 nm the taper leaves no room for the plate electrode/);
   });
 });
 

