@@ -433,4 +433,50 @@ describe('a liner that fills the via toward its bottom (regression: capacitance 
     expect(q(2.1 * um)['electrical.via_capacitance']?.reason).toMatch(/fills the via toward its bottom/);
     for (const n of names) expect(q(2.0 * um)[n]?.value, n).toBeGreaterThan(0);
   });
+
+  it('a vertical 6 µm via closes at its top when the liner reaches its 3 µm radius', () => {
+    const v = evaluateStructure(via(6 * um, 60 * um, 90, 3.1 * um, 1e22)).quantities;
+    expect(v['electrical.via_capacitance']?.reason).toMatch(/fills the via at its top/);
+    expect(v['electrical.via_resistance']?.value).toBeNull();
+  });
+});
+
+describe('via scope and a substrate without a depletion layer', () => {
+  it('apply to vias with a via block only', () => {
+    const status = (st: Structure, name: string) => evaluateRule(makeRule({ quantity: name, comparison: 'at_most', limit: 1 }), st, new PlanCache()).status;
+    const hole = makeStructure('hole', { cd: 6 * um, depth: 60 * um }, { array: 'square' });
+    expect(status(hole, 'electrical.via_resistance')).toBe('not-applicable');
+    const bare = makeStructure('via', { cd: 6 * um, depth: 60 * um, sidewall_angle: deg(90) }, { array: 'square' });
+    expect(evaluateStructure(bare).incomplete['electrical.via_resistance']).toEqual(['via']);
+    expect(status(makeStructure('pillar', { cd: 10 * nm, height: 50 * nm, pitch: 40 * nm, sidewall_angle: deg(90) }, { array: 'square' }), 'electrical.effective_width')).toBe('not-applicable');
+  });
+
+  it('gives no depleted capacitance for a substrate doped below the intrinsic density (1e15 m⁻³ < n_i = 9.65e15 m⁻³)', () => {
+    const v = evaluateStructure(via(6 * um, 60 * um, 90, 300 * nm, 1e15)).quantities;
+    expect(v['electrical.via_min_capacitance']?.reason).toMatch(/not above the intrinsic density/);
+    expect(v['electrical.via_capacitance']?.value).toBeGreaterThan(0);
+  });
+});
+
+describe('the height a cell needs, at its limits', () => {
+  const cell = (surfaces: Array<'inner' | 'outer' | 'bottom'>, required: number, leak = 1e-15) => {
+    const s = cellNode(1.5 * um, surfaces);
+    setter(s)('cell.required_signal', required);
+    setter(s)('cell.leakage_current', leak);
+    return quantities(s)['electrical.required_height']!;
+  };
+
+  it('an outer wall alone grows from nothing: 0.1 mV needs 8 aF/0.5999 V = 13.336 aF, 1.469 nm of 9.07832 fF/µm (hand)', () => {
+    // No leak: C_req = 1e-4 V · 80 fF/(0.6 − 1e-4) V = 13.3356 aF; per height 9.07832e-9 F/m (above).
+    expectRel(cell(['outer'], 1e-4, 0).value, 13.3356e-18 / 9.07832e-9, 4);
+  });
+
+  it('a cup is at least one wall tall: one that low already meeting the requirement needs just the wall (5 nm)', () => {
+    // One wall of outer wall alone holds 9.07832e-9 F/m × 5 nm = 45.4 aF, above the 13.3 aF asked.
+    expect(cell(['inner', 'outer'], 1e-4, 0).value).toBe(5 * nm);
+  });
+
+  it('a floor alone does not grow with the height: no height reaches 16.128 fF', () => {
+    expect(cell(['bottom'], 0.1).reason).toBe('the electrode surfaces chosen do not grow with the height');
+  });
 });

