@@ -484,6 +484,10 @@ describe('validity flags on the verdict', () => {
     expect(keepOutWarnings('p110', 1e25, 350)).toBe('');
     expect(keepOutWarnings('p110', 3e26, 300)).toMatch(/1e20 cm⁻³/);
     expect(keepOutWarnings('p110', 1e21, 450)).toMatch(/room temperature/);
+    // The other two channels: n-type π44 above 1e20 cm⁻³ (band tail), the p-type fit for ⟨100⟩ too.
+    expect(keepOutWarnings('n110', 3e26, 300)).toMatch(/band tail/);
+    expect(keepOutWarnings('n110', 1e25, 300)).toBe('');
+    expect(keepOutWarnings('p100', 3e26, 300)).toMatch(/p-type fit/);
   });
 });
 
