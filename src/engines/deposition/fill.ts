@@ -49,7 +49,12 @@ export interface FillResult {
   closureDepth: number;
   /** Length along which the walls met (a seam, not a void). */
   seamLength: number;
-  /** Time to close, in units of (half the top width / growth rate). */
+  /**
+   * Time to close, in units of (half the top width / growth rate). Exact for conformal and
+   * bottom-up growth; for a sticking-limited pinch only to the slice height (a neck of width r in a
+   * slice of height dz gets a wall flux falling as r/dz, so its last instant depends on dz), which
+   * is why no quantity publishes it.
+   */
   closureTime: number;
   /** Widths along the depth at a few moments, for the cross-section. */
   history: Array<{ time: number; widths: number[]; bottom: number }>;
