@@ -101,6 +101,22 @@ describe('capacitance of a cylinder electrode', () => {
     expect(surfaceCapacitances({ ...g, bottom: 30 * nm }).outer / reference).toBeCloseTo(0.832, 3);
   });
 
+  it('follows the taper of the inner wall too: a cup widening to its floor against finite-difference slices', () => {
+    // 36 nm top, 89.9° (widening), 1.5 µm: base 36 + 2·1500·tan 0.1° = 41.2360 nm; the cavity runs
+    // from its floor one wall (5 nm) up, 31.2185 nm across inside there, to 26 nm at the rim, 1495 nm
+    // deep. Reference: 400 slices, each a Laplace solve between the plate and the inner wall.
+    const base = 36 * nm + 2 * 1.5 * um * Math.tan(deg(0.1));
+    const g = { cd: 36 * nm, bottom: base, wall: 5 * nm, height: 1.5 * um, thickness: 5 * nm, k: 40 };
+    const floorInside = base - ((base - 36 * nm) * 5 * nm) / (1.5 * um) - 10 * nm;
+    const depth = 1.5 * um - 5 * nm;
+    let reference = 0;
+    for (let i = 0; i < 400; i++) {
+      const r = (floorInside + ((26 * nm - floorInside) * (i + 0.5)) / 400) / 2;
+      reference += (laplaceCoax([r - 5 * nm, r], [40 * EPS0], 400) * depth) / 400;
+    }
+    expectRel(surfaceCapacitances(g).inner, reference, 4);
+  });
+
   it('floor: a parallel plate inside the dielectric on the inner wall, worked by hand', () => {
     // Vertical: inner radius 13 nm, plate radius 13 − 5 = 8 nm:
     // 8.8541878e-12 · 40 · π · (8e-9)² / 5e-9 = 14.2419 aF.
@@ -238,6 +254,7 @@ describe('the signal of a cell precharged off the middle', () => {
     expectRel(at(0.4)['electrical.sense_signal']?.value, 69.820e-3, 4);
     expectRel(at(0.6)['electrical.sense_signal']?.value, 69.820e-3, 4);
     expectRel(at(0.4)['electrical.required_capacitance']?.value, 21.221e-15, 4);
+    expectRel(at(0.6)['electrical.required_capacitance']?.value, 21.221e-15, 4);
   });
   it('asks for no capacitance when the requirement is the whole swing (0.6 V of half of 1.2 V): none reaches it', () => {
     expect(at(0.5, 0.6)['electrical.required_capacitance']).toMatchObject({ value: null, unbounded: 'above' });
@@ -431,6 +448,7 @@ describe('a liner that fills the via toward its bottom (regression: capacitance 
     const names = ['electrical.via_resistance', 'electrical.via_capacitance', 'electrical.via_min_capacitance', 'electrical.via_inductance', 'electrical.via_rc'];
     for (const n of names) expect(q(2.1 * um)[n]?.value, n).toBeNull();
     expect(q(2.1 * um)['electrical.via_capacitance']?.reason).toMatch(/fills the via toward its bottom/);
+    expect(q(2.1 * um)['electrical.via_min_capacitance']?.reason).toMatch(/fills the via toward its bottom/);
     for (const n of names) expect(q(2.0 * um)[n]?.value, n).toBeGreaterThan(0);
   });
 
@@ -474,6 +492,31 @@ describe('the height a cell needs, at its limits', () => {
   it('a cup is at least one wall tall: one that low already meeting the requirement needs just the wall (5 nm)', () => {
     // One wall of outer wall alone holds 9.07832e-9 F/m × 5 nm = 45.4 aF, above the 13.3 aF asked.
     expect(cell(['inner', 'outer'], 1e-4, 0).value).toBe(5 * nm);
+  });
+
+  it('a cell widening to its base meets 24.5 fF below the 2865 nm where its films would meet the neighbours’', () => {
+    // 0.14 V at the end of the refresh: (0.14 · 80 fF + 64 aC)/0.46 V = 24.487 fF (hand); the forward
+    // model at the height found gives it back.
+    const s = cellNode(1.5 * um, ['outer'], 89.9);
+    setter(s)('cell.required_signal', 0.14);
+    const q = quantities(s);
+    const h = q['electrical.required_height']!.value!;
+    expectRel(q['electrical.required_capacitance']?.value, 24.487e-15, 4);
+    expect(h).toBeGreaterThan(1.5 * um);
+    expect(h).toBeLessThan(2865 * nm);
+    expectRel(quantities(cellNode(h, ['outer'], 89.9))['electrical.storage_capacitance']?.value, 24.487e-15, 4);
+  });
+
+  it('a cell narrowing to its base stops where its base comes to a point: 36 nm/(2 tan 0.3°) = 3438 nm at 90.3°', () => {
+    const s = cellNode(1.5 * um, ['outer'], 90.3);
+    setter(s)('cell.required_signal', 0.2);
+    expect(quantities(s)['electrical.required_height']?.reason).toMatch(/above 3438 nm the taper leaves no room/);
+  });
+
+  it('a cell whose film already meets the neighbours’ has no height to offer', () => {
+    const s = cellNode(1.5 * um, ['outer']);
+    setter(s)('cell.dielectric_thickness', 10 * nm);
+    expect(quantities(s)['electrical.required_height']?.reason).toMatch(/neighbouring cylinders meet/);
   });
 
   it('a floor alone does not grow with the height: no height reaches 16.128 fF', () => {
