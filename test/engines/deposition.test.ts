@@ -291,6 +291,23 @@ describe('film steps of a structure', () => {
     expect(missing.status).toBe('incomplete');
   });
 
+  it('asks a quantity of one method only of steps of that method, and a structure without films for its deposition block', () => {
+    const status = (yaml: string, rule: Parameters<typeof makeRule>[0]) => {
+      const r = loadStructure(yaml);
+      if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+      return evaluateRule(makeRule(rule), r.handbook.structures[0]!, new PlanCache());
+    };
+    const seeded = opening('hole', 60, 600, 60, '  - { film: seed, method: pvd, thickness: 5 nm }\n');
+    expect(status(seeded, { quantity: 'deposition.ald_exposure_margin', comparison: 'at_least', limit: 1 }).status).toBe('not-applicable');
+    const named = status(seeded, { quantity: 'deposition.ald_exposure_margin', comparison: 'at_least', limit: 1, film: 'seed' });
+    expect(named.status).toBe('not-applicable');
+    expect(named.reason).toMatch(/film step "seed" is pvd, not ald/);
+    const bare = 'id: test-pillar\ntitle: Bare\nkind: hole\ngeometry: { cd: 60 nm, depth: 600 nm, sidewall_angle: 90 deg }\n';
+    const missing = status(bare, { quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0.5 });
+    expect(missing.status).toBe('incomplete');
+    expect(missing.missing).toEqual(['deposition']);
+  });
+
   it('refuses at load a film name no structure has, and a film on a quantity without film steps', () => {
     const dir = mkdtempSync(join(tmpdir(), 'plumbline-film-'));
     cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
@@ -359,6 +376,22 @@ describe('a film that closes the opening it coats (regression: a 30 nm film in a
     }
     // 2 × 10 nm = 20 nm < 22 nm: a lined opening, with a value.
     expect(quantities(hole(ald('10 nm')))['deposition.step_coverage']?.value).toBe(1);
+  });
+
+  it('says where a film closes a V-shaped hole (60 → 10 nm over 300 nm): at its bottom, or where the walls meet above it', () => {
+    // A saturating 5 nm ALD film leaves 10 − 2 × 5 = 0 at the bottom and more everywhere above it; a
+    // 6 nm, nearly conformal CVD film (s = 1e-4) closes the walls where the hole is under 12 nm wide,
+    // from 288 nm down (60 − 50z/300 = 12, hand); 4 nm of ALD leaves a lined hole.
+    const angle = ((Math.atan2(300, 25) * 180) / Math.PI).toPrecision(12);
+    const vhole = (films: string) => `id: test-pillar\ntitle: V\nkind: hole\ngeometry: { cd: 60 nm, depth: 300 nm, sidewall_angle: ${angle} deg }\ndeposition:\n${films}`;
+    expect(quantities(vhole(ald('5 nm')))['deposition.step_coverage']?.reason).toMatch(/closes the opening at its bottom \(10 nm wide there\): it fills the opening where it is narrower than twice the film/);
+    expect(quantities(vhole(ald('4 nm')))['deposition.step_coverage']?.value).toBe(1);
+    const reason = quantities(vhole('  - { film: liner, method: cvd, thickness: 6 nm, sticking_probability: 0.0001 }\n'))['deposition.step_coverage']!.reason!;
+    const at = /at ([\d.]+) nm below the top \(([\d.]+) nm wide there\): it pinches off/.exec(reason);
+    expect(at, reason).not.toBeNull();
+    expect(Number(at![1])).toBeGreaterThanOrEqual(288);
+    expect(Number(at![1])).toBeLessThan(300);
+    expect(Number(at![2])).toBeLessThanOrEqual(12);
   });
 
   it('counts the earlier films where they are: a 9 nm barrier in what a 5 nm liner leaves has no value', () => {
