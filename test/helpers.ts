@@ -2,6 +2,9 @@
 // so engine and checker tests state their inputs directly in SI.
 import { expect } from 'vitest';
 import type { ArrayLayout, Kind, Param, Rule, Structure } from '../src/model/types.ts';
+import { QUANTITIES } from '../src/engines/index.ts';
+import type { Variant } from '../src/engines/quantity.ts';
+import { shapeOf } from '../src/checker/plan.ts';
 
 /** Assert `actual` equals `expected` to `digits` significant decimal places, relatively. */
 export function expectRel(actual: number | null | undefined, expected: number, digits = 9): void {
@@ -96,4 +99,11 @@ export function copperVia(depth: P, dT: P): { s: Structure; set: (name: string, 
   set('keep_out.channel_doping', 1e21);
   set('keep_out.temperature', 300);
   return { s, set };
+}
+
+/** The variant quantity `name` takes for structure `s` (its label, inputs, symbols, formula); throws where it does not apply. */
+export function variantOf(name: string, s: Structure): Variant {
+  const v = QUANTITIES.get(name)!.variant(shapeOf(s));
+  if (!('compute' in v)) throw new Error(`${name} has no variant for ${s.id}: ${JSON.stringify(v)}`);
+  return v;
 }

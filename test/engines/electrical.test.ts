@@ -14,9 +14,7 @@ import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/ev
 import { depletionRadius, inversionPotential, surfaceCapacitances } from '../../src/engines/electrical/index.ts';
 import { solveTridiagonal } from '../../src/engines/numeric.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
-import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
-import { QUANTITIES } from '../../src/engines/index.ts';
-import { shapeOf } from '../../src/checker/plan.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, um, variantOf } from '../helpers.ts';
 
 const EPS0 = 8.8541878128e-12;
 const EPS_SI = 11.9 * EPS0; // Sze & Ng, 3rd ed., Appendix G [memory]
@@ -232,10 +230,7 @@ describe('the parallel-plate comparison each capacitance note gives (hand)', () 
     expectRel(quantities(cellNode(1.5 * um, ['outer', 'inner', 'bottom']))['electrical.storage_capacitance']?.value, 20.484e-15, 4);
   });
   it('shows one term per surface in the formula', () => {
-    const formula = (surfaces: Array<'inner' | 'outer' | 'bottom'>) => {
-      const v = QUANTITIES.get('electrical.storage_capacitance')!.variant(shapeOf(cellNode(1.5 * um, surfaces)));
-      return 'formula' in v ? v.formula : '';
-    };
+    const formula = (surfaces: Array<'inner' | 'outer' | 'bottom'>) => variantOf('electrical.storage_capacitance', cellNode(1.5 * um, surfaces)).formula;
     expect(formula(['outer'])).toMatch(/^C_s = \\int_0\^H \\frac\{2\\pi\\varepsilon_0 k\\,dz\}\{\\ln\\frac\{r_o \+ t_d\}\{r_o\}\},/);
     expect(formula(['outer', 'inner', 'bottom']).split(' + ').length).toBeGreaterThanOrEqual(3);
     expect(formula(['bottom'])).toMatch(/^C_s = \\frac\{\\varepsilon_0 k \\pi \(r_f - t_d\)\^2\}\{t_d\}/);

@@ -26,6 +26,13 @@ function quantities(yaml: string) {
   return evaluateStructure(r.handbook.structures[0]!).quantities;
 }
 
+/** A long march keeps its cross-section frames thinned to between 21 and 41, the first at time 0. */
+function expectThinnedFrames(history: Array<{ time: number }>): void {
+  expect(history.length).toBeGreaterThanOrEqual(21);
+  expect(history.length).toBeLessThanOrEqual(41);
+  expect(history[0]!.time).toBe(0);
+}
+
 const trench = (geometry: string, rest: string) => `id: test-pillar\ntitle: Trench\nkind: trench\ngeometry: { ${geometry} }\n${rest}`;
 
 describe('conformal and bottom-up fills: geometric truths', () => {
@@ -63,9 +70,7 @@ describe('conformal and bottom-up fills: geometric truths', () => {
     expect(r.closureTime).toBeGreaterThanOrEqual(0.99755);
     expect(r.closureTime).toBeLessThan(0.99755 + 1e-3);
     // A long march (over a thousand steps): its frames thinned to between 21 and 41, in time order.
-    expect(r.history.length).toBeGreaterThanOrEqual(21);
-    expect(r.history.length).toBeLessThanOrEqual(41);
-    expect(r.history[0]!.time).toBe(0);
+    expectThinnedFrames(r.history);
     r.history.slice(1).forEach((h, i) => expect(h.time).toBeGreaterThan(r.history[i]!.time));
   });
 
@@ -82,9 +87,7 @@ describe('conformal and bottom-up fills: geometric truths', () => {
     const r = marchFill({ opening: straightOpening(true, 1000e-9, 100e-9, 100e-9), method: 'bottom-up', ratio: 30, slices: 2000 });
     expect(r.voidHeight).toBe(0);
     expect(Math.abs(r.closureTime - 2 / 3)).toBeLessThan(1.7e-4);
-    expect(r.history.length).toBeGreaterThanOrEqual(21);
-    expect(r.history.length).toBeLessThanOrEqual(41);
-    expect(r.history[0]!.time).toBe(0);
+    expectThinnedFrames(r.history);
   });
 
   it('bottom-up growth fast enough to reach the top first leaves neither void nor seam', () => {

@@ -26,10 +26,8 @@ import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/ev
 import { factorBeam, maxDeflection, meshBeam, peakStress, sectionAt, uniformLoad } from '../../src/engines/mechanics/beam.ts';
 
 import { MemorySource } from '../../src/model/memory-source.ts';
-import { QUANTITIES } from '../../src/engines/index.ts';
-import { shapeOf } from '../../src/checker/plan.ts';
 import type { Param, Structure } from '../../src/model/types.ts';
-import { deg, expectRel, makeRule, makeStructure, nm, um } from '../helpers.ts';
+import { deg, expectRel, makeRule, makeStructure, nm, um, variantOf } from '../helpers.ts';
 import { plateModulusAlong, youngsAlong } from './anisotropic-silicon.ts';
 
 // ── An independent beam solver ────────────────────────────────────────────────────────────────
@@ -476,21 +474,16 @@ describe('supports: which span governs, and how the page names it', () => {
   });
 
   it('label the variant by kind, supports and their hold, and show the load as ΔP on a line, F on a round body', () => {
-    const variantOf = (st: Structure) => {
-      const v = QUANTITIES.get('mechanics.collapse_margin')!.variant(shapeOf(st));
-      if (!('compute' in v)) throw new Error('no variant');
-      return v;
-    };
     const one = line(20, 200, 60, 169e9, 0.072, 0, [100 * nm]);
     one.drying!.supportHold = 'clamped';
-    expect(variantOf(one).label).toBe('line, 1 support (clamped)');
-    expect(variantOf(one).symbols?.load).toBe('\\Delta P');
-    expect(variantOf(one).symbols?.support_1).toBe('z_{1}');
-    expect(variantOf(line(20, 200, 60, 169e9, 0.072, 0, [50 * nm, 100 * nm])).label).toBe('line, 2 supports (pinned)');
+    expect(variantOf('mechanics.collapse_margin', one).label).toBe('line, 1 support (clamped)');
+    expect(variantOf('mechanics.collapse_margin', one).symbols?.load).toBe('\\Delta P');
+    expect(variantOf('mechanics.collapse_margin', one).symbols?.support_1).toBe('z_{1}');
+    expect(variantOf('mechanics.collapse_margin', line(20, 200, 60, 169e9, 0.072, 0, [50 * nm, 100 * nm])).label).toBe('line, 2 supports (pinned)');
     const pillar = makeStructure('pillar', { cd: 30 * nm, height: 300 * nm, pitch: 90 * nm, sidewall_angle: Math.PI / 2 }, { array: 'square' });
     addDrying(pillar, 169e9, 0.072, 0, []);
-    expect(variantOf(pillar).label).toBe('pillar, no supports');
-    expect(variantOf(pillar).symbols?.load).toBe('F');
+    expect(variantOf('mechanics.collapse_margin', pillar).label).toBe('pillar, no supports');
+    expect(variantOf('mechanics.collapse_margin', pillar).symbols?.load).toBe('F');
   });
 });
 
@@ -654,10 +647,7 @@ describe('validity flags and formulas of every collapse quantity', () => {
   });
 
   it('show a line’s formulas (plate modulus, s/8, the half-width fibre) and a round body’s (the meniscus force F, δ_crit, the half-diameter fibre)', () => {
-    const formula = (st: Structure, name: string) => {
-      const v = QUANTITIES.get(name)!.variant(shapeOf(st));
-      return 'formula' in v ? v.formula : '';
-    };
+    const formula = (st: Structure, name: string) => variantOf(name, st).formula;
     const l = line(20, 200, 60, 169e9, 0.072);
     const r = pillar(40, 400);
     const markers: Record<string, [RegExp, RegExp]> = {
@@ -676,8 +666,7 @@ describe('validity flags and formulas of every collapse quantity', () => {
       expect(formula(l, name), name).not.toBe(formula(r, name));
     }
     // The critical length's derivation shows the span and the deflection that set it.
-    const inputs = QUANTITIES.get('mechanics.critical_height')!.variant(shapeOf(l));
-    expect('inputs' in inputs ? inputs.inputs : {}).toMatchObject({ length: 'mechanics.free_length', deflection: 'mechanics.tip_deflection' });
+    expect(variantOf('mechanics.critical_height', l).inputs).toMatchObject({ length: 'mechanics.free_length', deflection: 'mechanics.tip_deflection' });
   });
 });
 
