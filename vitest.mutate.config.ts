@@ -7,7 +7,7 @@
 import { configDefaults, defineConfig, mergeConfig } from 'vitest/config';
 import base from './vitest.config.ts';
 
-export default mergeConfig(
+const config = mergeConfig(
   base,
   defineConfig({
     test: {
@@ -30,3 +30,14 @@ export default mergeConfig(
     },
   }),
 );
+
+// PLUMBLINE_MUTATE_SUITES narrows a run to the test files it lists (comma-separated globs, such as
+// test/engines/deposition.test.ts). For a file the fill march calls in its inner loops
+// (deposition/models.ts), instrumentation makes a test that marches a fill a hundred times
+// slower (one took over a minute), and a run over every suite that reaches the file takes many
+// hours. A score measured so is a lower bound (fewer tests, never more). Replaced, not merged:
+// mergeConfig would append to the include list.
+const only = process.env.PLUMBLINE_MUTATE_SUITES;
+if (only) config.test = { ...config.test, include: only.split(',') };
+
+export default config;

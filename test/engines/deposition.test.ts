@@ -21,7 +21,10 @@ import { aldExposureFactor, aldFlatExposure, arrival, aspectRatioOfFactor, AVOGA
 import { COLE_TUBE, slotTransmissionNystrom } from '../../src/engines/transport/clausing.ts';
 import { depositionMonteCarlo, seededRandom } from '../../src/engines/transport/montecarlo.ts';
 import { ALD_FRONT_MC, COVERAGE_MC } from './deposition-mc-table.ts';
-import { expectRel, makeRule } from '../helpers.ts';
+import { expectRel, makeRule, variantOf } from '../helpers.ts';
+import { QUANTITIES } from '../../src/engines/index.ts';
+import type { QuantityDef } from '../../src/engines/quantity.ts';
+import { shapeOf } from '../../src/checker/plan.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 
@@ -405,5 +408,109 @@ describe('a film that closes the opening it coats (regression: a 30 nm film in a
     expect(shut.value).toBeNull();
     expect(shut.reason).toMatch(/this film \(9 nm on each wall\) closes the opening/);
     expect(quantities(hole(film('liner', '5 nm') + film('barrier', '5 nm')))['deposition.step_coverage[barrier]']?.value).toBeGreaterThan(0);
+  });
+});
+
+describe('film-step bookkeeping, case by case', () => {
+  const load = (yaml: string) => {
+    const r = loadStructure(yaml);
+    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+    return r.handbook.structures[0]!;
+  };
+  const seeded = opening('hole', 60, 600, 60, '  - { film: seed, method: pvd, thickness: 2 nm }\n');
+  // Flat dose of a 200 g/mol precursor at 300 °C on 3e18 sites/m²: 3.855e-4 Pa·s (hand, above).
+  const flat = 3e18 * Math.sqrt(2 * Math.PI * (0.2 / AVOGADRO) * BOLTZMANN * 573.15);
+  const ald = (film: string, t: string, exposure: number) =>
+    `  - { film: ${film}, method: ald, thickness: ${t}, exposure: ${exposure.toPrecision(12)} Pa*s, molar_mass: 200 g/mol, temperature: 300 degC, site_density: 3e18 /m^2 }\n`;
+
+  it('takes the only step there is when a rule names none: PVD into a hole of aspect ratio 10, the coaxial-disc factor at X = 20', () => {
+    // [(2 + X²) − X√(X² + 4)]/2 at X = 2L/d = 20 (Howell, Mengüç & Siegel's catalogue, by hand).
+    const v = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0 }), load(seeded), new PlanCache());
+    expect(v.status).toBe('pass');
+    expectRel(v.value, (2 + 400 - 20 * Math.sqrt(404)) / 2, 6);
+  });
+
+  it('says which method is missing, and lists no per-step quantities for a structure without film steps', () => {
+    const v = evaluateRule(makeRule({ quantity: 'deposition.ald_exposure_margin', comparison: 'at_least', limit: 1 }), load(seeded), new PlanCache());
+    expect(v.reason).toBe('no ald film step');
+    const bare = evaluateStructure(load('id: test-pillar\ntitle: Bare\nkind: hole\ngeometry: { cd: 60 nm, depth: 600 nm, sidewall_angle: 90 deg }\n'));
+    expect(bare.incomplete['deposition.step_coverage']).toEqual(['deposition']);
+    expect(Object.keys(bare.incomplete).filter((k) => k.includes('['))).toEqual([]);
+  });
+
+  it('an under-dosed ALD film ends at Gordon’s front: half the depth at the dose of a = 20 in a hole of aspect ratio 40, and the next step sees the step it leaves', () => {
+    // Vertical hole 60 nm × 2.4 µm. Gordon's 1 + 19a/4 + 3a²/2 at a = 20 is 696 flat doses (hand):
+    // the front stops at 20 CD = 1.2 µm, half the depth. The 10 nm film narrows the top half to 40 nm
+    // and leaves the bottom half 60 nm wide.
+    const s = load(opening('hole', 60, 2400, 60, ald('liner', '10 nm', 696 * flat) + ald('top', '3 nm', 1)));
+    const q = evaluateStructure(s).quantities;
+    expectRel(q['deposition.ald_coated_depth_fraction[liner]']?.value, 0.5, 6);
+    expect(q['deposition.step_coverage[liner]']).toMatchObject({ value: 0, note: 'the dose saturates only the top 50 % of the depth' });
+    // The second step needs the exposure of that stepped hole, built here by hand.
+    const stepped = { elongated: false, z: [0, 1.2e-6, 1.2e-6 + 2.4e-12, 2.4e-6], width: [40e-9, 40e-9, 60e-9, 60e-9] };
+    const needed = flat * aldExposureFactor(stepped);
+    expectRel(q['deposition.ald_required_exposure[top]']?.value, needed, 5);
+    // Neither a hole 40 nm wide all the way down, nor one widening linearly from 40 to 60 nm.
+    const taper = flat * aldExposureFactor(straightOpening(false, 2.4e-6, 40e-9, 60e-9));
+    const narrow = flat * aldExposureFactor(straightOpening(false, 2.4e-6, 40e-9, 40e-9));
+    expect(Math.abs(needed / taper - 1)).toBeGreaterThan(0.05);
+    expect(Math.abs(needed / narrow - 1)).toBeGreaterThan(0.05);
+  });
+
+  it('says an earlier film closed the opening: a saturating 15 nm liner in a 22 nm hole leaves the next film nothing', () => {
+    const s = load(opening('hole', 22, 180, 22, ald('liner', '15 nm', 40) + cvd(0.01).replace('liner', 'barrier')));
+    expect(evaluateStructure(s).quantities['deposition.step_coverage[barrier]']?.reason).toMatch(
+      /^the earlier film step liner \(15 nm on the top\) closes the opening at its mouth \(22 nm wide there\): it pinches off/,
+    );
+  });
+
+  it('has nothing to coat where the geometry leaves no opening: a cup narrowing to a point above its floor, no depth, a wall as tall as the cup', () => {
+    // Cup 40 nm wide, 1 µm tall, 5 nm wall, re-entrant at 91°: the outside narrows to
+    // 40 − 2000·cot 89° = 5.1 nm at the base, so the inside, 30 nm at the rim, reaches zero above
+    // its floor one wall up (hand).
+    const cup = load(
+      'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 91 deg }\ndeposition:\n  - { film: d, method: pvd, thickness: 1 nm }\n',
+    );
+    expect(evaluateStructure(cup).quantities['deposition.step_coverage']?.reason).toMatch(/^the opening closes before its bottom/);
+    // The engine's own guards, called with SI inputs no handbook can load.
+    const v = variantOf('deposition.step_coverage', cup);
+    expect(v.compute({ cd: 40e-9, bottom: 40e-9, height: 10e-9, wall: 10e-9, own: 1e-9 })).toMatchObject({ value: null, reason: expect.stringMatching(/as thick as the cylinder is tall/) });
+    const hole = variantOf('deposition.step_coverage', load(seeded));
+    expect(hole.compute({ depth: 0, cd: 60e-9, bottom: 60e-9, own: 2e-9 })).toMatchObject({ value: null, reason: 'the opening has no depth left to coat' });
+    expect(hole.compute({ depth: 600e-9, cd: 60e-9, bottom: -1e-9, own: 2e-9 })).toMatchObject({ value: null, reason: expect.stringMatching(/^the opening closes before its bottom/) });
+  });
+
+  it('names the earlier steps’ inputs with their step number: t₁, (P t)₁, M₁, T₁, S₁, t₂, s₂', () => {
+    const s = load(opening('hole', 60, 600, 60, ald('liner', '2 nm', 1) + cvd(0.01).replace('liner', 'barrier') + ald('cap', '1 nm', 1)));
+    const v = QUANTITIES.get('deposition.ald_exposure_margin')!.variant(shapeOf(s, 'cap'));
+    if (!('compute' in v)) throw new Error(JSON.stringify(v));
+    expect(Object.fromEntries(Object.keys(v.inputs).filter((k) => k.startsWith('prior_')).map((k) => [k, v.symbols![k]]))).toEqual({
+      prior_1: 't_{1}',
+      prior_1_exposure: '(P t)_{1}',
+      prior_1_molar: 'M_{1}',
+      prior_1_temperature: 'T_{1}',
+      prior_1_sites: 'S_{1}',
+      prior_2: 't_{2}',
+      prior_2_sticking: 's_{2}',
+    });
+  });
+
+  it('shows the formula of the step’s method, and plots against the aspect ratio of what it coats', () => {
+    const formula = (name: string, kind: 'hole' | 'trench', film: string) => variantOf(name, load(opening(kind, 60, 600, 60, film))).formula;
+    expect(formula('deposition.step_coverage', 'hole', ald('liner', '2 nm', 1))).toMatch(/P t \\ge \(P t\)_\{min\}/);
+    expect(formula('deposition.step_coverage', 'hole', cvd(0.01))).toMatch(/A_e G_e = T_e \+ \(1 - s\)/);
+    expect(formula('deposition.step_coverage', 'hole', '  - { film: seed, method: pvd, thickness: 2 nm }\n')).toMatch(/X = 2L\/d/);
+    expect(formula('deposition.step_coverage', 'trench', '  - { film: seed, method: pvd, thickness: 2 nm }\n')).toMatch(/\\sqrt\{1 \+ A\^2\} - A/);
+    expect(formula('deposition.ald_coated_depth_fraction', 'hole', ald('liner', '2 nm', 1))).toMatch(/^\\frac\{z_\{sat\}\}\{L\}/);
+    // Depth over top CD; inside a cup (H − t_w)/(CD − 2t_w): 995/30 for a 1 µm cup of 40 nm with 5 nm walls.
+    const cup = { kind: 'cylinder' } as Parameters<NonNullable<QuantityDef['sweep']>['input']>[0];
+    const hole = { kind: 'hole' } as typeof cup;
+    for (const name of ['deposition.step_coverage', 'deposition.ald_exposure_margin']) {
+      const sweep = QUANTITIES.get(name)!.sweep!;
+      expect([sweep.input(cup), sweep.input(hole)], name).toEqual(['geometry.height', 'geometry.depth']);
+      expect(sweep.axis!.label).toBe('aspect ratio');
+      expect(sweep.axis!.map(1.2e-6, { 'geometry.cd': 60e-9 })).toBeCloseTo(20, 12);
+    }
+    expect(QUANTITIES.get('deposition.ald_exposure_margin')!.sweep!.axis!.map(1e-6, { 'geometry.cd': 40e-9, 'geometry.wall': 5e-9 })).toBeCloseTo(995 / 30, 12);
   });
 });

@@ -8,7 +8,9 @@ import { cpSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { beforeEach, describe, expect, it } from 'vitest';
-import { evaluateStructure } from '../../src/checker/evaluate.ts';
+import { evaluateRule, evaluateStructure, PlanCache } from '../../src/checker/evaluate.ts';
+import type { Noted } from '../../src/engines/quantity.ts';
+import { deg, makeRule, variantOf } from '../helpers.ts';
 import { loadHandbookFolder } from '../../src/pipeline.ts';
 import { marchFill, SEAM_WIDTH_DEFAULT } from '../../src/engines/deposition/fill.ts';
 import { straightOpening } from '../../src/engines/deposition/models.ts';
@@ -227,5 +229,79 @@ describe('a fill after a PVD seed sees the seed’s local thickness (regression:
     const q = quantities(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'deposition:\n  - { film: seed, method: pvd, thickness: 20 nm }\nfill: { method: conformal }\n'));
     expect(Math.abs(q['fill.trapped_width']!.value! / 19.39e-9 - 1)).toBeLessThan(0.02);
     expect(q['fill.void_height']!.value! / 1e-9).toBeCloseTo(955, 6);
+  });
+});
+
+describe('what the fill quantities say, case by case', () => {
+  const load = (yaml: string) => {
+    const dir = mkdtempSync(join(tmpdir(), 'plumbline-fill-'));
+    cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
+    writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
+    const r = loadHandbookFolder(dir);
+    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
+    return r.handbook.structures[0]!;
+  };
+  const rule = (quantity: string) => makeRule({ quantity, comparison: 'at_most', limit: 0 });
+
+  it('concerns openings only, and asks an opening without a fill block for its method', () => {
+    const cup = load('id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 90 deg }\n');
+    expect(evaluateRule(rule('fill.void_height'), cup, new PlanCache())).toMatchObject({ status: 'not-applicable', reason: 'gap fill concerns openings (hole, trench, via)' });
+    const hole = load(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', ''));
+    expect(evaluateRule(rule('fill.void_height'), hole, new PlanCache())).toMatchObject({ status: 'incomplete', missing: ['fill.method'] });
+  });
+
+  it('has nothing to fill below where the taper closes a trench: 60 nm at 87° closes 572 nm down, above a 600 nm depth', () => {
+    // (CD/2)·tan 87° = 30 nm × 19.08 = 572 nm (hand).
+    const q = quantities(trench('cd: 60 nm, depth: 600 nm, sidewall_angle: 87 deg', 'fill: { method: conformal }\n'));
+    expect(q['fill.void_height']).toMatchObject({ value: null, reason: 'the opening closes before its bottom (its taper): there is nothing to fill below that' });
+  });
+
+  it('a conformal fill of a re-entrant trench (100 nm, 200 nm deep, 95°) pinches at the mouth over a void down to where the bottom has risen', () => {
+    // Hand: the mouth closes after 50 nm of growth; the bottom has risen 50 nm to 150 nm; a slice at
+    // depth z is then 2z·tan 5° wide: 26.2 nm at 150 nm (the march's slices give 26.1).
+    const s = load(trench('cd: 100 nm, depth: 200 nm, sidewall_angle: 95 deg', 'fill: { method: conformal }\n'));
+    const r = variantOf('fill.void_height', s).compute({ cd: 100e-9, depth: 200e-9, angle: deg(95), seam: SEAM_WIDTH_DEFAULT }) as Noted & { figure: { void?: { from: number; to: number } } };
+    const at = /^pinched off (\d+) nm below the top, trapping an opening up to ([\d.]+) nm wide$/.exec(r.note);
+    expect(at, r.note).not.toBeNull();
+    expect(Number(at![1])).toBeLessThanOrEqual(2);
+    expect(Math.abs(Number(at![2]) - 2 * 150 * Math.tan(deg(5)))).toBeLessThan(0.5);
+    expect(r.figure.void!.to / 1e-9).toBeCloseTo(150, 0);
+    expect(r.figure.void!.to - r.figure.void!.from).toBeCloseTo(r.value, 15);
+    expect(Number(at![1])).toBe(Math.round(r.figure.void!.from / 1e-9));
+  });
+
+  it('says how a void-free fill closes: with a seam (conformal, vertical), or from the bottom (bottom-up at 30×)', () => {
+    const seam = quantities(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'fill: { method: conformal }\n'));
+    // The bottom rises 50 nm while the walls close: a 950 nm seam above it (hand).
+    expect(seam['fill.void_height']).toMatchObject({ value: 0, note: 'no void: the walls meet in a seam 950 nm long' });
+    // 1 µm of bottom growth takes 33 nm per wall: the walls never meet (hand).
+    const rising = load(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'fill: { method: bottom-up, bottom_up_ratio: 30 }\n'));
+    const r = variantOf('fill.void_height', rising).compute({ cd: 100e-9, depth: 1e-6, angle: deg(90), seam: SEAM_WIDTH_DEFAULT, ratio: 30 }) as Noted & { figure: object };
+    expect(r.note).toBe('closes from the bottom up: no void');
+    expect(r.figure).not.toHaveProperty('void');
+  });
+
+  it('the largest void-free aspect ratio of a conformal re-entrant fill: the bottom must come within a seam width’s pocket of the mouth, 0.5 + w_seam/(2·CD·tan 5°)', () => {
+    // When the 100 nm mouth closes (50 nm of growth) the bottom has risen 50 nm; the pocket left at
+    // depth z is 2z·tan 5°, a seam while under 1 nm: z < 5.72 nm. AR = (50 + 5.72)/100 (hand).
+    const q = quantities(trench('cd: 100 nm, depth: 200 nm, sidewall_angle: 95 deg', 'fill: { method: conformal }\n'));
+    const hand = 0.5 + SEAM_WIDTH_DEFAULT / 1e-9 / (2 * 100 * Math.tan(deg(5)));
+    expect(Math.abs(q['fill.max_fillable_aspect_ratio']!.value! / hand - 1)).toBeLessThan(0.01);
+  });
+
+  it('the largest void-free aspect ratio where nothing voids: four times the depth, or a thousand CDs, or the taper’s closing depth, each said', () => {
+    const ar = (geometry: string) => quantities(trench(geometry, 'fill: { method: conformal }\n'))['fill.max_fillable_aspect_ratio']!;
+    expect(ar('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg')).toMatchObject({ value: 40, note: 'fills void-free beyond four times the depth' });
+    const deep = ar('cd: 10 nm, depth: 3 um, sidewall_angle: 90 deg');
+    expect(deep.value).toBeCloseTo(1000, 9);
+    expect(deep.note).toBe('fills void-free far beyond the structure’s depth');
+    expect(ar('cd: 100 nm, depth: 1 um, sidewall_angle: 89 deg').note).toBe('fills void-free down to where the taper closes (the recipe is not the limit)');
+  });
+
+  it('has no largest aspect ratio when the fill voids even at 0.25: bottom-up at a tenth of the wall rate in a re-entrant trench', () => {
+    // At AR 0.25 the bottom rises 5 nm while the 100 nm mouth closes; the pocket below is up to
+    // 2 × 20 nm × tan 5° = 3.5 nm wide, more than the 1 nm seam width (hand).
+    const q = quantities(trench('cd: 100 nm, depth: 200 nm, sidewall_angle: 95 deg', 'fill: { method: bottom-up, bottom_up_ratio: 0.1 }\n'));
+    expect(q['fill.max_fillable_aspect_ratio']).toMatchObject({ value: null, reason: 'this fill leaves a void (or the opening closes) even at an aspect ratio of 0.25' });
   });
 });

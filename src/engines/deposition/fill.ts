@@ -27,8 +27,10 @@ export interface FillProblem {
   /** The opening to fill, as the earlier film steps left it. */
   opening: Opening;
   method: FillMethod;
-  sticking?: number;
-  ratio?: number;
+  /** Sticking-limited: the growth species' sticking probability. */
+  sticking?: number | undefined;
+  /** Bottom-up: the bottom's growth rate over the walls'. */
+  ratio?: number | undefined;
   /** Slices from top to bottom. */
   slices?: number;
   /** Trapped gaps at least this wide are voids; narrower ones close as seams. */
