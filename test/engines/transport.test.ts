@@ -249,6 +249,18 @@ describe('the numerical pieces of the transmission', () => {
     // Without row exchanges a tiny pivot ruins the answer: [1e-20 1; 1 1]·x = [1 2] → x ≈ [1, 1].
     const y = solveDense(Float64Array.from([1e-20, 1, 1, 1]), Float64Array.from([1, 2]), 2);
     expect([...y]).toEqual([expect.closeTo(1, 12), expect.closeTo(1, 12)]);
+    // The largest pivot is neither the diagonal nor the last row: [1e-20 1 0; 1 1 1; 1e-20 0 1]·x =
+    // [1 3 1] has x ≈ [1, 1, 1] (1e-20 terms dropped, by hand); a tiny pivot loses it.
+    const z = solveDense(Float64Array.from([1e-20, 1, 0, 1, 1, 1, 1e-20, 0, 1]), Float64Array.from([1, 3, 1]), 3);
+    expect([...z]).toEqual([expect.closeTo(1, 12), expect.closeTo(1, 12), expect.closeTo(1, 12)]);
+    // And in the second column, after the first step: [1 0 5; 0 1e-20 1; 0 1 1]·x = [6 1 2] → x ≈ [1, 1, 1]
+    // (the 5 sits where a pivot search in the wrong column would look).
+    const w = solveDense(Float64Array.from([1, 0, 5, 0, 1e-20, 1, 0, 1, 1]), Float64Array.from([6, 1, 2]), 3);
+    expect([...w]).toEqual([expect.closeTo(1, 12), expect.closeTo(1, 12), expect.closeTo(1, 12)]);
+    // Four unknowns, the zeros where a search in the wrong column would look: [1 0 0 0; 0 1e-20 1 0;
+    // 0 1 0 0; 0 1 1 1]·x = [1 1 1 3] → x₂ = 1, x₃ = 1 − 1e-20, x₄ = 1 (hand).
+    const v = solveDense(Float64Array.from([1, 0, 0, 0, 0, 1e-20, 1, 0, 0, 1, 0, 0, 0, 1, 1, 1]), Float64Array.from([1, 1, 1, 3]), 4);
+    expect([...v]).toEqual([1, 1, 1, 1].map((x) => expect.closeTo(x, 12)));
   });
 
   it('the Nyström solution of Clausing’s slot equation agrees with the test-particle Monte Carlo', () => {
@@ -259,6 +271,8 @@ describe('the numerical pieces of the transmission', () => {
       expect(Math.abs(slotTransmissionNystrom(l, 1) - slotTransmissionNystrom(l))).toBeLessThan(1e-6);
     }
     expect(slotTransmissionNystrom(0)).toBe(1);
+    // No depth, or less by rounding, transmits everything (the formulas themselves would exceed 1).
+    for (const f of [tubeTransmission, slotTransmission, slotTransmissionNystrom]) expect(f(-1e-3), f.name).toBe(1);
   });
 
   it('short openings transmit about 1 − l/2, below the tables’ first rows; no length transmits everything', () => {
