@@ -52,11 +52,11 @@ interface Recipe {
   doses?: number;
 }
 
-/** Inputs of a step's recipe, named with `key` in front (the step's own: none; earlier steps: prior_i_). */
-function recipeInputs(f: Film, key: string): Record<string, string> {
+/** Inputs of a step's recipe, by short name (an earlier step's take prior_i_ in front). */
+function recipeInputs(f: Film): Record<string, string> {
   const at = (name: string) => `deposition.${f.film}.${name}`;
-  if (f.method === 'ald') return { [`${key}exposure`]: at('exposure'), [`${key}molar`]: at('molar_mass'), [`${key}temperature`]: at('temperature'), [`${key}sites`]: at('site_density') };
-  if (f.method === 'cvd') return { [`${key}sticking`]: at('sticking_probability') };
+  if (f.method === 'ald') return { exposure: at('exposure'), molar: at('molar_mass'), temperature: at('temperature'), sites: at('site_density') };
+  if (f.method === 'cvd') return { sticking: at('sticking_probability') };
   return {};
 }
 
@@ -74,8 +74,9 @@ function priorFilms(shape: Shape, film?: string): { films: Film[]; inputs: Recor
     const n = i + 1;
     inputs[`prior_${n}`] = `deposition.${f.film}.thickness`;
     symbols[`prior_${n}`] = `t_{${n}}`;
-    for (const [name, input] of Object.entries(recipeInputs(f, ''))) {
+    for (const [name, input] of Object.entries(recipeInputs(f))) {
       inputs[`prior_${n}_${name}`] = input;
+      // A symbol of two letters (P t) takes brackets before its subscript.
       const symbol = SYMBOLS[name]!;
       symbols[`prior_${n}_${name}`] = symbol.includes(' ') ? `(${symbol})_{${n}}` : `${symbol}_{${n}}`;
     }
@@ -229,7 +230,7 @@ function stepQuantity(
       const elongated = isElongated(shape.kind);
       return variant({
         label: `${step.film} (${step.method})`,
-        inputs: { ...geometry, ...priors.inputs, own: `deposition.${step.film}.thickness`, ...recipeInputs(step, '') },
+        inputs: { ...geometry, ...priors.inputs, own: `deposition.${step.film}.thickness`, ...recipeInputs(step) },
         symbols: { ...SYMBOLS, ...priors.symbols },
         formula: formula(step.method, elongated),
         compute: (a: Record<string, number>) => {
