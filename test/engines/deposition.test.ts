@@ -469,11 +469,13 @@ describe('film-step bookkeeping, case by case', () => {
     // 40 − 2000·cot 89° = 5.1 nm at the base, so the inside, 30 nm at the rim, reaches zero above
     // its floor one wall up (hand).
     const cup = load(
-      'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 91 deg }\ndeposition:\n  - { film: d, method: pvd, thickness: 1 nm }\n',
+      'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 91 deg }\ndeposition:\n  - { film: d, method: pvd, thickness: 1 nm }\n  - { film: e, method: pvd, thickness: 1 nm }\n',
     );
-    expect(evaluateStructure(cup).quantities['deposition.step_coverage']?.reason).toMatch(/^the opening closes before its bottom/);
+    const q = evaluateStructure(cup).quantities;
+    for (const step of ['d', 'e']) expect(q[`deposition.step_coverage[${step}]`]?.reason, step).toMatch(/^the opening closes before its bottom/);
     // The engine's own guards, called with SI inputs no handbook can load.
-    const v = variantOf('deposition.step_coverage', cup);
+    const v = QUANTITIES.get('deposition.step_coverage')!.variant(shapeOf(cup, 'd'));
+    if (!('compute' in v)) throw new Error(JSON.stringify(v));
     expect(v.compute({ cd: 40e-9, bottom: 40e-9, height: 10e-9, wall: 10e-9, own: 1e-9 })).toMatchObject({ value: null, reason: expect.stringMatching(/as thick as the cylinder is tall/) });
     const hole = variantOf('deposition.step_coverage', load(seeded));
     expect(hole.compute({ depth: 0, cd: 60e-9, bottom: 60e-9, own: 2e-9 })).toMatchObject({ value: null, reason: 'the opening has no depth left to coat' });
@@ -502,6 +504,9 @@ describe('film-step bookkeeping, case by case', () => {
     expect(formula('deposition.step_coverage', 'hole', '  - { film: seed, method: pvd, thickness: 2 nm }\n')).toMatch(/X = 2L\/d/);
     expect(formula('deposition.step_coverage', 'trench', '  - { film: seed, method: pvd, thickness: 2 nm }\n')).toMatch(/\\sqrt\{1 \+ A\^2\} - A/);
     expect(formula('deposition.ald_coated_depth_fraction', 'hole', ald('liner', '2 nm', 1))).toMatch(/^\\frac\{z_\{sat\}\}\{L\}/);
+    // Gordon's 1 + 19a/4 + 3a²/2 in the required exposure and in the margin.
+    expect(formula('deposition.ald_required_exposure', 'hole', ald('liner', '2 nm', 1))).toMatch(/^\(P t\)_\{min\} = .*\\tfrac\{19\}\{4\}a/);
+    expect(formula('deposition.ald_exposure_margin', 'hole', ald('liner', '2 nm', 1))).toMatch(/^\\frac\{P t\}\{\(P t\)_\{min\}\}.*\\tfrac\{19\}\{4\}a/);
     // Depth over top CD; inside a cup (H − t_w)/(CD − 2t_w): 995/30 for a 1 µm cup of 40 nm with 5 nm walls.
     const cup = { kind: 'cylinder' } as Parameters<NonNullable<QuantityDef['sweep']>['input']>[0];
     const hole = { kind: 'hole' } as typeof cup;
@@ -512,5 +517,7 @@ describe('film-step bookkeeping, case by case', () => {
       expect(sweep.axis!.map(1.2e-6, { 'geometry.cd': 60e-9 })).toBeCloseTo(20, 12);
     }
     expect(QUANTITIES.get('deposition.ald_exposure_margin')!.sweep!.axis!.map(1e-6, { 'geometry.cd': 40e-9, 'geometry.wall': 5e-9 })).toBeCloseTo(995 / 30, 12);
+    const fill = QUANTITIES.get('fill.void_height')!.sweep!;
+    expect([fill.input(hole), fill.axis!.label, fill.axis!.map(1.2e-6, { 'geometry.cd': 60e-9 })]).toEqual(['geometry.depth', 'aspect ratio', expect.closeTo(20, 12)]);
   });
 });
