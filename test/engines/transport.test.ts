@@ -219,6 +219,15 @@ describe('the numerical pieces of the transmission', () => {
     const peak = monotoneCubic([0, 1, 2], [0, 1, 0]);
     expect(peak(0.5)).toBeCloseTo(0.625, 14);
     expect(peak(1.5)).toBeCloseTo(0.625, 14);
+    // An uneven peak (0, 1, 0.5): slopes [1, 0, −0.5]; at t = ½ the first segment gives ⅛·1 + ½·1 =
+    // 0.625 and the second ½·1 + ½·0.5 − ⅛·(−0.5) = 0.8125 (hand). The mean of the secants, 0.25,
+    // would give 0.59375.
+    const uneven = monotoneCubic([0, 1, 2], [0, 1, 0.5]);
+    expect(uneven(0.5)).toBeCloseTo(0.625, 14);
+    expect(uneven(1.5)).toBeCloseTo(0.8125, 14);
+    // A plateau that starts the data (1, 1, 2) and one that ends it (0, 1, 1) stay flat too.
+    for (const x of [0.2, 0.5, 0.9]) expect(monotoneCubic([0, 1, 2], [1, 1, 2])(x)).toBe(1);
+    for (const x of [1.2, 1.5, 1.9]) expect(monotoneCubic([0, 1, 2], [0, 1, 1])(x)).toBe(1);
   });
 
   it('monotone cubic: the Fritsch–Carlson limiter keeps monotone data monotone where plain averaged slopes overshoot', () => {

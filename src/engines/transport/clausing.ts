@@ -47,14 +47,13 @@ export function monotoneCubic(xs: readonly number[], ys: readonly number[]): (x:
   const n = xs.length;
   const d = xs.slice(1).map((x, i) => (ys[i + 1]! - ys[i]!) / (x - xs[i]!));
   const m: number[] = [d[0]!];
+  // Zero slope at a local extremum and at both ends of a flat segment (a product of secants ≤ 0).
   for (let i = 1; i + 1 < n; i++) m.push(d[i - 1]! * d[i]! <= 0 ? 0 : (d[i - 1]! + d[i]!) / 2);
   m.push(d[n - 2]!);
   d.forEach((di, i) => {
-    if (di === 0) {
-      m[i] = 0;
-      m[i + 1] = 0;
-      return;
-    }
+    // A flat segment's slopes are zero already (above); the limiter has nothing to scale.
+    // Stryker disable next-line ConditionalExpression: without the skip, 0/0 makes h NaN and the limiter is skipped all the same
+    if (di === 0) return;
     const a = m[i]! / di;
     const b = m[i + 1]! / di;
     const h = a * a + b * b;
@@ -208,9 +207,8 @@ const SLOT_TAIL_C = SLOT_LAST_W * SLOT_LAST_L - Math.log(SLOT_LAST_L);
 
 /** Transmission probability of a long slot of width w and depth L, as a function of l = L/w. */
 export function slotTransmission(l: number): number {
-  // Stryker disable next-line EqualityOperator: at l = 0 the formulas below give 1 as well
-  if (l <= 0) return 1;
-  // Below the table the Nyström solve itself is cheap (two panels, twelve points).
+  // Below the table the Nyström solve itself is cheap (two panels, twelve points); it also gives 1
+  // for no depth.
   // Stryker disable next-line EqualityOperator: the table's first row is this solve, to its digits
   if (l < SLOT_FIRST_L) return slotTransmissionNystrom(l);
   // Stryker disable next-line EqualityOperator: the tail is matched to the table's last row there
