@@ -61,13 +61,17 @@ export function widthAt(o: Opening, z: number): number {
 
 /** Linear interpolation in a rising table, held at its ends. */
 function interpolate(xs: readonly number[], ys: readonly number[], x: number): number {
+  // At a knot every branch gives the knot's value: the boundaries may fall either way.
+  // Stryker disable next-line EqualityOperator: see above
   if (x <= xs[0]!) return ys[0]!;
   const n = xs.length;
+  // Stryker disable next-line EqualityOperator: see above
   if (x >= xs[n - 1]!) return ys[n - 1]!;
   let lo = 0;
   let hi = n - 1;
   while (hi - lo > 1) {
     const mid = (lo + hi) >> 1;
+    // Stryker disable next-line EqualityOperator: see above
     if (xs[mid]! <= x) lo = mid;
     else hi = mid;
   }
@@ -321,11 +325,15 @@ export function aldExposureFactor(o: Opening, to = depthOf(o)): number {
  */
 export function aldSaturatedDepth(o: Opening, factor: number): number {
   const depth = depthOf(o);
+  // Stryker disable next-line EqualityOperator: an exposure exactly the opening's need, either way
   if (aldExposureFactor(o) <= factor) return depth;
-  if (factor <= 1) return 0;
+  // Bisection to 1e-9 of the depth (30 halvings). Below one flat dose it ends at 0: the factor of
+  // an opening cut off at the mouth is 1.
   let [lo, hi] = [0, depth];
-  for (let i = 0; i < 60 && hi - lo > 1e-9 * depth; i++) {
+  // Stryker disable next-line EqualityOperator: a bracket of exactly 1e-9 of the depth, either way
+  while (hi - lo > 1e-9 * depth) {
     const mid = (lo + hi) / 2;
+    // Stryker disable next-line EqualityOperator: an exposure exactly the need at mid, either way
     if (aldExposureFactor(o, mid) <= factor) lo = mid;
     else hi = mid;
   }
