@@ -35,10 +35,15 @@ function loadStructure(yaml: string) {
   return loadHandbookFolder(dir);
 }
 
-function quantities(yaml: string) {
+/** The one structure of a handbook that loads without diagnostics. */
+function structureOf(yaml: string) {
   const r = loadStructure(yaml);
   if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
-  return evaluateStructure(r.handbook.structures[0]!).quantities;
+  return r.handbook.structures[0]!;
+}
+
+function quantities(yaml: string) {
+  return evaluateStructure(structureOf(yaml)).quantities;
 }
 
 /** A hole or trench of top CD `cd` nm, `depth` nm deep, narrowing to `bottom` nm, with the film steps given. */
@@ -412,11 +417,6 @@ describe('a film that closes the opening it coats (regression: a 30 nm film in a
 });
 
 describe('film-step bookkeeping, case by case', () => {
-  const load = (yaml: string) => {
-    const r = loadStructure(yaml);
-    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
-    return r.handbook.structures[0]!;
-  };
   const seeded = opening('hole', 60, 600, 60, '  - { film: seed, method: pvd, thickness: 2 nm }\n');
   // Flat dose of a 200 g/mol precursor at 300 °C on 3e18 sites/m²: 3.855e-4 Pa·s (hand, above).
   const flat = 3e18 * Math.sqrt(2 * Math.PI * (0.2 / AVOGADRO) * BOLTZMANN * 573.15);
@@ -425,15 +425,15 @@ describe('film-step bookkeeping, case by case', () => {
 
   it('takes the only step there is when a rule names none: PVD into a hole of aspect ratio 10, the coaxial-disc factor at X = 20', () => {
     // [(2 + X²) − X√(X² + 4)]/2 at X = 2L/d = 20 (Howell, Mengüç & Siegel's catalogue, by hand).
-    const v = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0 }), load(seeded), new PlanCache());
+    const v = evaluateRule(makeRule({ quantity: 'deposition.step_coverage', comparison: 'at_least', limit: 0 }), structureOf(seeded), new PlanCache());
     expect(v.status).toBe('pass');
     expectRel(v.value, (2 + 400 - 20 * Math.sqrt(404)) / 2, 6);
   });
 
   it('says which method is missing, and lists no per-step quantities for a structure without film steps', () => {
-    const v = evaluateRule(makeRule({ quantity: 'deposition.ald_exposure_margin', comparison: 'at_least', limit: 1 }), load(seeded), new PlanCache());
+    const v = evaluateRule(makeRule({ quantity: 'deposition.ald_exposure_margin', comparison: 'at_least', limit: 1 }), structureOf(seeded), new PlanCache());
     expect(v.reason).toBe('no ald film step');
-    const bare = evaluateStructure(load('id: test-pillar\ntitle: Bare\nkind: hole\ngeometry: { cd: 60 nm, depth: 600 nm, sidewall_angle: 90 deg }\n'));
+    const bare = evaluateStructure(structureOf('id: test-pillar\ntitle: Bare\nkind: hole\ngeometry: { cd: 60 nm, depth: 600 nm, sidewall_angle: 90 deg }\n'));
     expect(bare.incomplete['deposition.step_coverage']).toEqual(['deposition']);
     expect(Object.keys(bare.incomplete).filter((k) => k.includes('['))).toEqual([]);
   });
@@ -442,7 +442,7 @@ describe('film-step bookkeeping, case by case', () => {
     // Vertical hole 60 nm × 2.4 µm. Gordon's 1 + 19a/4 + 3a²/2 at a = 20 is 696 flat doses (hand):
     // the front stops at 20 CD = 1.2 µm, half the depth. The 10 nm film narrows the top half to 40 nm
     // and leaves the bottom half 60 nm wide.
-    const s = load(opening('hole', 60, 2400, 60, ald('liner', '10 nm', 696 * flat) + ald('top', '3 nm', 1)));
+    const s = structureOf(opening('hole', 60, 2400, 60, ald('liner', '10 nm', 696 * flat) + ald('top', '3 nm', 1)));
     const q = evaluateStructure(s).quantities;
     expectRel(q['deposition.ald_coated_depth_fraction[liner]']?.value, 0.5, 6);
     expect(q['deposition.step_coverage[liner]']).toMatchObject({ value: 0, note: 'the dose saturates only the top 50 % of the depth' });
@@ -458,7 +458,7 @@ describe('film-step bookkeeping, case by case', () => {
   });
 
   it('says an earlier film closed the opening: a saturating 15 nm liner in a 22 nm hole leaves the next film nothing', () => {
-    const s = load(opening('hole', 22, 180, 22, ald('liner', '15 nm', 40) + cvd(0.01).replace('liner', 'barrier')));
+    const s = structureOf(opening('hole', 22, 180, 22, ald('liner', '15 nm', 40) + cvd(0.01).replace('liner', 'barrier')));
     expect(evaluateStructure(s).quantities['deposition.step_coverage[barrier]']?.reason).toMatch(
       /^the earlier film step liner \(15 nm on the top\) closes the opening at its mouth \(22 nm wide there\): it pinches off/,
     );
@@ -468,7 +468,7 @@ describe('film-step bookkeeping, case by case', () => {
     // Cup 40 nm wide, 1 µm tall, 5 nm wall, re-entrant at 91°: the outside narrows to
     // 40 − 2000·cot 89° = 5.1 nm at the base, so the inside, 30 nm at the rim, reaches zero above
     // its floor one wall up (hand).
-    const cup = load(
+    const cup = structureOf(
       'id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 91 deg }\ndeposition:\n  - { film: d, method: pvd, thickness: 1 nm }\n  - { film: e, method: pvd, thickness: 1 nm }\n',
     );
     const q = evaluateStructure(cup).quantities;
@@ -477,13 +477,13 @@ describe('film-step bookkeeping, case by case', () => {
     const v = QUANTITIES.get('deposition.step_coverage')!.variant(shapeOf(cup, 'd'));
     if (!('compute' in v)) throw new Error(JSON.stringify(v));
     expect(v.compute({ cd: 40e-9, bottom: 40e-9, height: 10e-9, wall: 10e-9, own: 1e-9 })).toMatchObject({ value: null, reason: expect.stringMatching(/as thick as the cylinder is tall/) });
-    const hole = variantOf('deposition.step_coverage', load(seeded));
+    const hole = variantOf('deposition.step_coverage', structureOf(seeded));
     expect(hole.compute({ depth: 0, cd: 60e-9, bottom: 60e-9, own: 2e-9 })).toMatchObject({ value: null, reason: 'the opening has no depth left to coat' });
     expect(hole.compute({ depth: 600e-9, cd: 60e-9, bottom: -1e-9, own: 2e-9 })).toMatchObject({ value: null, reason: expect.stringMatching(/^the opening closes before its bottom/) });
   });
 
   it('names the earlier steps’ inputs with their step number: t₁, (P t)₁, M₁, T₁, S₁, t₂, s₂', () => {
-    const s = load(opening('hole', 60, 600, 60, ald('liner', '2 nm', 1) + cvd(0.01).replace('liner', 'barrier') + ald('cap', '1 nm', 1)));
+    const s = structureOf(opening('hole', 60, 600, 60, ald('liner', '2 nm', 1) + cvd(0.01).replace('liner', 'barrier') + ald('cap', '1 nm', 1)));
     const v = QUANTITIES.get('deposition.ald_exposure_margin')!.variant(shapeOf(s, 'cap'));
     if (!('compute' in v)) throw new Error(JSON.stringify(v));
     expect(Object.fromEntries(Object.keys(v.inputs).filter((k) => k.startsWith('prior_')).map((k) => [k, v.symbols![k]]))).toEqual({
@@ -498,7 +498,7 @@ describe('film-step bookkeeping, case by case', () => {
   });
 
   it('shows the formula of the step’s method, and plots against the aspect ratio of what it coats', () => {
-    const formula = (name: string, kind: 'hole' | 'trench', film: string) => variantOf(name, load(opening(kind, 60, 600, 60, film))).formula;
+    const formula = (name: string, kind: 'hole' | 'trench', film: string) => variantOf(name, structureOf(opening(kind, 60, 600, 60, film))).formula;
     expect(formula('deposition.step_coverage', 'hole', ald('liner', '2 nm', 1))).toMatch(/P t \\ge \(P t\)_\{min\}/);
     expect(formula('deposition.step_coverage', 'hole', cvd(0.01))).toMatch(/A_e G_e = T_e \+ \(1 - s\)/);
     expect(formula('deposition.step_coverage', 'hole', '  - { film: seed, method: pvd, thickness: 2 nm }\n')).toMatch(/X = 2L\/d/);

@@ -19,13 +19,18 @@ import { referenceMarch } from './fill-reference.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 
-function quantities(yaml: string) {
+/** The one structure of a handbook that loads without diagnostics. */
+function structureOf(yaml: string) {
   const dir = mkdtempSync(join(tmpdir(), 'plumbline-fill-'));
   cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
   writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
   const r = loadHandbookFolder(dir);
   if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
-  return evaluateStructure(r.handbook.structures[0]!).quantities;
+  return r.handbook.structures[0]!;
+}
+
+function quantities(yaml: string) {
+  return evaluateStructure(structureOf(yaml)).quantities;
 }
 
 /** A long march keeps its cross-section frames thinned to between 21 and 41, the first at time 0. */
@@ -233,20 +238,12 @@ describe('a fill after a PVD seed sees the seed’s local thickness (regression:
 });
 
 describe('what the fill quantities say, case by case', () => {
-  const load = (yaml: string) => {
-    const dir = mkdtempSync(join(tmpdir(), 'plumbline-fill-'));
-    cpSync(join(ROOT, 'test/fixtures/ok_minimal'), dir, { recursive: true });
-    writeFileSync(join(dir, 'structures', 'test-pillar.yaml'), yaml);
-    const r = loadHandbookFolder(dir);
-    if (!r.ok) throw new Error(JSON.stringify(r.diagnostics));
-    return r.handbook.structures[0]!;
-  };
   const rule = (quantity: string) => makeRule({ quantity, comparison: 'at_most', limit: 0 });
 
   it('concerns openings only, and asks an opening without a fill block for its method', () => {
-    const cup = load('id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 90 deg }\n');
+    const cup = structureOf('id: test-pillar\ntitle: Cup\nkind: cylinder\ngeometry: { cd: 40 nm, height: 1 um, wall: 5 nm, pitch: 60 nm, array: square, sidewall_angle: 90 deg }\n');
     expect(evaluateRule(rule('fill.void_height'), cup, new PlanCache())).toMatchObject({ status: 'not-applicable', reason: 'gap fill concerns openings (hole, trench, via)' });
-    const hole = load(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', ''));
+    const hole = structureOf(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', ''));
     expect(evaluateRule(rule('fill.void_height'), hole, new PlanCache())).toMatchObject({ status: 'incomplete', missing: ['fill.method'] });
   });
 
@@ -259,7 +256,7 @@ describe('what the fill quantities say, case by case', () => {
   it('a conformal fill of a re-entrant trench (100 nm, 200 nm deep, 95°) pinches at the mouth over a void down to where the bottom has risen', () => {
     // Hand: the mouth closes after 50 nm of growth; the bottom has risen 50 nm to 150 nm; a slice at
     // depth z is then 2z·tan 5° wide: 26.2 nm at 150 nm (the march's slices give 26.1).
-    const s = load(trench('cd: 100 nm, depth: 200 nm, sidewall_angle: 95 deg', 'fill: { method: conformal }\n'));
+    const s = structureOf(trench('cd: 100 nm, depth: 200 nm, sidewall_angle: 95 deg', 'fill: { method: conformal }\n'));
     const r = variantOf('fill.void_height', s).compute({ cd: 100e-9, depth: 200e-9, angle: deg(95), seam: SEAM_WIDTH_DEFAULT }) as Noted & { figure: { void?: { from: number; to: number } } };
     const at = /^pinched off (\d+) nm below the top, trapping an opening up to ([\d.]+) nm wide$/.exec(r.note);
     expect(at, r.note).not.toBeNull();
@@ -275,7 +272,7 @@ describe('what the fill quantities say, case by case', () => {
     // The bottom rises 50 nm while the walls close: a 950 nm seam above it (hand).
     expect(seam['fill.void_height']).toMatchObject({ value: 0, note: 'no void: the walls meet in a seam 950 nm long' });
     // 1 µm of bottom growth takes 33 nm per wall: the walls never meet (hand).
-    const rising = load(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'fill: { method: bottom-up, bottom_up_ratio: 30 }\n'));
+    const rising = structureOf(trench('cd: 100 nm, depth: 1 um, sidewall_angle: 90 deg', 'fill: { method: bottom-up, bottom_up_ratio: 30 }\n'));
     const r = variantOf('fill.void_height', rising).compute({ cd: 100e-9, depth: 1e-6, angle: deg(90), seam: SEAM_WIDTH_DEFAULT, ratio: 30 }) as Noted & { figure: object };
     expect(r.note).toBe('closes from the bottom up: no void');
     expect(r.figure).not.toHaveProperty('void');
