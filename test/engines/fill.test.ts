@@ -125,6 +125,8 @@ describe('trapped width and the seam width that makes a gap a void', () => {
     const strict = marchFill({ opening, method: 'conformal', seamWidth: 0.5e-9 });
     expect(strict.voidHeight / 1e-9).toBeCloseTo(945, 6);
     expect(strict.voidWidth / 1e-9).toBeCloseTo(0.945, 3);
+    // Above the void only the mouth slice met: a seam of one 5 nm slice.
+    expect(strict.seamLength / 1e-9).toBeCloseTo(5, 6);
   });
 
   it('publishes the trapped width as a quantity a rule can limit', () => {
