@@ -10,6 +10,9 @@ describe('memo tables', () => {
     const square = (x: number) => table.get(String(x), () => (runs++, x * x));
     expect([square(3), square(3), square(4)]).toEqual([9, 9, 16]);
     expect(runs).toBe(2);
+    // Below its limit a table keeps every key: 3 is still served after 4 was added.
+    expect([square(3), square(4)]).toEqual([9, 16]);
+    expect(runs).toBe(2);
   });
 
   it('stay within their limit: the table empties when full, so an old key is computed again', () => {
