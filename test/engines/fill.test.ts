@@ -129,6 +129,21 @@ describe('trapped width and the seam width that makes a gap a void', () => {
     expect(strict.seamLength / 1e-9).toBeCloseTo(5, 6);
   });
 
+  it('measures the gap below the pinch, not the open column above it: a 100 nm trench narrowing to 40 nm halfway down', () => {
+    // Knots at 500 nm: 100 nm above, 40 nm widening to 41 nm below (slices of 5 nm). The top slice
+    // of the narrow part (centre 502.5 nm, 40.005 nm) closes after 20.0025 nm of growth, while the
+    // 100 nm column above is still 60 nm open; the bottom has risen to 979.9975 nm, so the deepest
+    // open slice is centred at 977.5 nm (40.955 nm): a 0.950 nm gap, slices 101…195 (hand).
+    const opening = { elongated: true, z: [0, 500e-9, 500.001e-9, 1000e-9], width: [100e-9, 100e-9, 40e-9, 41e-9] };
+    const seam = marchFill({ opening, method: 'conformal' });
+    expect(seam.trappedWidth / 1e-9).toBeCloseTo(0.95, 4);
+    expect(seam.voidHeight).toBe(0);
+    const strict = marchFill({ opening, method: 'conformal', seamWidth: 0.5e-9 });
+    expect(strict.voidWidth / 1e-9).toBeCloseTo(0.95, 4);
+    expect(strict.closureDepth / 1e-9).toBeCloseTo(505, 6);
+    expect(strict.voidHeight / 1e-9).toBeCloseTo(475, 6);
+  });
+
   it('publishes the trapped width as a quantity a rule can limit', () => {
     // The same trench as a structure: 90.0573 deg makes the bottom 100 + 2 × 1000 × tan 0.0573° = 101.0 nm.
     const angle = 90 + (Math.atan(0.5 / 1000) * 180) / Math.PI;
