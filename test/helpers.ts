@@ -5,6 +5,7 @@ import type { ArrayLayout, Kind, Param, Rule, Structure } from '../src/model/typ
 import { QUANTITIES } from '../src/engines/index.ts';
 import type { Variant } from '../src/engines/quantity.ts';
 import { shapeOf } from '../src/checker/plan.ts';
+import type { CornerNote, Verdict } from '../src/checker/evaluate.ts';
 
 /** Assert `actual` equals `expected` to `digits` significant decimal places, relatively. */
 export function expectRel(actual: number | null | undefined, expected: number, digits = 9): void {
@@ -30,7 +31,7 @@ const POS = { file: 'test', line: 1, column: 1 };
 export function makeStructure(
   kind: Kind,
   geometry: Record<string, P>,
-  opts: { id?: string; array?: ArrayLayout; tags?: string[] } = {},
+  opts: { id?: string; array?: ArrayLayout; tags?: string[]; uniform?: string[]; correlations?: Array<[string, string, number]> } = {},
 ): Structure {
   const params = new Map<string, Param>();
   for (const [k, v] of Object.entries(geometry)) {
@@ -44,6 +45,7 @@ export function makeStructure(
       unit,
       written: String(value),
       origin: { type: 'handbook', pos: POS },
+      ...(opts.uniform?.includes(k) ? { spread: 'uniform' as const } : {}),
     });
   }
   const array = opts.array ?? (kind === 'trench' || kind === 'line' ? 'lines' : undefined);
@@ -55,6 +57,7 @@ export function makeStructure(
     tags: opts.tags ?? [],
     params,
     materialRoles: {},
+    correlations: (opts.correlations ?? []).map(([a, b, coefficient]) => ({ inputs: [`geometry.${a}`, `geometry.${b}`] as [string, string], coefficient, pos: POS })),
     file: 'test',
     pos: POS,
   };
@@ -106,4 +109,14 @@ export function variantOf(name: string, s: Structure): Variant {
   const v = QUANTITIES.get(name)!.variant(shapeOf(s));
   if (!('compute' in v)) throw new Error(`${name} has no variant for ${s.id}: ${JSON.stringify(v)}`);
   return v;
+}
+
+/** The deciding corner of a worst-case verdict (undefined for other modes). */
+export function worstCornerOf(v: Pick<Verdict, 'mode'>): CornerNote[] | undefined {
+  return v.mode?.kind === 'worst-case' ? v.mode.worstCorner : undefined;
+}
+
+/** How many tolerance corners a worst-case verdict evaluated (undefined for other modes). */
+export function cornersOf(v: Pick<Verdict, 'mode'>): number | undefined {
+  return v.mode?.kind === 'worst-case' ? v.mode.corners : undefined;
 }

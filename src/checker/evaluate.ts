@@ -6,6 +6,10 @@ import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
+import { comparable, meets, type Point, type ReadyPlan } from './excursions.ts';
+import { MODES, type ModeContext, type ModeOutcome, type ModeResult } from './modes.ts';
+
+export type { CornerNote, FailureEstimate, ModeResult } from './modes.ts';
 
 /** `waived`: a failure an unexpired waiver of the handbook excuses (see `Verdict.waiver`). */
 export type Status = 'pass' | 'fail' | 'waived' | 'incomplete' | 'not-applicable';
@@ -86,12 +90,6 @@ export interface Trace {
   steps: TraceStep[];
 }
 
-export interface CornerNote {
-  name: string;
-  side: 'low' | 'high';
-  value: number;
-}
-
 export interface Verdict {
   rule: string;
   structure: string;
@@ -106,11 +104,12 @@ export interface Verdict {
   /** Why the value is null, or why the verdict is not-applicable. */
   reason?: string;
   unbounded?: 'above' | 'below';
+  /** The value at nominal, when the verdict is decided elsewhere (the worst corner). */
   nominal?: number | null;
   margin: number | null;
   evaluateAt: Rule['evaluateAt'];
-  corners?: number;
-  worstCorner?: CornerNote[];
+  /** What the evaluation mode found (absent when the verdict was not evaluated). */
+  mode?: ModeResult;
   missing?: string[];
   /** For `waived`: the waiver. For a `fail` whose waiver lapsed: that waiver, with `lapsed`. */
   waiver?: WaiverRef;
@@ -142,97 +141,6 @@ export function margin(value: number, limit: number, comparison: Comparison): nu
   if (limit === 0) return null;
   const scale = Math.abs(limit);
   return comparison === 'at_least' ? (value - limit) / scale : (limit - value) / scale;
-}
-
-type ReadyPlan = Extract<Plan, { status: 'ready' }>;
-
-interface Point {
-  inputs: number[];
-  value: number | null;
-  reason?: string;
-  unbounded?: 'above' | 'below';
-  sides: Array<'low' | 'high' | 'nominal'>;
-}
-
-/** The value compared with limits: unbounded values compare as ±∞, undefined ones as NaN. */
-function comparable(p: Point): number {
-  if (p.value !== null) return p.value;
-  if (p.unbounded === 'above') return Infinity;
-  if (p.unbounded === 'below') return -Infinity;
-  return NaN;
-}
-
-const MAX_TOLERANCED_INPUTS = 16;
-
-function evaluatePoint(plan: ReadyPlan, inputs: number[], sides: Point['sides']): Point {
-  const run = runPlan(plan, inputs);
-  const last = plan.steps.length - 1;
-  const value = run.values[last] ?? null;
-  const p: Point = { inputs, value, sides };
-  if (value === null) {
-    p.reason = run.reasons[last];
-    if (run.unbounded[last]) p.unbounded = run.unbounded[last];
-  }
-  return p;
-}
-
-/** Nominal point and, for worst-case, the worst of the 2^n tolerance corners. */
-function evaluatePlan(plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Comparison): { nominal: Point; decisive: Point; corners?: number } {
-  const nominalInputs = plan.params.map((p) => p.value);
-  const nominal = evaluatePoint(plan, nominalInputs, plan.params.map(() => 'nominal'));
-  if (mode === 'nominal') return { nominal, decisive: nominal };
-  const tol = plan.params.map((p, i) => (p.low !== undefined && p.high !== undefined ? i : -1)).filter((i) => i >= 0);
-  if (tol.length === 0) return { nominal, decisive: nominal, corners: 1 };
-  if (tol.length > MAX_TOLERANCED_INPUTS) throw new Error(`${plan.quantity} reads ${tol.length} toleranced inputs; corners are limited to ${MAX_TOLERANCED_INPUTS}`);
-  let worst: Point | null = null;
-  let worstMask = 0;
-  const count = 1 << tol.length;
-  const values = new Float64Array(count);
-  for (let mask = 0; mask < count; mask++) {
-    const inputs = nominalInputs.slice();
-    const sides: Point['sides'] = plan.params.map(() => 'nominal');
-    tol.forEach((pi, bit) => {
-      const high = (mask >> bit) & 1;
-      const p = plan.params[pi]!;
-      inputs[pi] = high ? p.high! : p.low!;
-      sides[pi] = high ? 'high' : 'low';
-    });
-    const pt = evaluatePoint(plan, inputs, sides);
-    const v = comparable(pt);
-    values[mask] = v;
-    if (worst === null) worst = pt;
-    else {
-      const w = comparable(worst);
-      // An undefined value is the worst there is; otherwise lowest for at_least, highest for at_most.
-      const worse = Number.isNaN(v) ? !Number.isNaN(w) : !Number.isNaN(w) && (comparison === 'at_least' ? v < w : v > w);
-      if (worse) {
-        worst = pt;
-        worstMask = mask;
-      }
-    }
-  }
-  return { nominal, decisive: withoutIdleInputs(plan, worst!, tol, values, worstMask), corners: count };
-}
-
-/**
- * The worst corner with every toleranced input the value does not depend on put back at nominal,
- * so the corner lists only the inputs that decide it (a keep-out radius that reads the depth only
- * for a validity flag does not list the depth). An input is idle when the corner across its
- * tolerance, already in the sweep, has the same value; the point is then evaluated once more, and
- * kept only if it still gives the deciding value.
- */
-function withoutIdleInputs(plan: ReadyPlan, worst: Point, tol: number[], values: Float64Array, worstMask: number): Point {
-  const target = values[worstMask]!;
-  const idle = tol.filter((_, bit) => Object.is(values[worstMask ^ (1 << bit)], target));
-  if (idle.length === 0) return worst;
-  const inputs = worst.inputs.slice();
-  const sides = worst.sides.slice();
-  for (const i of idle) {
-    inputs[i] = plan.params[i]!.value;
-    sides[i] = 'nominal';
-  }
-  const trial = evaluatePoint(plan, inputs, sides);
-  return Object.is(comparable(trial), target) ? trial : worst;
 }
 
 /** The validity ranges a step's arguments leave (a `holds` check needs every argument known). */
@@ -300,22 +208,19 @@ function traceOf(plan: ReadyPlan, point: Point): Trace {
   return { inputs, steps };
 }
 
-interface Evaluated {
-  nominal: Point;
-  decisive: Point;
-  corners?: number;
-  worstCorner: CornerNote[];
+interface Evaluated extends ModeOutcome {
   trace: Trace;
 }
 
 /**
- * Plans are per structure and quantity, and evaluations per structure, quantity, mode and
- * direction: rules that share a quantity (one at_least, one at_most, or the same limit checked
- * at several severities) share the corner sweep and its trace.
+ * Plans are per structure and quantity, and evaluations per structure, quantity, mode and what
+ * the mode reads of the rule: rules that share a quantity (one at_least, one at_most, or the same
+ * limit checked at several severities) share the nominal run, the corner sweep and its trace.
  */
 export class PlanCache {
   private readonly plans = new Map<Structure, Map<string, Plan>>();
   private readonly evaluations = new Map<Structure, Map<string, Evaluated>>();
+  constructor(private readonly context: ModeContext = { failureProbability: false }) {}
   get(s: Structure, quantity: string, film?: string): Plan {
     let byQ = this.plans.get(s);
     if (!byQ) this.plans.set(s, (byQ = new Map()));
@@ -324,18 +229,15 @@ export class PlanCache {
     if (!plan) byQ.set(key, (plan = buildPlan(s, quantity, film)));
     return plan;
   }
-  evaluate(s: Structure, plan: ReadyPlan, mode: Rule['evaluateAt'], comparison: Comparison): Evaluated {
+  evaluate(s: Structure, plan: ReadyPlan, rule: Rule): Evaluated {
     let byKey = this.evaluations.get(s);
     if (!byKey) this.evaluations.set(s, (byKey = new Map()));
-    const key = `${plan.quantity}[${plan.film ?? ''}]|${mode}|${mode === 'nominal' ? '' : comparison}`;
+    const mode = MODES[rule.evaluateAt];
+    const key = `${plan.quantity}[${plan.film ?? ''}]|${mode.id}|${mode.key(rule)}`;
     let e = byKey.get(key);
     if (!e) {
-      const r = evaluatePlan(plan, mode, comparison);
-      const worstCorner = plan.params.flatMap((p, i): CornerNote[] => {
-        const side = r.decisive.sides[i];
-        return side === 'low' || side === 'high' ? [{ name: p.name, side, value: r.decisive.inputs[i]! }] : [];
-      });
-      e = { ...r, worstCorner, trace: traceOf(plan, r.decisive) };
+      const r = mode.evaluate(plan, rule, s, this.context);
+      e = { ...r, trace: traceOf(plan, r.decisive) };
       byKey.set(key, e);
     }
     return e;
@@ -363,19 +265,13 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
   const plan = plans.get(s, rule.quantity, rule.film);
   if (plan.status === 'not-applicable') return verdict('not-applicable', plan.reason);
   if (plan.status === 'incomplete') return verdict('incomplete', `missing input${plan.missing.length > 1 ? 's' : ''}: ${plan.missing.join(', ')}`, plan.missing);
-  const toleranced = plan.params.filter((p) => p.low !== undefined).length;
-  if (rule.evaluateAt === 'worst-case' && toleranced > MAX_TOLERANCED_INPUTS) {
-    return verdict('incomplete', `${toleranced} toleranced inputs are more than a corner sweep covers (${MAX_TOLERANCED_INPUTS}); evaluate at nominal or drop tolerances that do not matter`, []);
-  }
+  const refusal = MODES[rule.evaluateAt].refuse?.(plan);
+  if (refusal !== undefined) return verdict('incomplete', refusal, []);
 
-  const e = plans.evaluate(s, plan, rule.evaluateAt, rule.comparison);
+  const e = plans.evaluate(s, plan, rule);
   const d = e.decisive;
-  const v = comparable(d);
-  // A value at the limit passes; a relative 1e-12 absorbs floating-point noise (20 V / 22 nm
-  // against 10 MV/cm × 1.1 must not fail by 2e-14 %).
-  const slack = 1e-12 * Math.abs(rule.limit);
-  const pass = Number.isNaN(v) ? false : rule.comparison === 'at_least' ? v >= rule.limit - slack : v <= rule.limit + slack;
-  const worstCase = rule.evaluateAt === 'worst-case';
+  const pass = e.pass ?? meets(comparable(d), rule.limit, rule.comparison);
+  const elsewhere = d !== e.nominal;
   // One literal of fixed shape: absent facts are left undefined (and dropped from JSON).
   return {
     rule: rule.id,
@@ -389,11 +285,10 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     value: d.value,
     reason: d.value === null ? (d.reason ?? 'no value') : undefined,
     unbounded: d.unbounded,
-    nominal: worstCase ? e.nominal.value : undefined,
+    nominal: elsewhere ? e.nominal.value : undefined,
     margin: d.value === null ? null : margin(d.value, rule.limit, rule.comparison),
     evaluateAt: rule.evaluateAt,
-    corners: e.corners,
-    worstCorner: worstCase ? e.worstCorner : undefined,
+    mode: e.result,
     waiver: undefined,
     trace: e.trace,
   };
@@ -405,11 +300,13 @@ export interface EvaluateOptions {
   /** The evaluation date, `YYYY-MM-DD` (UTC): a waiver holds on and before its `expires`. The
    * checker reads no clock; the command says which day it is. */
   on: string;
+  /** Sample each worst case's probability of failure (slower; the report and `explain` ask for it). */
+  failureProbability?: boolean;
 }
 
 /** Every rule on every structure, then the handbook's waivers on the failures, as of `options.on`. */
 export function evaluateHandbook(h: Handbook, options: EvaluateOptions): Results {
-  const plans = new PlanCache();
+  const plans = new PlanCache({ failureProbability: options.failureProbability ?? false });
   const evaluated: Verdict[] = [];
   for (const rule of h.rules) for (const s of h.structures) evaluated.push(evaluateRule(rule, s, plans));
   const { verdicts, waivers } = applyWaivers(evaluated, h, options.on);

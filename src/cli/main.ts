@@ -194,7 +194,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         io.err(!rule ? `no rule "${ruleId}"` : `no structure "${structureId}"`);
         return setExit(2);
       }
-      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache())], loaded.handbook, opts.on ?? todayUtc()).verdicts;
+      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ failureProbability: true }))], loaded.handbook, opts.on ?? todayUtc()).verdicts;
       io.out(renderExplain(rule, s, verdict!));
       setExit(0);
     });
@@ -208,7 +208,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .action(async (opts: { out: string; on?: string; history: boolean }, cmd: Command) => {
       const root = rootOf(cmd);
       const { checkHandbook, FolderSource } = await core();
-      const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc() });
+      const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc(), failureProbability: true });
       if (!outcome.ok) {
         io.err(formatDiagnostics(outcome.diagnostics, 'nothing was written'));
         return setExit(2);
@@ -241,7 +241,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       try {
         const root = rootOf(cmd);
         const { FolderSource, checkHandbook } = await core();
-        serving = await serveSite(root, resolve(root, opts.out), opts.port, io, () => checkHandbook(new FolderSource(root), { on: todayUtc() }));
+        serving = await serveSite(root, resolve(root, opts.out), opts.port, io, () => checkHandbook(new FolderSource(root), { on: todayUtc(), failureProbability: true }));
       } catch (err) {
         throw writeFailure(err) ?? err;
       }

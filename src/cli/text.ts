@@ -6,7 +6,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { CAUTION, STATUS_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
+import { CAUTION, STATUS_WORDS, modeLines, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -112,10 +112,7 @@ export function renderExplain(rule: Rule, s: Structure, v: Verdict): string {
     out.push(v.status === 'waived' ? `${waivedPhrase(w)}; ${waiverPeoplePhrase(w)} (${w.file}:${w.line})` : `${lapsePhrase(w, v.unit)} (${w.file}:${w.line})`);
     if (w.stillWithin) out.push(`the waived value must stay ${floorPhrase(w.stillWithin, v.unit)}`);
   }
-  if (v.evaluateAt === 'worst-case') {
-    out.push(`nominal ${formatValue(v.nominal ?? null, v.unit)}; worst of ${v.corners} corner${v.corners === 1 ? '' : 's'}`);
-    if (v.worstCorner?.length) out.push(`worst corner: ${v.worstCorner.map((c) => `${c.name} ${c.side} (${formatValue(c.value, unitOfParam(v, c.name))})`).join(', ')}`);
-  }
+  out.push(...modeLines(v, (name) => unitOfParam(v, name)));
   const t = v.trace;
   if (t) {
     out.push('', 'Inputs:');

@@ -79,6 +79,12 @@ export interface Variant<A extends string = string> {
   /** TeX symbol for each argument. */
   symbols?: Partial<Record<NoInfer<A>, string>>;
   compute: (args: Record<A, number>) => Outcome;
+  /**
+   * Why one run costs far more than a closed form (a march in time), when it does: evaluations
+   * that sample a plan by the thousand leave out the optional ones (a worst case's probability of
+   * failure) for a plan with such a step, and say so.
+   */
+  costly?: string;
 }
 
 /**

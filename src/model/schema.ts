@@ -48,6 +48,9 @@ function blockSchema(b: InputBlock): JsonSchema {
   return { ...mappingSchema(b, parts), description: b.description };
 }
 
+/** An input's dotted path, as rules, sweeps and variations name it (`geometry.cd`). */
+const INPUT_PATH = '^[a-z][a-z0-9_]*(\\.[a-z0-9_-]+)+$';
+
 export function structureSchema(): JsonSchema {
   return {
     $schema: 'http://json-schema.org/draft-07/schema#',
@@ -82,6 +85,28 @@ export function structureSchema(): JsonSchema {
           properties: { material: { type: 'string' }, ...propertiesFrom(MATERIAL_PROPERTIES), expansion: valueWithUnit('Alias of thermal_expansion.') },
         },
       },
+      variation: {
+        type: 'object',
+        additionalProperties: false,
+        description: 'How toleranced inputs vary when a rule samples them (evaluate_at: yield, and the probability of failure of a worst case). Without it each tolerance band is ±3σ of a normal distribution and inputs vary independently.',
+        properties: {
+          uniform: { type: 'array', minItems: 1, items: { type: 'string', pattern: INPUT_PATH }, description: 'Inputs whose tolerance band is spread evenly instead of ±3σ normal.' },
+          correlated: {
+            type: 'array',
+            minItems: 1,
+            description: 'Pairs of inputs that vary together (a CD and its wall from one litho step).',
+            items: {
+              type: 'object',
+              additionalProperties: false,
+              required: ['inputs', 'coefficient'],
+              properties: {
+                inputs: { type: 'array', minItems: 2, maxItems: 2, items: { type: 'string', pattern: INPUT_PATH } },
+                coefficient: { type: 'number', exclusiveMinimum: -1, exclusiveMaximum: 1, description: 'Correlation of the two inputs\' underlying normal deviates.' },
+              },
+            },
+          },
+        },
+      },
     },
   };
 }
@@ -105,7 +130,18 @@ const ruleProperties = (): JsonSchema => ({
   film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'For quantities of one film step: the film name of the step.' },
   at_least: { type: ['string', 'number'], description: 'Lower limit, in the unit of the quantity.' },
   at_most: { type: ['string', 'number'], description: 'Upper limit, in the unit of the quantity.' },
-  evaluate_at: { type: 'string', enum: ['nominal', 'worst-case'] },
+  evaluate_at: { type: 'string', enum: ['nominal', 'worst-case', 'yield'], description: 'nominal: the written values; worst-case: the worst corner of every toleranced input; yield: the fraction of sampled inputs that pass, against required_yield.' },
+  required_yield: { type: ['string', 'number'], description: 'With evaluate_at: yield, the fraction that must pass: a number below 1 (0.997) or a percentage ("99.7 %").' },
+  sampling: {
+    type: 'object',
+    additionalProperties: false,
+    description: 'How a yield rule samples (all optional).',
+    properties: {
+      confidence: { type: ['string', 'number'], description: 'Two-sided confidence with which the sequential stop decides (default 95 %).' },
+      max_samples: { type: 'integer', minimum: 128, maximum: 1048576, description: 'Most samples before the point estimate decides (default 16384).' },
+      seed: { type: 'integer', minimum: 0, maximum: 4294967295, description: 'Seed of the shifted quasi-random sequence (default 1).' },
+    },
+  },
   severity: { type: 'string', enum: ['blocking', 'advisory'] },
   rationale: { type: 'string' },
   references: { type: 'array', items: { type: 'string' } },

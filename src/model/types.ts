@@ -38,6 +38,17 @@ export interface Param {
   written: string;
   /** Where the value came from. */
   origin: ParamOrigin;
+  /** How a toleranced value varies within its band when sampled: absent, the band is ±3σ of a
+   * normal distribution; `uniform`, evenly spread over it (a structure's `variation:` says so). */
+  spread?: 'uniform';
+}
+
+/** Two toleranced inputs of a structure that vary together (a CD and its wall from one litho step). */
+export interface Correlation {
+  inputs: [string, string];
+  /** Correlation coefficient of the underlying normal deviates, −1 … 1. */
+  coefficient: number;
+  pos: SourcePos;
 }
 
 export type ParamOrigin =
@@ -110,12 +121,14 @@ export interface Structure extends ShapeFacts {
   params: Map<string, Param>;
   /** Material id used in each role (`body`, `fill`, ...). */
   materialRoles: Record<string, string>;
+  /** Inputs that vary together when sampled (from `variation:`); empty when none are stated. */
+  correlations: Correlation[];
   file: string;
   pos: SourcePos;
 }
 
 export type Comparison = 'at_least' | 'at_most';
-export type EvaluateAt = 'nominal' | 'worst-case';
+export type EvaluateAt = 'nominal' | 'worst-case' | 'yield';
 export type Severity = 'blocking' | 'advisory';
 
 /** Which structures a rule (or a waiver) selects: all given criteria must hold; {} selects every structure. */
@@ -140,11 +153,27 @@ export interface Rule {
   /** The limit as written. */
   limitWritten: string;
   evaluateAt: EvaluateAt;
+  /** For `evaluate_at: yield`: the passing fraction required and how it is sampled. */
+  yield?: YieldRequirement;
   severity: Severity;
   rationale: string;
   references: string[];
   file: string;
   pos: SourcePos;
+}
+
+/** What a yield rule asks of sampling. */
+export interface YieldRequirement {
+  /** Fraction of the distribution of inputs that must meet the limit, 0 … 1 (exclusive). */
+  required: number;
+  /** As written (`99.7 %`). */
+  written: string;
+  /** Two-sided confidence with which the sequential stop decides, 0 … 1 (default 0.95). */
+  confidence: number;
+  /** Most samples drawn before the point estimate decides (default 16 384). */
+  maxSamples: number;
+  /** Seed of the shifted quasi-random sequence (default 1): the same seed, the same verdict. */
+  seed: number;
 }
 
 /**

@@ -16,7 +16,7 @@ import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 import { describeDiagnostic } from '../diagnostics/messages.ts';
-import { CAUTION, STATUS_WORDS, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
+import { CAUTION, STATUS_WORDS, failurePhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
 export { urls } from '../model/urls.ts';
@@ -126,9 +126,8 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       evaluateAt: v.evaluateAt,
       reason: v.reason ?? '',
       missing: v.missing ?? [],
-      nominalText: v.evaluateAt === 'worst-case' && v.nominal !== undefined ? formatValue(v.nominal, v.unit) : '',
-      corners: v.corners ?? 0,
-      worstCorner: (v.worstCorner ?? []).map((c) => ({ name: c.name, side: c.side, valueText: formatValue(c.value, unitOfStep(v, c.name)) })),
+      nominalText: v.nominal !== undefined ? formatValue(v.nominal, v.unit) : '',
+      mode: modePage(v),
       inputs: (t?.inputs ?? []).map((i) => ({
         name: i.name,
         label: paramLabel(i.name),
@@ -348,6 +347,45 @@ async function historyOf(pages: HistoryPages | undefined) {
 }
 
 const SWEEP_POINTS = 48;
+
+/**
+ * What the verdict's evaluation mode found, as its template partial (`mode-<kind>.njk`) lays it
+ * out: one shape per mode, formatted here, computed by the checker.
+ */
+function modePage(v: Verdict) {
+  const m = v.mode;
+  if (!m) return { kind: 'none' };
+  switch (m.kind) {
+    case 'nominal':
+      return { kind: m.kind, summary: 'nominal' };
+    case 'worst-case':
+      return {
+        kind: m.kind,
+        summary: `worst case, ${m.corners} corner${m.corners === 1 ? '' : 's'}`,
+        corners: m.corners,
+        worstCorner: m.worstCorner.map((c) => ({ name: c.name, side: c.side, valueText: formatValue(c.value, unitOfStep(v, c.name)) })),
+        failureText: m.failure ? failurePhrase(m.failure) : '',
+        failureSeed: m.failure?.seed ?? 0,
+        failureNotSampled: m.failureNotSampled ?? '',
+      };
+    case 'yield': {
+      const y = yieldPhrases(m);
+      return {
+        kind: m.kind,
+        summary: `yield, required ${m.requiredWritten}`,
+        estimateText: percent(m.estimate),
+        intervalText: `${percent(m.low)} – ${percent(m.high)}`,
+        confidenceText: percent(m.confidence),
+        requiredText: m.requiredWritten,
+        samples: m.samples,
+        failures: m.failures,
+        foundText: y.found,
+        decidedText: y.decided,
+        seed: m.seed,
+      };
+    }
+  }
+}
 
 /**
  * The verdict's quantity against the input its declaration sweeps (the height, say), from the

@@ -13,7 +13,7 @@ import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, SourcePos, Structure } from '../model/types.ts';
 import { urls } from '../model/urls.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { limitPhrase } from './words.ts';
+import { limitPhrase, yieldPhrases } from './words.ts';
 
 // ---------------------------------------------------------------------------------------------
 // The subset of SARIF 2.1.0 this module writes.
@@ -215,8 +215,8 @@ export function decidingPosition(v: Verdict, s: Pick<Structure, 'pos'> | undefin
     const origin = inputs.find((i) => i.name === name)?.origin;
     return origin?.type === 'handbook' ? origin.pos : undefined;
   };
-  if (v.evaluateAt === 'worst-case') {
-    for (const c of v.worstCorner ?? []) {
+  if (v.mode?.kind === 'worst-case') {
+    for (const c of v.mode.worstCorner) {
       const pos = written(c.name);
       if (pos) return pos;
     }
@@ -294,7 +294,7 @@ function quantityWords(v: Verdict): string {
 }
 
 function valueClause(v: Verdict): string {
-  const where = v.evaluateAt === 'worst-case' ? 'at the worst tolerance corner' : 'at nominal';
+  const where = v.mode?.kind === 'worst-case' ? 'at the worst tolerance corner' : 'at nominal';
   if (v.value !== null) return `${formatValue(v.value, v.unit)} ${where}`;
   const end = v.unbounded === 'above' ? '+∞' : v.unbounded === 'below' ? '−∞' : 'undefined';
   return `without a finite value ${where} (${end}: ${v.reason ?? 'no value'})`;
@@ -312,7 +312,10 @@ function resultMessage(v: Verdict): string {
     return `${v.structure} cannot be checked against ${v.rule}: ${what}.`;
   }
   const verb = v.status === 'waived' && v.waiver ? `fails ${v.rule} under waiver ${v.waiver.id}` : `fails ${v.rule}`;
-  const sentence = `${v.structure} ${verb}: ${quantityWords(v)} is ${valueClause(v)}, against a limit of ${limitPhrase(v, v.unit)} (margin ${formatMargin(v.margin)}).`;
+  const sentence =
+    v.mode?.kind === 'yield'
+      ? `${v.structure} ${verb}: with ${quantityWords(v)} required ${limitPhrase(v, v.unit)}, the ${yieldPhrases(v.mode).found} (${valueClause(v)}).`
+      : `${v.structure} ${verb}: ${quantityWords(v)} is ${valueClause(v)}, against a limit of ${limitPhrase(v, v.unit)} (margin ${formatMargin(v.margin)}).`;
   return v.status === 'fail' && v.waiver?.lapsed ? sentence + lapsedClause(v.waiver) : sentence;
 }
 
@@ -330,8 +333,7 @@ function verdictProperties(v: Verdict): PropertyBag {
     margin: v.margin,
     evaluateAt: v.evaluateAt,
     ...(v.nominal !== undefined ? { nominal: v.nominal } : {}),
-    ...(v.corners !== undefined ? { corners: v.corners } : {}),
-    ...(v.worstCorner && v.worstCorner.length ? { worstCorner: v.worstCorner.map((c) => ({ name: c.name, side: c.side, value: c.value })) } : {}),
+    ...(v.mode && v.mode.kind !== 'nominal' ? { mode: JSON.parse(JSON.stringify(v.mode)) as PropertyBag } : {}),
     ...(v.missing && v.missing.length ? { missing: [...v.missing] } : {}),
     ...(v.reason !== undefined ? { reason: v.reason } : {}),
   };

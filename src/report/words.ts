@@ -1,7 +1,8 @@
 // Sentences about verdicts, shared by the terminal and the site.
 import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
 import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
-import { formatValue } from '../model/format.ts';
+import { formatValue, sig } from '../model/format.ts';
+import type { FailureEstimate, ModeResult } from '../checker/modes.ts';
 
 export const CAUTION =
   'Caution: these results are engineering estimates from published models; confirm them on silicon before relying on them. ' +
@@ -37,6 +38,57 @@ export function originPhrase(o: ParamOrigin): string {
 
 export function cornerPhrase(name: string, side: 'low' | 'high', value: number, unit: string): string {
   return `${name} at its ${side} end, ${formatValue(value, unit)}`;
+}
+
+/**
+ * A probability as a percentage, with the digits that tell 99.7 % from 99.73 %: a fraction near 1
+ * keeps two significant digits of its complement, one below ½ two significant digits of itself.
+ */
+export function percent(p: number): string {
+  if (p >= 1) return '100 %';
+  if (p <= 0) return '0 %';
+  if (p < 0.5) return `${sig(p * 100, 2)} %`;
+  const digits = Math.min(8, Math.max(1, Math.ceil(-Math.log10(1 - p)) - 1));
+  return `${(p * 100).toFixed(digits).replace(/\.?0+$/, '')} %`;
+}
+
+export function failurePhrase(f: FailureEstimate): string {
+  return `probability of failure ${percent(f.probability)} (${percent(f.confidence)} interval ${percent(f.low)} – ${percent(f.high)}, ${f.samples} samples)`;
+}
+
+/** What a yield evaluation found, in one sentence, and how it was decided. */
+export function yieldPhrases(m: Extract<ModeResult, { kind: 'yield' }>): { found: string; decided: string } {
+  const found =
+    m.samples <= 1 && m.low === m.high
+      ? `yield ${percent(m.estimate)}: no input this quantity reads carries a tolerance, so nothing varies (required ${m.requiredWritten})`
+      : `yield ${percent(m.estimate)} (${percent(m.confidence)} interval ${percent(m.low)} – ${percent(m.high)}; ${m.samples} samples, ${m.failures} failing), required ${m.requiredWritten}`;
+  const decided = m.decided
+    ? m.samples <= 1
+      ? 'decided without sampling'
+      : `the interval decides after ${m.samples} samples`
+    : `the interval did not decide within the maximum of ${m.maxSamples} samples: the estimate decides`;
+  return { found, decided };
+}
+
+/** The lines a mode adds to a verdict's explanation (the terminal's `explain`). */
+export function modeLines(v: Pick<Verdict, 'mode' | 'nominal' | 'unit'>, unitOfInput: (name: string) => string): string[] {
+  const m = v.mode;
+  if (!m) return [];
+  switch (m.kind) {
+    case 'nominal':
+      return [];
+    case 'worst-case': {
+      const out = [`nominal ${formatValue(v.nominal ?? null, v.unit)}; worst of ${m.corners} corner${m.corners === 1 ? '' : 's'}`];
+      if (m.worstCorner.length) out.push(`worst corner: ${m.worstCorner.map((c) => `${c.name} ${c.side} (${formatValue(c.value, unitOfInput(c.name))})`).join(', ')}`);
+      if (m.failure) out.push(`${failurePhrase(m.failure)}, each tolerance a ±3σ band unless the structure says otherwise`);
+      if (m.failureNotSampled) out.push(`probability of failure not sampled: ${m.failureNotSampled}`);
+      return out;
+    }
+    case 'yield': {
+      const y = yieldPhrases(m);
+      return [y.found, y.decided];
+    }
+  }
 }
 
 /** A waiver on the evaluation date, in one word. */

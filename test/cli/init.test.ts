@@ -12,7 +12,7 @@ import { describeScaffold, scaffoldFiles, scaffoldHandbook } from '../../src/cli
 import { Refusal } from '../../src/diagnostics/refusal.ts';
 
 import { lockPathOf, publish } from '../../src/report/publish.ts';
-import { expectRel } from '../helpers.ts';
+import { expectRel, worstCornerOf } from '../helpers.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const FILES = ['handbook.yaml', 'structures/example-trench.yaml', 'rules/example.yaml', '.gitignore', 'ci/plumbline-check.sh'];
@@ -69,7 +69,7 @@ describe('scaffoldHandbook', () => {
     // (300 + 15) nm / (60 − 3) nm = 315/57 = 5.526316; margin (8 − 5.526316)/8 = 0.309211.
     expectRel(ar!.value, 315 / 57);
     expectRel(ar!.margin, (8 - 315 / 57) / 8);
-    expect(ar!.worstCorner?.map((c) => [c.name, c.side])).toEqual([
+    expect(worstCornerOf(ar!)?.map((c) => [c.name, c.side])).toEqual([
       ['geometry.depth', 'high'],
       ['geometry.cd', 'low'],
     ]);

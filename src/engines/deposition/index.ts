@@ -408,6 +408,7 @@ function fillQuantity(def: Omit<QuantityDef, 'variant'>, formula: string, pick: 
       const priors = priorFilms(shape);
       return variant({
         label: `${shape.kind}, ${method} fill`,
+        costly: 'it marches the fill in time, up to a few tenths of a second a run',
         inputs: fillInputs(method, priors.inputs),
         symbols: { cd: '\\mathrm{CD}', depth: 'D', angle: '\\theta', seam: 'w_{seam}', sticking: 's', ratio: 'R_b', ...priors.symbols },
         formula,

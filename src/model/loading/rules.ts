@@ -1,7 +1,7 @@
 // A rule file: one rule or a list, each with its quantity, limit and scope.
 import { closest } from 'fastest-levenshtein';
-import type { Kind, QuantityCatalogue, Rule } from '../types.ts';
-import { type Loaded, isMapping, suggest } from './file-report.ts';
+import type { Kind, QuantityCatalogue, Rule, YieldRequirement } from '../types.ts';
+import { type FileReport, type Loaded, isMapping, suggest } from './file-report.ts';
 import { getValidators, reportSchemaErrors } from './schema-errors.ts';
 import { readValue } from './values.ts';
 
@@ -16,7 +16,7 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
   const v = getValidators().rule;
   if (!v(src.value)) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
-      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : ['id', 'title', 'applies_to', 'quantity', 'film', 'at_least', 'at_most', 'evaluate_at', 'severity', 'rationale', 'references'],
+      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : /sampling$/.test(ptr) ? ['confidence', 'max_samples', 'seed'] : ['id', 'title', 'applies_to', 'quantity', 'film', 'at_least', 'at_most', 'evaluate_at', 'required_yield', 'sampling', 'severity', 'rationale', 'references'],
     );
   }
   // Each rule of a list is checked further on its own, so one bad rule does not hide the others.
@@ -53,7 +53,9 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
         else limit = r.value;
       }
     }
-    if (!q || limit === null) return;
+    const evaluateAt = (raw.evaluate_at as Rule['evaluateAt']) ?? 'nominal';
+    const yieldReq = readYield(report, base, raw, evaluateAt);
+    if (!q || limit === null || yieldReq === null) return;
     const at = (raw.applies_to ?? {}) as Record<string, unknown>;
     rules.push({ idPointer: `${base}/id`, rule: {
       id: String(raw.id),
@@ -68,7 +70,8 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
       comparison,
       limit,
       limitWritten: String(limitRaw),
-      evaluateAt: (raw.evaluate_at as Rule['evaluateAt']) ?? 'nominal',
+      evaluateAt,
+      ...(yieldReq ? { yield: yieldReq } : {}),
       severity: (raw.severity as Rule['severity']) ?? 'blocking',
       rationale: typeof raw.rationale === 'string' ? raw.rationale : '',
       references: (raw.references as string[] | undefined) ?? [],
@@ -77,6 +80,49 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
     } });
   });
   return rules;
+}
+
+const DEFAULT_CONFIDENCE = 0.95;
+const DEFAULT_MAX_SAMPLES = 16384;
+const DEFAULT_SEED = 1;
+
+/**
+ * The yield requirement of a rule evaluated for yield; undefined for other modes, null when it is
+ * missing or wrong (reported). `required_yield` and `sampling` belong to yield rules only.
+ */
+function readYield(report: FileReport, base: string, raw: Record<string, unknown>, evaluateAt: Rule['evaluateAt']): YieldRequirement | undefined | null {
+  if (evaluateAt !== 'yield') {
+    for (const key of ['required_yield', 'sampling']) {
+      if (raw[key] !== undefined) report.add('unknown-field', `${base}/${key}`, { expected: `${key} only with evaluate_at: yield` }, 'key');
+    }
+    return undefined;
+  }
+  if (raw.required_yield === undefined) {
+    report.addAt('missing-field', base, `${base}/required_yield`, { expected: 'the fraction that must pass, as 0.997 or "99.7 %"' });
+    return null;
+  }
+  const required = readFraction(report, `${base}/required_yield`, raw.required_yield);
+  const s = isMapping(raw.sampling) ? raw.sampling : {};
+  const confidence = s.confidence === undefined ? DEFAULT_CONFIDENCE : readFraction(report, `${base}/sampling/confidence`, s.confidence);
+  if (required === null || confidence === null) return null;
+  return {
+    required,
+    written: String(raw.required_yield),
+    confidence,
+    maxSamples: typeof s.max_samples === 'number' ? s.max_samples : DEFAULT_MAX_SAMPLES,
+    seed: typeof s.seed === 'number' ? s.seed : DEFAULT_SEED,
+  };
+}
+
+/** A fraction strictly between 0 and 1, written as a number (0.997) or a percentage ("99.7 %"). */
+function readFraction(report: FileReport, pointer: string, raw: unknown): number | null {
+  const pct = typeof raw === 'string' ? /^\s*([0-9]*\.?[0-9]+(?:[eE][-+]?[0-9]+)?)\s*%\s*$/.exec(raw) : null;
+  const value = typeof raw === 'number' ? raw : pct ? Number(pct[1]) / 100 : NaN;
+  if (!(value > 0 && value < 1)) {
+    report.add('bad-value', pointer, { expected: 'a fraction between 0 and 1, exclusive: a number (0.997) or a percentage ("99.7 %")', found: `"${String(raw)}"` });
+    return null;
+  }
+  return value;
 }
 
 /** The ids a rule file writes, read from its raw value (for references to rules that failed to load). */

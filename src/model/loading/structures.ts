@@ -9,6 +9,7 @@ import { FileReport, type Loaded, isMapping, suggest } from './file-report.ts';
 import { materialParam, reportUnknownMaterial, writtenProperty } from './materials.ts';
 import { getValidators, reportSchemaErrors } from './schema-errors.ts';
 import { readValue } from './values.ts';
+import { readVariation } from './variation.ts';
 
 /** Every relation between inputs, at nominal and at every combination of tolerance ends. */
 export function checkRelations(report: FileReport, params: ReadonlyMap<string, Param>, relations: Relation[]): void {
@@ -100,6 +101,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
   }
 
   const facts = readBlocks(raw, { report, params, materials, kind: kindKnown ? kind : undefined });
+  const correlations = readVariation(report, raw.variation, params);
 
   checkRelations(report, params, structureRelations(facts.drying?.supportCount ?? 0));
 
@@ -114,6 +116,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
     ...(typeof raw.description === 'string' ? { description: raw.description } : {}),
     params,
     materialRoles,
+    correlations,
     file: src.file,
     pos: report.pos(''),
   };
@@ -121,7 +124,9 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
 
 /** Keys a structure file may write at a place, for the suggestions of an unknown-field problem. */
 function allowedInStructure(pointer: string): string[] {
-  if (pointer === '') return ['id', 'title', 'kind', 'tags', 'description', 'geometry', ...BLOCK_LIST.map((b) => b.key), 'materials'];
+  if (pointer === '') return ['id', 'title', 'kind', 'tags', 'description', 'geometry', ...BLOCK_LIST.map((b) => b.key), 'materials', 'variation'];
+  if (pointer === '/variation') return ['uniform', 'correlated'];
+  if (/^\/variation\/correlated\/\d+$/.test(pointer)) return ['inputs', 'coefficient'];
   if (pointer === '/geometry') return [...Object.keys(GEOMETRY_PARAMS), 'array'];
   const [, key, part] = pointer.split('/');
   const block = BLOCK_LIST.find((b) => b.key === key);
