@@ -6,7 +6,10 @@ import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
-import { comparable, meets, type Point, type ReadyPlan } from './excursions.ts';
+import { comparable, leversOf, meets, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
+import { structureRelations } from '../model/relations.ts';
+
+export type { Lever } from './excursions.ts';
 import { MODES, type ModeContext, type ModeOutcome, type ModeResult } from './modes.ts';
 
 export type { CornerNote, FailureEstimate, ModeResult } from './modes.ts';
@@ -110,6 +113,10 @@ export interface Verdict {
   evaluateAt: Rule['evaluateAt'];
   /** What the evaluation mode found (absent when the verdict was not evaluated). */
   mode?: ModeResult;
+  /** With details: every input ranked by how much it moves the value, with the values that would pass. */
+  levers?: Lever[];
+  /** With details, why the levers were not worked out (a step too costly to run hundreds of times). */
+  leversNotComputed?: string;
   missing?: string[];
   /** For `waived`: the waiver. For a `fail` whose waiver lapsed: that waiver, with `lapsed`. */
   waiver?: WaiverRef;
@@ -220,7 +227,7 @@ interface Evaluated extends ModeOutcome {
 export class PlanCache {
   private readonly plans = new Map<Structure, Map<string, Plan>>();
   private readonly evaluations = new Map<Structure, Map<string, Evaluated>>();
-  constructor(private readonly context: ModeContext = { failureProbability: false }) {}
+  constructor(readonly context: ModeContext = { detail: false }) {}
   get(s: Structure, quantity: string, film?: string): Plan {
     let byQ = this.plans.get(s);
     if (!byQ) this.plans.set(s, (byQ = new Map()));
@@ -242,6 +249,15 @@ export class PlanCache {
     }
     return e;
   }
+}
+
+/** The structure's relations between inputs, over the plan's inputs (others fixed at their value). */
+function planRelations(plan: ReadyPlan, s: Structure): PlanRelation[] {
+  const index = new Map(plan.params.map((p, i) => [p.name, i]));
+  return structureRelations(s.drying?.supportCount ?? 0).flatMap((r): PlanRelation[] => {
+    if (!r.reads.some((n) => index.has(n)) || !r.reads.every((n) => index.has(n) || s.params.has(n))) return [];
+    return [{ reads: r.reads.map((n) => (index.has(n) ? { index: index.get(n)! } : { value: s.params.get(n)!.value })), holds: r.holds }];
+  });
 }
 
 export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdict {
@@ -272,6 +288,8 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
   const d = e.decisive;
   const pass = e.pass ?? meets(comparable(d), rule.limit, rule.comparison);
   const elsewhere = d !== e.nominal;
+  const costly = plans.context.detail ? plan.steps.find((st) => st.variant.costly) : undefined;
+  const levers = plans.context.detail && !costly ? leversOf(plan, e.nominal, d, rule.limit, rule.comparison, planRelations(plan, s)) : undefined;
   // One literal of fixed shape: absent facts are left undefined (and dropped from JSON).
   return {
     rule: rule.id,
@@ -289,6 +307,8 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     margin: d.value === null ? null : margin(d.value, rule.limit, rule.comparison),
     evaluateAt: rule.evaluateAt,
     mode: e.result,
+    levers,
+    leversNotComputed: costly ? `${costly.def.name}: ${costly.variant.costly}` : undefined,
     waiver: undefined,
     trace: e.trace,
   };
@@ -300,13 +320,13 @@ export interface EvaluateOptions {
   /** The evaluation date, `YYYY-MM-DD` (UTC): a waiver holds on and before its `expires`. The
    * checker reads no clock; the command says which day it is. */
   on: string;
-  /** Sample each worst case's probability of failure (slower; the report and `explain` ask for it). */
-  failureProbability?: boolean;
+  /** Work out each verdict's details: probability of failure, sensitivities, passing values (slower). */
+  detail?: boolean;
 }
 
 /** Every rule on every structure, then the handbook's waivers on the failures, as of `options.on`. */
 export function evaluateHandbook(h: Handbook, options: EvaluateOptions): Results {
-  const plans = new PlanCache({ failureProbability: options.failureProbability ?? false });
+  const plans = new PlanCache({ detail: options.detail ?? false });
   const evaluated: Verdict[] = [];
   for (const rule of h.rules) for (const s of h.structures) evaluated.push(evaluateRule(rule, s, plans));
   const { verdicts, waivers } = applyWaivers(evaluated, h, options.on);

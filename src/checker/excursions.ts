@@ -182,7 +182,7 @@ function sampleOf(p: Param, z: number, u: number): number {
   const low = p.low!;
   const high = p.high!;
   if (p.spread === 'uniform') return low + u * (high - low);
-  return p.value + z * (z < 0 ? p.value - low : high - p.value) / 3;
+  return insideRange(p, p.value + (z * (z < 0 ? p.value - low : high - p.value)) / 3);
 }
 
 export interface SampleOptions {
@@ -244,4 +244,185 @@ export function sampleYield(plan: ReadyPlan, o: SampleOptions & { confidence: nu
     }
   }
   return { samples: n, failures, estimate: (n - failures) / n, low: interval.low, high: interval.high, confidence: o.confidence, decided };
+}
+
+// ---------------------------------------------------------------------------------------------
+// What drives the margin, and what would pass.
+
+/** One input of a verdict: how strongly it moves the value, and which of its values would pass. */
+export interface Lever {
+  name: string;
+  unit: string;
+  /** The input at nominal. */
+  value: number;
+  /**
+   * Elasticity at nominal, (∂Q/∂x)·(x/Q): the percent change of the value per percent of the
+   * input, by central difference over ±0.1 % of x; null where x or Q is 0 or has no value there.
+   */
+  elasticity: number | null;
+  /** The value with this input at the low and at the high end of its tolerance, every other at nominal. */
+  ends?: { low: number; high: number; valueAtLow: number | null; valueAtHigh: number | null };
+  /**
+   * The nominal values of this input that meet the limit, as closed intervals inside `searched`,
+   * every other input held where the verdict is decided (nominal, or the deciding corner, this
+   * input keeping its offset there). Empty when no value in the searched range passes.
+   */
+  passes?: Array<[number, number]>;
+  searched?: [number, number];
+}
+
+const ELASTICITY_STEP = 1e-3;
+const SCAN_POINTS = 24;
+const BISECTIONS = 40;
+
+function valueAt(plan: ReadyPlan, inputs: number[]): number {
+  const run = runPlan(plan, inputs);
+  const last = plan.steps.length - 1;
+  return comparable({ value: run.values[last] ?? null, unbounded: run.unbounded[last] });
+}
+const finiteOrNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+/**
+ * The range the passing values of an input are searched in: a decade either side (±20° for an
+ * angle), such that the value used, x + `offset` (the input's shift at the deciding corner), stays
+ * strictly inside its physical range (a CD of exactly 0 has no aspect ratio).
+ */
+export function searchRange(p: Param, offset = 0): [number, number] | null {
+  const v = p.value;
+  if (v === 0 || !Number.isFinite(v)) return null;
+  let lo = p.unit === 'rad' ? v - (20 * Math.PI) / 180 : v > 0 ? v / 10 : v * 10;
+  let hi = p.unit === 'rad' ? v + (20 * Math.PI) / 180 : v > 0 ? v * 10 : v / 10;
+  const min = p.range?.min === undefined ? undefined : p.range.min - offset;
+  const max = p.range?.max === undefined ? undefined : p.range.max - offset;
+  if (min !== undefined && lo <= min) lo = min + (v - min) * 1e-3;
+  if (max !== undefined && hi >= max) hi = max - (max - v) * 1e-3;
+  return lo < hi && lo < v && v < hi ? [lo, hi] : null;
+}
+
+/** A sampled value held inside the input's physical range (just inside an open end). */
+function insideRange(p: Param, x: number): number {
+  const min = p.range?.min;
+  const max = p.range?.max;
+  if (min !== undefined && x <= min) return min + (p.value - min) * 1e-6;
+  if (max !== undefined && x >= max) return max - (max - p.value) * 1e-6;
+  return x;
+}
+
+/** A relation between inputs a structure must keep (`src/model/relations.ts`), over plan indices. */
+export interface PlanRelation {
+  /** For each input the relation reads: its plan index, or its fixed value when the plan does not read it. */
+  reads: Array<{ index: number } | { value: number }>;
+  holds: (v: number[]) => boolean;
+}
+
+/**
+ * The part of `range` around the input's current value x0 where every relation that reads it
+ * still holds (a support stays below the top, a pitch above the CD), each end found by bisection
+ * from x0, which holds.
+ */
+export function validRange(base: number[], i: number, offset: number, x0: number, range: [number, number], relations: readonly PlanRelation[]): [number, number] {
+  const own = relations.filter((r) => r.reads.some((s) => 'index' in s && s.index === i));
+  if (own.length === 0) return range;
+  const inputs = base.slice();
+  const valid = (x: number) => {
+    inputs[i] = x + offset;
+    return own.every((r) => r.holds(r.reads.map((s) => ('index' in s ? inputs[s.index]! : s.value))));
+  };
+  const edge = (end: number) => {
+    if (valid(end)) return end;
+    let good = x0;
+    let bad = end;
+    for (let n = 0; n < BISECTIONS; n++) {
+      const m = (good + bad) / 2;
+      if (valid(m)) good = m;
+      else bad = m;
+    }
+    return good;
+  };
+  return [edge(range[0]), edge(range[1])];
+}
+
+/**
+ * The nominal values x of input i inside `range` at which the plan meets the limit: a scan of
+ * 24 points (evenly spaced, or geometrically for a range of one sign spanning more than a factor
+ * of 3) together with the `also` points (the current value and its tolerance ends), each change
+ * between pass and fail bisected 40 times to the last passing value. A passing or failing stretch
+ * narrower than the scan's spacing that holds none of these points can be missed.
+ */
+export function passingValues(plan: ReadyPlan, base: number[], i: number, offset: number, range: [number, number], limit: number, comparison: Comparison, also: number[] = []): Array<[number, number]> {
+  const [lo, hi] = range;
+  const geometric = lo > 0 && hi / lo > 3;
+  const grid = Array.from({ length: SCAN_POINTS }, (_, k) => {
+    const t = k / (SCAN_POINTS - 1);
+    return geometric ? lo * Math.pow(hi / lo, t) : lo + (hi - lo) * t;
+  });
+  const xs = [...new Set([...grid, ...also.filter((x) => x > lo && x < hi)])].sort((a, b) => a - b);
+  const inputs = base.slice();
+  const passAt = (x: number) => {
+    inputs[i] = x + offset;
+    return meets(valueAt(plan, inputs), limit, comparison);
+  };
+  const ok = xs.map(passAt);
+  const intervals: Array<[number, number]> = [];
+  let start: number | null = ok[0] ? lo : null;
+  for (let k = 1; k < xs.length; k++) {
+    if (ok[k] === ok[k - 1]) continue;
+    // Bisect between a passing and a failing point; keep the passing end.
+    let a = xs[k - 1]!; // ok[k-1]
+    let b = xs[k]!;
+    for (let n = 0; n < BISECTIONS; n++) {
+      const m = (a + b) / 2;
+      if (passAt(m) === ok[k - 1]) a = m;
+      else b = m;
+    }
+    const passing = ok[k - 1] ? a : b;
+    if (ok[k]) start = passing;
+    else {
+      intervals.push([start!, passing]);
+      start = null;
+    }
+  }
+  if (start !== null) intervals.push([start, hi]);
+  return intervals;
+}
+
+/**
+ * Every input of a verdict ranked by how much of the value it moves across its tolerance (then by
+ * elasticity), with the values of each dimensional or toleranced input that would pass. `decisive`
+ * is where the verdict is decided; `solve` says whether to search passing values (a limit to meet).
+ */
+export function leversOf(plan: ReadyPlan, nominal: Point, decisive: Point, limit: number, comparison: Comparison, relations: readonly PlanRelation[] = []): Lever[] {
+  const q0 = comparable(nominal);
+  const levers = plan.params.map((p, i): Lever => {
+    const x = nominal.inputs[i]!;
+    const at = (v: number) => {
+      const inputs = nominal.inputs.slice();
+      inputs[i] = v;
+      return valueAt(plan, inputs);
+    };
+    let elasticity: number | null = null;
+    if (x !== 0 && Number.isFinite(q0) && q0 !== 0) {
+      const h = Math.abs(x) * ELASTICITY_STEP;
+      const e = ((at(x + h) - at(x - h)) / (2 * h)) * (x / q0);
+      elasticity = finiteOrNull(e);
+    }
+    const lever: Lever = { name: p.name, unit: p.unit, value: x, elasticity };
+    if (p.low !== undefined && p.high !== undefined) {
+      lever.ends = { low: p.low, high: p.high, valueAtLow: finiteOrNull(at(p.low)), valueAtHigh: finiteOrNull(at(p.high)) };
+    }
+    const offset = decisive.inputs[i]! - x;
+    const wide = p.unit === 'm' || p.unit === 'rad' || p.low !== undefined ? searchRange(p, offset) : null;
+    if (wide) {
+      const range = validRange(decisive.inputs, i, offset, x, wide, relations);
+      lever.searched = range;
+      lever.passes = passingValues(plan, decisive.inputs, i, offset, range, limit, comparison, [x, ...(p.low !== undefined ? [p.low, p.high!] : [])]);
+    }
+    return lever;
+  });
+  const swing = (l: Lever) => {
+    if (!l.ends) return -1;
+    const d = Math.abs((l.ends.valueAtHigh ?? NaN) - (l.ends.valueAtLow ?? NaN));
+    return Number.isNaN(d) ? Infinity : d; // an end without a value moves the verdict most
+  };
+  return levers.sort((a, b) => swing(b) - swing(a) || Math.abs(b.elasticity ?? 0) - Math.abs(a.elasticity ?? 0) || (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
 }

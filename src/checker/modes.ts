@@ -58,8 +58,12 @@ export interface ModeOutcome {
 
 /** What the caller asks of every evaluation of a run. */
 export interface ModeContext {
-  /** Sample a worst case's probability of failure (the report and `explain`; a plain check leaves it out for speed). */
-  failureProbability: boolean;
+  /**
+   * Work out the details a reader asks for beyond the verdict: a worst case's probability of
+   * failure, every input's sensitivity and the values that would pass (the report, `explain` and
+   * `check --json`; a plain check leaves them out for speed).
+   */
+  detail: boolean;
 }
 
 export interface EvaluationMode {
@@ -100,9 +104,9 @@ const worstCase: EvaluationMode = {
       return side === 'low' || side === 'high' ? [{ name: param.name, side, value: decisive.inputs[i]! }] : [];
     });
     const costly = plan.steps.find((st) => st.variant.costly);
-    const sampled = ctx.failureProbability && tolerancedInputs(plan).length > 0 && !costly;
+    const sampled = ctx.detail && tolerancedInputs(plan).length > 0 && !costly;
     const failure = sampled ? failureOf(plan, rule.comparison, rule.limit, structure) : undefined;
-    const notSampled = ctx.failureProbability && costly && tolerancedInputs(plan).length ? `${costly.def.name}: ${costly.variant.costly}` : undefined;
+    const notSampled = ctx.detail && costly && tolerancedInputs(plan).length ? `${costly.def.name}: ${costly.variant.costly}` : undefined;
     return {
       nominal: p,
       decisive,

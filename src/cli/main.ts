@@ -76,13 +76,14 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .option('--sarif <file>', 'also write the failing, waived and incomplete verdicts as a SARIF 2.1.0 log')
     .option('--baseline <rev>', 'with --sarif: mark each result new, unchanged, updated or absent against this revision')
     .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
-    .action(async (opts: { json?: boolean; ledger?: boolean; verify?: boolean; sarif?: string; baseline?: string; on?: string }, cmd: Command) => {
+    .option('--detail', "also work out each verdict's sensitivities, passing values and probability of failure (slower; --json carries them)")
+    .action(async (opts: { json?: boolean; ledger?: boolean; verify?: boolean; sarif?: string; baseline?: string; on?: string; detail?: boolean }, cmd: Command) => {
       if (opts.verify && !opts.ledger) throw new InvalidArgumentError('--verify checks the ledger: give it with --ledger');
       if (opts.baseline !== undefined && opts.sarif === undefined) throw new InvalidArgumentError('--baseline marks the results of a SARIF log: give it with --sarif FILE');
       const root = rootOf(cmd);
       const on = opts.on ?? todayUtc();
       const { checkHandbook, FolderSource, renderCheckSummary } = await core();
-      const outcome = checkHandbook(new FolderSource(root), { on });
+      const outcome = checkHandbook(new FolderSource(root), { on, detail: opts.detail === true });
       if (!outcome.ok) {
         io.err(formatDiagnostics(outcome.diagnostics));
         return setExit(exitCodeFor(outcome));
@@ -194,7 +195,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         io.err(!rule ? `no rule "${ruleId}"` : `no structure "${structureId}"`);
         return setExit(2);
       }
-      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ failureProbability: true }))], loaded.handbook, opts.on ?? todayUtc()).verdicts;
+      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ detail: true }))], loaded.handbook, opts.on ?? todayUtc()).verdicts;
       io.out(renderExplain(rule, s, verdict!));
       setExit(0);
     });
@@ -208,7 +209,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .action(async (opts: { out: string; on?: string; history: boolean }, cmd: Command) => {
       const root = rootOf(cmd);
       const { checkHandbook, FolderSource } = await core();
-      const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc(), failureProbability: true });
+      const outcome = checkHandbook(new FolderSource(root), { on: opts.on ?? todayUtc(), detail: true });
       if (!outcome.ok) {
         io.err(formatDiagnostics(outcome.diagnostics, 'nothing was written'));
         return setExit(2);
@@ -241,7 +242,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       try {
         const root = rootOf(cmd);
         const { FolderSource, checkHandbook } = await core();
-        serving = await serveSite(root, resolve(root, opts.out), opts.port, io, () => checkHandbook(new FolderSource(root), { on: todayUtc(), failureProbability: true }));
+        serving = await serveSite(root, resolve(root, opts.out), opts.port, io, () => checkHandbook(new FolderSource(root), { on: todayUtc(), detail: true }));
       } catch (err) {
         throw writeFailure(err) ?? err;
       }

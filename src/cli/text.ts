@@ -6,7 +6,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { CAUTION, STATUS_WORDS, modeLines, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
+import { CAUTION, STATUS_WORDS, leverLines, modeLines, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -131,6 +131,7 @@ export function renderExplain(rule: Rule, s: Structure, v: Verdict): string {
       for (const w of st.warnings) out.push(`    ! outside validity: ${w}`);
     }
   }
+  out.push(...leverLines(v));
   out.push('', CAUTION);
   return out.join('\n');
 }

@@ -2,6 +2,7 @@
 // to. The input blocks (etch, deposition, fill, ...) are declared in blocks.ts. The JSON Schemas and
 // the loader are both generated from these, so a new input is added in one place.
 
+import type { Param } from './types.ts';
 export interface ParamSpec {
   unit: string;
   description: string;
@@ -14,6 +15,12 @@ export interface ParamSpec {
   meaning?: 'difference';
   /** The value used when the block leaves the input out, and how the trace shows it. */
   default?: { value: number; written: string };
+}
+
+/** The physical range a declaration allows, carried on the input (the inverse solve searches inside it). */
+export function rangeOf(spec: ParamSpec): Pick<Param, 'range'> {
+  if (spec.min === undefined && spec.max === undefined) return {};
+  return { range: { ...(spec.min !== undefined ? { min: spec.min } : {}), ...(spec.max !== undefined ? { max: spec.max } : {}) } };
 }
 
 export const GEOMETRY_PARAMS: Record<string, ParamSpec> = {

@@ -41,6 +41,8 @@ export interface Param {
   /** How a toleranced value varies within its band when sampled: absent, the band is ±3σ of a
    * normal distribution; `uniform`, evenly spread over it (a structure's `variation:` says so). */
   spread?: 'uniform';
+  /** The physical range the input's declaration allows (a CD above 0, an angle inside 0 … π), in SI. */
+  range?: { min?: number; max?: number };
 }
 
 /** Two toleranced inputs of a structure that vary together (a CD and its wall from one litho step). */

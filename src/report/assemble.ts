@@ -1,22 +1,23 @@
 // Results → report data: everything the templates show, already worded and formatted. Templates
 // only lay it out; no physics and no pass/fail logic lives in them.
 import { exampleShapes } from '../model/shape-examples.ts';
-import { appliesTo, evaluateStructure, PlanCache, type Results, type StructureQuantity, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
+import { appliesTo, evaluateStructure, margin, PlanCache, type Results, type StructureQuantity, type Verdict, type WaiverUse } from '../checker/evaluate.ts';
 import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Selector, type Structure, type Waiver } from '../model/types.ts';
-import { countsChart, marginChart, sweepChart, trendChart, valueChart } from './charts.ts';
+import { countsChart, marginChart, sweepChart, tornadoChart, trendChart, valueChart } from './charts.ts';
+import { meets } from '../checker/excursions.ts';
 import type { HistoryPages } from './history-pages.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { renderFigure } from './figures.ts';
-import { displayScale, formatMargin, formatValue } from '../model/format.ts';
+import { displayScale, formatMargin, formatValue, sig } from '../model/format.ts';
 import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 import { describeDiagnostic } from '../diagnostics/messages.ts';
-import { CAUTION, STATUS_WORDS, failurePhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
+import { CAUTION, STATUS_WORDS, failurePhrase, passingPhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
 export { urls } from '../model/urls.ts';
@@ -128,6 +129,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       missing: v.missing ?? [],
       nominalText: v.nominal !== undefined ? formatValue(v.nominal, v.unit) : '',
       mode: modePage(v),
+      levers: await leversPage(v),
       inputs: (t?.inputs ?? []).map((i) => ({
         name: i.name,
         label: paramLabel(i.name),
@@ -347,6 +349,46 @@ async function historyOf(pages: HistoryPages | undefined) {
 }
 
 const SWEEP_POINTS = 48;
+
+/** The verdict's inputs ranked by what they move, the tornado chart and what would pass. */
+async function leversPage(v: Verdict) {
+  const levers = v.levers ?? [];
+  const unit = v.unit;
+  const toleranced = levers.filter((l) => l.ends && l.ends.valueAtLow !== null && l.ends.valueAtHigh !== null);
+  const nominal = v.nominal ?? v.value;
+  let chartSvg = '';
+  if (toleranced.length && nominal !== null && nominal !== undefined) {
+    const scale = displayScale(unit, Math.abs(nominal) || Math.abs(v.limit));
+    const pass = (x: number) => (meets(x, v.limit, v.comparison) ? 'pass' : 'fail') as 'pass' | 'fail';
+    chartSvg = await tornadoChart(
+      toleranced.map((l) => ({ label: l.name, low: l.ends!.valueAtLow! * scale.factor, high: l.ends!.valueAtHigh! * scale.factor, lowStatus: pass(l.ends!.valueAtLow!), highStatus: pass(l.ends!.valueAtHigh!) })),
+      nominal * scale.factor,
+      v.limit * scale.factor,
+      `${QUANTITIES.get(v.quantity)?.title ?? v.quantity}${scale.label ? ` (${scale.label})` : ''}`,
+    );
+  }
+  return {
+    notComputed: v.leversNotComputed ?? '',
+    chartSvg,
+    rows: levers.map((l) => ({
+      name: l.name,
+      toleranceText: l.ends ? `${formatValue(l.ends.low, l.unit)} … ${formatValue(l.ends.high, l.unit)}` : '',
+      endsText: l.ends ? `${formatValue(l.ends.valueAtLow, unit)} … ${formatValue(l.ends.valueAtHigh, unit)}` : '',
+      swingText: l.ends && l.ends.valueAtLow !== null && l.ends.valueAtHigh !== null ? swingText(l.ends.valueAtLow, l.ends.valueAtHigh, v) : '',
+      elasticityText: l.elasticity === null ? '—' : `${l.elasticity >= 0 ? '+' : '−'}${sig(Math.abs(l.elasticity), 3)}`,
+      passingText: passingPhrase(l),
+      searchedText: l.searched ? `${formatValue(l.searched[0], l.unit)} … ${formatValue(l.searched[1], l.unit)}` : '',
+    })),
+  };
+}
+
+/** How far the margin moves across a tolerance, in margin points (or in the value's unit for a zero limit). */
+function swingText(a: number, b: number, v: Pick<Verdict, 'limit' | 'comparison' | 'unit'>): string {
+  const ma = margin(a, v.limit, v.comparison);
+  const mb = margin(b, v.limit, v.comparison);
+  if (ma === null || mb === null) return formatValue(Math.abs(b - a), v.unit);
+  return `${sig(Math.abs(mb - ma) * 100, 3)} points`;
+}
 
 /**
  * What the verdict's evaluation mode found, as its template partial (`mode-<kind>.njk`) lays it

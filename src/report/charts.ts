@@ -208,6 +208,38 @@ const KINDS: Record<string, ChartKind> = {
       ],
     } as TopLevelSpec,
   },
+  tornado: {
+    datasets: ['bars', 'ends', 'nominal', 'limit'],
+    xTitleSignal: true,
+    spec: {
+      $schema: SCHEMA,
+      width: 520,
+      height: { step: 26 },
+      layer: [
+        {
+          data: { name: 'bars' },
+          mark: { type: 'bar', color: '#c5ccd6', height: 12 },
+          encoding: {
+            y: { field: 'label', type: 'nominal', sort: { field: 'rank', op: 'min', order: 'ascending' }, title: null, axis: { labelLimit: 260 } },
+            x: { field: 'lowest', type: 'quantitative', title: 'x', scale: { zero: false, nice: true } },
+            x2: { field: 'highest' },
+          },
+        },
+        {
+          data: { name: 'ends' },
+          mark: { type: 'point', filled: true, size: 70 },
+          encoding: {
+            y: { field: 'label', type: 'nominal', sort: { field: 'rank', op: 'min', order: 'ascending' } },
+            x: { field: 'value', type: 'quantitative' },
+            color: { field: 'status', type: 'nominal', scale: STATUS_SCALE, legend: null },
+            shape: { field: 'end', type: 'nominal', scale: { domain: ['low', 'high'], range: ['triangle-left', 'triangle-right'] }, legend: null },
+          },
+        },
+        { data: { name: 'nominal' }, mark: { type: 'rule', color: PALETTE.ink, strokeWidth: 1.5 }, encoding: { x: { field: 'value', type: 'quantitative' } } },
+        { data: { name: 'limit' }, mark: { type: 'rule', color: PALETTE.fail, strokeDash: [5, 3], strokeWidth: 1.5 }, encoding: { x: { field: 'limit', type: 'quantitative' } } },
+      ],
+    } as TopLevelSpec,
+  },
 };
 
 export type ChartKindName = keyof typeof KINDS;
@@ -287,6 +319,36 @@ export function valueChart(rows: ValuePoint[], limit: number, axisTitle: string)
       values: rows.map((r) => ({ label: r.label, value: r.value, status: r.status })),
       nominals: rows.filter((r) => r.nominal !== undefined).map((r) => ({ label: r.label, value: r.nominal })),
       limit: [{ limit }],
+    },
+    axisTitle,
+  );
+}
+
+export interface TornadoBar {
+  label: string;
+  /** The value with the input at the low and at the high end of its tolerance, in display units. */
+  low: number;
+  high: number;
+  lowStatus: 'pass' | 'fail';
+  highStatus: 'pass' | 'fail';
+}
+
+/**
+ * One bar per toleranced input, largest swing first: the value with the input at each end of its
+ * tolerance (◀ low end, ▶ high end, coloured by whether that end passes), the nominal value (solid)
+ * and the limit (dashed).
+ */
+export function tornadoChart(rows: TornadoBar[], nominal: number, limit: number | null, axisTitle: string): Promise<string> {
+  return renderChart(
+    'tornado',
+    {
+      bars: rows.map((r, rank) => ({ label: r.label, rank, lowest: Math.min(r.low, r.high), highest: Math.max(r.low, r.high) })),
+      ends: rows.flatMap((r, rank) => [
+        { label: r.label, rank, value: r.low, end: 'low', status: r.lowStatus },
+        { label: r.label, rank, value: r.high, end: 'high', status: r.highStatus },
+      ]),
+      nominal: [{ value: nominal }],
+      limit: limit === null ? [] : [{ limit }],
     },
     axisTitle,
   );

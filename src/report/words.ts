@@ -3,6 +3,7 @@ import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.
 import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
 import { formatValue, sig } from '../model/format.ts';
 import type { FailureEstimate, ModeResult } from '../checker/modes.ts';
+import type { Lever } from '../checker/excursions.ts';
 
 export const CAUTION =
   'Caution: these results are engineering estimates from published models; confirm them on silicon before relying on them. ' +
@@ -89,6 +90,44 @@ export function modeLines(v: Pick<Verdict, 'mode' | 'nominal' | 'unit'>, unitOfI
       return [y.found, y.decided];
     }
   }
+}
+
+/**
+ * The values of an input that would pass, in words: "passes for geometry.height ≤ 1.97 µm (now
+ * 2.1 µm)"; several intervals joined by "or"; "no value … passes" when none does. Empty when the
+ * input was not searched.
+ */
+export function passingPhrase(l: Lever): string {
+  if (!l.passes || !l.searched) return '';
+  const [lo, hi] = l.searched;
+  const f = (x: number) => formatValue(x, l.unit);
+  const now = ` (now ${f(l.value)})`;
+  if (l.passes.length === 0) return `no ${l.name} in ${f(lo)} … ${f(hi)} passes${now}`;
+  const parts = l.passes.map(([a, b]) => {
+    if (a === lo && b === hi) return `every ${l.name} in ${f(lo)} … ${f(hi)}`;
+    if (a === lo) return `${l.name} ≤ ${f(b)}`;
+    if (b === hi) return `${l.name} ≥ ${f(a)}`;
+    return `${f(a)} ≤ ${l.name} ≤ ${f(b)}`;
+  });
+  return `passes for ${parts.join(' or ')}${now}`;
+}
+
+/** An elasticity in words: "elasticity −2.03" (the value moves 2.03 % down per % up of the input). */
+export function elasticityPhrase(e: number | null): string {
+  return e === null ? 'no elasticity (a zero value or input)' : `elasticity ${e >= 0 ? '+' : '−'}${sig(Math.abs(e), 3)}`;
+}
+
+/** The lines of `explain` that rank the inputs and say what would pass. */
+export function leverLines(v: Pick<Verdict, 'levers' | 'leversNotComputed' | 'unit' | 'limit' | 'comparison'>): string[] {
+  if (v.leversNotComputed) return ['', `Sensitivities and passing values not worked out: ${v.leversNotComputed}.`];
+  if (!v.levers?.length) return [];
+  const out = ['', 'What moves the value (each input across its tolerance, the others at nominal), and what would pass:'];
+  for (const l of v.levers) {
+    const ends = l.ends ? `${formatValue(l.ends.low, l.unit)} … ${formatValue(l.ends.high, l.unit)} gives ${formatValue(l.ends.valueAtLow, v.unit)} … ${formatValue(l.ends.valueAtHigh, v.unit)}; ` : '';
+    const pass = passingPhrase(l);
+    out.push(`  ${l.name}: ${ends}${elasticityPhrase(l.elasticity)}${pass ? `; ${pass}` : ''}`);
+  }
+  return out;
 }
 
 /** A waiver on the evaluation date, in one word. */

@@ -26,7 +26,7 @@ function htmlFiles(dir: string): string[] {
 
 beforeAll(async () => {
   site = join(mkdtempSync(join(tmpdir(), 'plumbline-browser-')), 'site');
-  const outcome = checkHandbook(new FolderSource(ROOT), { on: "2026-12-02" });
+  const outcome = checkHandbook(new FolderSource(ROOT), { on: "2026-12-02", detail: true });
   if (!outcome.ok) throw new Error('demo handbook does not load');
   keepOutP110 = outcome.results.verdicts.find((v) => v.rule === 'TSV-KOZ-P110' && v.structure === 'package-tsv')?.value ?? null;
   await buildSite(outcome.handbook, outcome.results, site);
@@ -68,6 +68,30 @@ describe('report in chromium', () => {
     expect(items.join('\n')).toMatch(/geometry\.sidewall_angle at its low end/);
     // The formula is typeset and the derivation lists its steps.
     await expect(page.locator('ol.steps math').count()).resolves.toBeGreaterThan(0);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it('shows a yield verdict with its interval, and ranks what moves a value with what would pass', async () => {
+    const page = await browser.newPage();
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    await page.goto(pathToFileURL(join(site, 'rules', 'FIN-STAND-Y', 'periphery-fin', 'index.html')).href);
+    const y = page.locator('section.yield');
+    await expect(y.isVisible()).resolves.toBe(true);
+    const facts = await y.locator('dl').innerText();
+    expect(facts).toMatch(/Required\s+99\.73 %/);
+    expect(facts).toMatch(/Samples\s+\d+ \(\d+ failing; seed 1\)/);
+    // The same structure's worst case: every toleranced input drawn in the tornado chart, and
+    // each dimensional input with the values that would pass.
+    await page.goto(pathToFileURL(join(site, 'rules', 'FIN-STAND-1', 'periphery-fin', 'index.html')).href);
+    const levers = page.locator('section.levers');
+    await expect(levers.locator('figure.tornado svg').isVisible()).resolves.toBe(true);
+    const rows = await levers.locator('tbody tr').allInnerTexts();
+    // cd, height, sidewall angle, contact angle are toleranced; the first four rows are theirs.
+    expect(rows.slice(0, 4).map((r) => r.split('\t')[0]).sort()).toEqual(['drying.contact_angle', 'geometry.cd', 'geometry.height', 'geometry.sidewall_angle']);
+    expect(rows.join('\n')).toMatch(/passes for geometry\.height ≤ [\d.]+ nm \(now 62 nm\)/);
+    await expect(page.locator('section.worst-corner .failure-probability').innerText()).resolves.toMatch(/probability of failure [\d.e-]+ %/);
     expect(errors).toEqual([]);
     await page.close();
   });

@@ -181,7 +181,7 @@ describe('a yield rule', () => {
   it('a worst case reports its probability of failure when asked: Φ(−4/3) = 0.0912', () => {
     const s = hole([2000 * nm, 1910 * nm, 2090 * nm], 30 * nm);
     const r = makeRule({ quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 68, evaluateAt: 'worst-case' });
-    const v = evaluateRule(r, s, new PlanCache({ failureProbability: true }));
+    const v = evaluateRule(r, s, new PlanCache({ detail: true }));
     expect(v.status).toBe('fail'); // the high corner, 2090/30 = 69.7
     if (v.mode?.kind !== 'worst-case') throw new Error('not a worst case');
     const f = v.mode.failure!;

@@ -2,7 +2,7 @@
 // property becomes a structure's input (with its tolerance and its source).
 import type { Diagnostic } from '../../diagnostics/diagnostic.ts';
 import { BUILT_IN_MATERIALS } from '../materials-table.ts';
-import { MATERIAL_PROPERTIES, PROPERTY_ALIASES } from '../parameters.ts';
+import { MATERIAL_PROPERTIES, PROPERTY_ALIASES, rangeOf } from '../parameters.ts';
 import type { HandbookSource } from '../source.ts';
 import type { Material, MaterialProperty, Param, SourcePos } from '../types.ts';
 import { isUnitProblem, parseValue } from '../units.ts';
@@ -97,9 +97,11 @@ export function loadMaterials(source: HandbookSource, out: Diagnostic[]): Materi
  * material property becomes a Param, so no use can drop the tolerance.
  */
 export function materialParam(name: string, materialId: string, mp: MaterialProperty, pos: SourcePos): Param {
+  const spec = MATERIAL_PROPERTIES[name.slice(name.lastIndexOf('.') + 1)];
   return {
     name,
     value: mp.value,
+    ...(spec ? rangeOf(spec) : {}),
     ...(mp.low !== undefined && mp.high !== undefined ? { low: mp.low, high: mp.high } : {}),
     unit: mp.unit,
     written: mp.written,

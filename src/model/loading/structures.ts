@@ -1,7 +1,7 @@
 // A structure file: geometry, materials by role, and the input blocks read into SI inputs and the
 // shape facts that decide which formulas apply.
 import { BLOCK_LIST, SHAPE_FACTS, keysOf, type BlockFacts, type InputBlock } from '../blocks.ts';
-import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, PROPERTY_ALIASES, type ParamSpec } from '../parameters.ts';
+import { GEOMETRY_BY_KIND, GEOMETRY_PARAMS, MATERIAL_PROPERTIES, PROPERTY_ALIASES, rangeOf, type ParamSpec } from '../parameters.ts';
 import { type Relation, checkRelation, describeCorner, structureRelations } from '../relations.ts';
 import { stemOf } from '../source.ts';
 import { type ArrayLayout, KINDS, type Kind, type Material, type Param, type Structure, isElongated } from '../types.ts';
@@ -55,7 +55,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
       continue;
     }
     const r = readValue(report, `/geometry/${name}`, geometry[name], spec);
-    if (r) params.set(`geometry.${name}`, { name: `geometry.${name}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(`/geometry/${name}`) } });
+    if (r) params.set(`geometry.${name}`, { name: `geometry.${name}`, ...r, unit: spec.unit, ...rangeOf(spec), origin: { type: 'handbook', pos: report.pos(`/geometry/${name}`) } });
   }
   let array = typeof geometry.array === 'string' ? (geometry.array as ArrayLayout) : undefined;
   if (!kindKnown) {
@@ -89,7 +89,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
         if (!w) continue;
         const pointer = `/materials/${role}/${w.key}`;
         const r = readValue(report, pointer, w.raw, spec);
-        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: report.pos(pointer) } });
+        if (r) params.set(`materials.${role}.${prop}`, { name: `materials.${role}.${prop}`, ...r, unit: spec.unit, ...rangeOf(spec), origin: { type: 'handbook', pos: report.pos(pointer) } });
       }
     }
     // A material without an isotropic stand-in (a crystal's) is isotropic: isotropic models read its own pair.
@@ -178,12 +178,12 @@ function readInputs(ctx: BlockContext, base: string, m: Record<string, unknown>,
     const w = writtenProperty(m, input, { report: ctx.report, base });
     const path = name(input);
     if (!w) {
-      if (spec.default && !ctx.params.has(path)) ctx.params.set(path, { name: path, value: spec.default.value, unit: spec.unit, written: spec.default.written, origin: { type: 'default', pos: ctx.report.pos(base) } });
+      if (spec.default && !ctx.params.has(path)) ctx.params.set(path, { name: path, value: spec.default.value, unit: spec.unit, ...rangeOf(spec), written: spec.default.written, origin: { type: 'default', pos: ctx.report.pos(base) } });
       continue;
     }
     const pointer = `${base}/${w.key}`;
     const r = readValue(ctx.report, pointer, w.raw, spec);
-    if (r) ctx.params.set(path, { name: path, ...r, unit: spec.unit, origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
+    if (r) ctx.params.set(path, { name: path, ...r, unit: spec.unit, ...rangeOf(spec), origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
   }
 }
 
@@ -218,7 +218,7 @@ function readMappingBlock(block: InputBlock, b: Record<string, unknown>, ctx: Bl
         const [item, spec] = Object.entries(part.inputs)[0]!;
         const pointer = `${pb}/${i}`;
         const r = readValue(ctx.report, pointer, entry, spec);
-        if (r) ctx.params.set(`${block.key}.${item}_${i + 1}`, { name: `${block.key}.${item}_${i + 1}`, ...r, unit: spec.unit, origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
+        if (r) ctx.params.set(`${block.key}.${item}_${i + 1}`, { name: `${block.key}.${item}_${i + 1}`, ...r, unit: spec.unit, ...rangeOf(spec), origin: { type: 'handbook', pos: ctx.report.pos(pointer) } });
       } else if (isMapping(entry)) readInputs(ctx, `${pb}/${i}`, entry, part.inputs, (input) => `${block.key}.${partName}_${i + 1}_${input}`);
     });
   }
