@@ -1,7 +1,7 @@
 // Shared test helpers: relative comparison, degrees, and Structure/Rule builders that bypass YAML
 // so engine and checker tests state their inputs directly in SI.
 import { expect } from 'vitest';
-import type { ArrayLayout, Kind, Param, Rule, Structure } from '../src/model/types.ts';
+import type { ArrayLayout, Comparison, Kind, Param, Rule, Structure } from '../src/model/types.ts';
 import { QUANTITIES } from '../src/engines/index.ts';
 import type { Variant } from '../src/engines/quantity.ts';
 import { shapeOf } from '../src/checker/plan.ts';
@@ -63,19 +63,23 @@ export function makeStructure(
   };
 }
 
-export function makeRule(r: Partial<Rule> & Pick<Rule, 'quantity' | 'comparison' | 'limit'>): Rule {
+/** A rule in SI: one side from `comparison` and `limit`, or its `sides` as given (a window). */
+export function makeRule(r: Partial<Rule> & Pick<Rule, 'quantity'> & ({ comparison: Comparison; limit: number } | { sides: Rule['sides'] })): Rule {
+  const { comparison: _c, limit: _l, ...rest } = r as Partial<Rule> & { comparison?: Comparison; limit?: number };
+  const sides = 'sides' in r && r.sides ? r.sides : [{ comparison: (r as { comparison: Comparison }).comparison, limit: (r as { limit: number }).limit, written: String((r as { limit: number }).limit) }];
   return {
     id: 'TEST-1',
     title: 'test rule',
     appliesTo: {},
-    limitWritten: String(r.limit),
     evaluateAt: 'nominal',
     severity: 'blocking',
     rationale: '',
     references: [],
     file: 'test',
     pos: POS,
-    ...r,
+    ...rest,
+    quantity: r.quantity,
+    sides,
   };
 }
 

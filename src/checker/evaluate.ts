@@ -6,7 +6,7 @@ import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
-import { comparable, leversOf, meets, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
+import { comparable, leversOf, meetsAll, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
 import { structureRelations } from '../model/relations.ts';
 
 export type { Lever } from './excursions.ts';
@@ -100,8 +100,11 @@ export interface Verdict {
   severity: Rule['severity'];
   quantity: string;
   unit: string;
+  /** The deciding limit: the rule's only one, or of a window's two the side the value comes closest to failing. */
   comparison: Comparison;
   limit: number;
+  /** Both limits of a rule that gives a window (`at_least` first); absent for a one-sided rule. */
+  sides?: Array<{ comparison: Comparison; limit: number }>;
   /** The deciding value (nominal, or the worst corner); null when it has none. */
   value: number | null;
   /** Why the value is null, or why the verdict is not-applicable. */
@@ -269,8 +272,9 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     severity: rule.severity,
     quantity: rule.quantity,
     unit,
-    comparison: rule.comparison,
-    limit: rule.limit,
+    comparison: rule.sides[0]!.comparison,
+    limit: rule.sides[0]!.limit,
+    ...(rule.sides.length > 1 ? { sides: rule.sides.map(({ comparison, limit }) => ({ comparison, limit })) } : {}),
     value: null,
     ...(reason !== undefined ? { reason } : {}),
     margin: null,
@@ -286,10 +290,11 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
 
   const e = plans.evaluate(s, plan, rule);
   const d = e.decisive;
-  const pass = e.pass ?? meets(comparable(d), rule.limit, rule.comparison);
+  const pass = e.pass ?? meetsAll(comparable(d), rule.sides);
+  const side = rule.sides[e.side]!;
   const elsewhere = d !== e.nominal;
   const costly = plans.context.detail ? plan.steps.find((st) => st.variant.costly) : undefined;
-  const levers = plans.context.detail && !costly ? leversOf(plan, e.nominal, d, rule.limit, rule.comparison, planRelations(plan, s)) : undefined;
+  const levers = plans.context.detail && !costly ? leversOf(plan, e.nominal, d, rule.sides, planRelations(plan, s)) : undefined;
   // One literal of fixed shape: absent facts are left undefined (and dropped from JSON).
   return {
     rule: rule.id,
@@ -298,13 +303,14 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     severity: rule.severity,
     quantity: rule.quantity,
     unit,
-    comparison: rule.comparison,
-    limit: rule.limit,
+    comparison: side.comparison,
+    limit: side.limit,
+    sides: rule.sides.length > 1 ? rule.sides.map(({ comparison, limit }) => ({ comparison, limit })) : undefined,
     value: d.value,
     reason: d.value === null ? (d.reason ?? 'no value') : undefined,
     unbounded: d.unbounded,
     nominal: elsewhere ? e.nominal.value : undefined,
-    margin: d.value === null ? null : margin(d.value, rule.limit, rule.comparison),
+    margin: d.value === null ? null : margin(d.value, side.limit, side.comparison),
     evaluateAt: rule.evaluateAt,
     mode: e.result,
     levers,

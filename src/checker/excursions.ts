@@ -1,12 +1,12 @@
 // Every run of a plan away from its nominal inputs lives here: the tolerance corners, sampling the
 // inputs' distributions (yield and the probability of failure), and the sensitivities. The
 // evaluation modes (`modes.ts`) and the report read what these compute; nothing else re-runs a plan.
-import type { Comparison, Correlation, Param } from '../model/types.ts';
+import type { Comparison, Correlation, Param, RuleSide } from '../model/types.ts';
 import { runPlan, type Plan } from './plan.ts';
 import { cholesky, normalCdf, normalQuantile, QuasiRandom, wilsonInterval } from './statistics.ts';
 
 export type ReadyPlan = Extract<Plan, { status: 'ready' }>;
-export type Side = 'low' | 'high' | 'nominal';
+export type End = 'low' | 'high' | 'nominal';
 
 /** The plan's target at one set of inputs. */
 export interface Point {
@@ -14,7 +14,7 @@ export interface Point {
   value: number | null;
   reason?: string;
   unbounded?: 'above' | 'below';
-  sides: Side[];
+  sides: End[];
 }
 
 /** The value compared with limits: unbounded values compare as ±∞, undefined ones as NaN. */
@@ -36,7 +36,7 @@ export function meets(v: number, limit: number, comparison: Comparison): boolean
   return comparison === 'at_least' ? v >= limit - slack : v <= limit + slack;
 }
 
-export function evaluatePoint(plan: ReadyPlan, inputs: number[], sides: Side[]): Point {
+export function evaluatePoint(plan: ReadyPlan, inputs: number[], sides: End[]): Point {
   const run = runPlan(plan, inputs);
   const last = plan.steps.length - 1;
   const value = run.values[last] ?? null;
@@ -63,39 +63,72 @@ export function tolerancedInputs(plan: ReadyPlan): number[] {
 
 export const MAX_CORNER_INPUTS = 16;
 
-/** The worst of the 2^n tolerance corners (n toleranced inputs), and how many were evaluated. */
-export function worstCorner(plan: ReadyPlan, nominal: Point, comparison: Comparison): { decisive: Point; corners: number } {
+/** A limit a value must meet (one side of a rule). */
+export type Side = Pick<RuleSide, 'comparison' | 'limit'>;
+
+/** Whether a value meets every side of a rule. */
+export function meetsAll(v: number, sides: readonly Side[]): boolean {
+  return sides.every((s) => meets(v, s.limit, s.comparison));
+}
+
+/** Signed distance of a value to a side, in the side's relative margin (absolute for a zero limit): positive passes. */
+function slackTo(v: number, s: Side): number {
+  const d = s.comparison === 'at_least' ? v - s.limit : s.limit - v;
+  return s.limit === 0 ? d : d / Math.abs(s.limit);
+}
+
+/** The side a value is closest to failing (or fails by most); the first for a value that is undefined. */
+export function decidingSide(v: number, sides: readonly Side[]): number {
+  if (Number.isNaN(v)) return 0;
+  let best = 0;
+  for (let k = 1; k < sides.length; k++) if (slackTo(v, sides[k]!) < slackTo(v, sides[best]!)) best = k;
+  return best;
+}
+
+/**
+ * The worst of the 2^n tolerance corners (n toleranced inputs) for each side of the rule — the
+ * lowest value for `at_least`, the highest for `at_most`, an undefined value worst of all — and
+ * which side decides: the one whose worst corner comes closest to failing it.
+ */
+export function worstCorner(plan: ReadyPlan, nominal: Point, sides: readonly Side[]): { decisive: Point; corners: number; side: number; worstBySide: number[] } {
   const tol = tolerancedInputs(plan);
-  if (tol.length === 0) return { decisive: nominal, corners: 1 };
+  const v0 = comparable(nominal);
+  if (tol.length === 0) return { decisive: nominal, corners: 1, side: decidingSide(v0, sides), worstBySide: sides.map(() => v0) };
   if (tol.length > MAX_CORNER_INPUTS) throw new Error(`${plan.quantity} reads ${tol.length} toleranced inputs; corners are limited to ${MAX_CORNER_INPUTS}`);
-  let worst: Point | null = null;
-  let worstMask = 0;
   const count = 1 << tol.length;
   const values = new Float64Array(count);
+  const points: Point[] = new Array(count);
   for (let mask = 0; mask < count; mask++) {
     const inputs = nominal.inputs.slice();
-    const sides: Side[] = plan.params.map(() => 'nominal');
+    const cornerSides: End[] = plan.params.map(() => 'nominal');
     tol.forEach((pi, bit) => {
       const high = (mask >> bit) & 1;
       const p = plan.params[pi]!;
       inputs[pi] = high ? p.high! : p.low!;
-      sides[pi] = high ? 'high' : 'low';
+      cornerSides[pi] = high ? 'high' : 'low';
     });
-    const pt = evaluatePoint(plan, inputs, sides);
-    const v = comparable(pt);
-    values[mask] = v;
-    if (worst === null) worst = pt;
-    else {
-      const w = comparable(worst);
-      // An undefined value is the worst there is; otherwise lowest for at_least, highest for at_most.
-      const worse = Number.isNaN(v) ? !Number.isNaN(w) : !Number.isNaN(w) && (comparison === 'at_least' ? v < w : v > w);
-      if (worse) {
-        worst = pt;
-        worstMask = mask;
-      }
-    }
+    points[mask] = evaluatePoint(plan, inputs, cornerSides);
+    values[mask] = comparable(points[mask]!);
   }
-  return { decisive: withoutIdleInputs(plan, worst!, tol, values, worstMask), corners: count };
+  const worstMasks = sides.map((s) => {
+    let worst = 0;
+    for (let mask = 1; mask < count; mask++) {
+      const v = values[mask]!;
+      const w = values[worst]!;
+      // An undefined value is the worst there is; otherwise lowest for at_least, highest for at_most.
+      const worse = Number.isNaN(v) ? !Number.isNaN(w) : !Number.isNaN(w) && (s.comparison === 'at_least' ? v < w : v > w);
+      if (worse) worst = mask;
+    }
+    return worst;
+  });
+  let side = 0;
+  for (let k = 1; k < sides.length; k++) {
+    const vk = values[worstMasks[k]!]!;
+    const vs = values[worstMasks[side]!]!;
+    if (!Number.isNaN(vs) && (Number.isNaN(vk) || slackTo(vk, sides[k]!) < slackTo(vs, sides[side]!))) side = k;
+  }
+  const mask = worstMasks[side]!;
+  return { decisive: withoutIdleInputs(plan, points[mask]!, tol, values, mask), corners: count, side, worstBySide: worstMasks.map((m) => values[m]!) };
 }
 
 /**
@@ -186,8 +219,8 @@ function sampleOf(p: Param, z: number, u: number): number {
 }
 
 export interface SampleOptions {
-  comparison: Comparison;
-  limit: number;
+  /** The rule's sides: a sample passes when its value meets every one. */
+  sides: readonly Side[];
   correlations: readonly Correlation[];
   seed: number;
 }
@@ -235,7 +268,7 @@ export function sampleYield(plan: ReadyPlan, o: SampleOptions & { confidence: nu
       const run = runPlan(plan, sampler.draw(n));
       const last = plan.steps.length - 1;
       const v = comparable({ value: run.values[last] ?? null, unbounded: run.unbounded[last] });
-      if (!meets(v, o.limit, o.comparison)) failures++;
+      if (!meetsAll(v, o.sides)) failures++;
     }
     interval = wilsonInterval(n - failures, n, alpha);
     if (o.required !== undefined && (interval.low >= o.required || interval.high < o.required)) {
@@ -349,7 +382,7 @@ export function validRange(base: number[], i: number, offset: number, x0: number
  * between pass and fail bisected 40 times to the last passing value. A passing or failing stretch
  * narrower than the scan's spacing that holds none of these points can be missed.
  */
-export function passingValues(plan: ReadyPlan, base: number[], i: number, offset: number, range: [number, number], limit: number, comparison: Comparison, also: number[] = []): Array<[number, number]> {
+export function passingValues(plan: ReadyPlan, base: number[], i: number, offset: number, range: [number, number], sides: readonly Side[], also: number[] = []): Array<[number, number]> {
   const [lo, hi] = range;
   const geometric = lo > 0 && hi / lo > 3;
   const grid = Array.from({ length: SCAN_POINTS }, (_, k) => {
@@ -360,7 +393,7 @@ export function passingValues(plan: ReadyPlan, base: number[], i: number, offset
   const inputs = base.slice();
   const passAt = (x: number) => {
     inputs[i] = x + offset;
-    return meets(valueAt(plan, inputs), limit, comparison);
+    return meetsAll(valueAt(plan, inputs), sides);
   };
   const ok = xs.map(passAt);
   const intervals: Array<[number, number]> = [];
@@ -391,7 +424,7 @@ export function passingValues(plan: ReadyPlan, base: number[], i: number, offset
  * elasticity), with the values of each dimensional or toleranced input that would pass. `decisive`
  * is where the verdict is decided; `solve` says whether to search passing values (a limit to meet).
  */
-export function leversOf(plan: ReadyPlan, nominal: Point, decisive: Point, limit: number, comparison: Comparison, relations: readonly PlanRelation[] = []): Lever[] {
+export function leversOf(plan: ReadyPlan, nominal: Point, decisive: Point, sides: readonly Side[], relations: readonly PlanRelation[] = []): Lever[] {
   const q0 = comparable(nominal);
   const levers = plan.params.map((p, i): Lever => {
     const x = nominal.inputs[i]!;
@@ -415,7 +448,7 @@ export function leversOf(plan: ReadyPlan, nominal: Point, decisive: Point, limit
     if (wide) {
       const range = validRange(decisive.inputs, i, offset, x, wide, relations);
       lever.searched = range;
-      lever.passes = passingValues(plan, decisive.inputs, i, offset, range, limit, comparison, [x, ...(p.low !== undefined ? [p.low, p.high!] : [])]);
+      lever.passes = passingValues(plan, decisive.inputs, i, offset, range, sides, [x, ...(p.low !== undefined ? [p.low, p.high!] : [])]);
     }
     return lever;
   });

@@ -4,7 +4,7 @@
 // template partial per mode (`templates/_includes/mode-<kind>.njk`). Adding a mode is one entry
 // here, its result type and its partial.
 import type { Comparison, EvaluateAt, Rule, Structure } from '../model/types.ts';
-import { comparable, MAX_CORNER_INPUTS, meets, nominalPoint, sampleYield, tolerancedInputs, worstCorner, type Point, type ReadyPlan, type YieldEstimate } from './excursions.ts';
+import { comparable, decidingSide, MAX_CORNER_INPUTS, meetsAll, nominalPoint, sampleYield, tolerancedInputs, worstCorner, type Point, type ReadyPlan, type Side, type YieldEstimate } from './excursions.ts';
 
 /** One input at the end of its tolerance that decides a worst case. */
 export interface CornerNote {
@@ -35,6 +35,8 @@ export type ModeResult =
       failure?: FailureEstimate;
       /** Why the probability of failure was not sampled, when a step is too costly to run a thousand times. */
       failureNotSampled?: string;
+      /** For a rule with two sides (a window): the worst corner's value against each side. */
+      bySide?: Array<{ comparison: Comparison; limit: number; value: number | null }>;
     }
   | ({
       kind: 'yield';
@@ -51,8 +53,10 @@ export interface ModeOutcome {
   nominal: Point;
   /** The point whose derivation the verdict shows. */
   decisive: Point;
-  /** Set when the mode decides pass or fail itself; otherwise the decisive value against the limit decides. */
+  /** Set when the mode decides pass or fail itself; otherwise the decisive value against the limits decides. */
   pass?: boolean;
+  /** Which of the rule's sides decides (the one the value comes closest to failing). */
+  side: number;
   result: ModeResult;
 }
 
@@ -83,9 +87,9 @@ const FAILURE_CONFIDENCE = 0.95;
 const nominal: EvaluationMode = {
   id: 'nominal',
   key: () => '',
-  evaluate(plan) {
+  evaluate(plan, rule) {
     const p = nominalPoint(plan);
-    return { nominal: p, decisive: p, result: { kind: 'nominal' } };
+    return { nominal: p, decisive: p, side: decidingSide(comparable(p), rule.sides), result: { kind: 'nominal' } };
   },
 };
 
@@ -95,28 +99,35 @@ const worstCase: EvaluationMode = {
     const n = tolerancedInputs(plan).length;
     return n > MAX_CORNER_INPUTS ? `${n} toleranced inputs are more than a corner sweep covers (${MAX_CORNER_INPUTS}); evaluate at nominal or drop tolerances that do not matter` : undefined;
   },
-  key: (rule) => `${rule.comparison} ${rule.limit}`,
+  key: (rule) => sidesKey(rule),
   evaluate(plan, rule, structure, ctx) {
     const p = nominalPoint(plan);
-    const { decisive, corners } = worstCorner(plan, p, rule.comparison);
+    const { decisive, corners, side, worstBySide } = worstCorner(plan, p, rule.sides);
     const worstCornerNotes = plan.params.flatMap((param, i): CornerNote[] => {
       const side = decisive.sides[i];
       return side === 'low' || side === 'high' ? [{ name: param.name, side, value: decisive.inputs[i]! }] : [];
     });
     const costly = plan.steps.find((st) => st.variant.costly);
     const sampled = ctx.detail && tolerancedInputs(plan).length > 0 && !costly;
-    const failure = sampled ? failureOf(plan, rule.comparison, rule.limit, structure) : undefined;
+    const failure = sampled ? failureOf(plan, rule.sides, structure) : undefined;
     const notSampled = ctx.detail && costly && tolerancedInputs(plan).length ? `${costly.def.name}: ${costly.variant.costly}` : undefined;
+    const bySide = rule.sides.length > 1 ? rule.sides.map((s, k) => ({ comparison: s.comparison, limit: s.limit, value: Number.isFinite(worstBySide[k]!) ? worstBySide[k]! : null })) : undefined;
     return {
       nominal: p,
       decisive,
-      result: { kind: 'worst-case', corners, worstCorner: worstCornerNotes, ...(failure ? { failure } : {}), ...(notSampled ? { failureNotSampled: notSampled } : {}) },
+      side,
+      result: { kind: 'worst-case', corners, worstCorner: worstCornerNotes, ...(failure ? { failure } : {}), ...(notSampled ? { failureNotSampled: notSampled } : {}), ...(bySide ? { bySide } : {}) },
     };
   },
 };
 
-function failureOf(plan: ReadyPlan, comparison: Comparison, limit: number, s: Structure): FailureEstimate {
-  const y = sampleYield(plan, { comparison, limit, correlations: s.correlations, seed: FAILURE_SEED, confidence: FAILURE_CONFIDENCE, maxSamples: FAILURE_SAMPLES });
+/** What evaluations of a rule's sides share: its limits in order. */
+function sidesKey(rule: Rule): string {
+  return rule.sides.map((s) => `${s.comparison} ${s.limit}`).join(' ');
+}
+
+function failureOf(plan: ReadyPlan, sides: readonly Side[], s: Structure): FailureEstimate {
+  const y = sampleYield(plan, { sides, correlations: s.correlations, seed: FAILURE_SEED, confidence: FAILURE_CONFIDENCE, maxSamples: FAILURE_SAMPLES });
   return { probability: 1 - y.estimate, low: 1 - y.high, high: 1 - y.low, samples: y.samples, confidence: y.confidence, seed: FAILURE_SEED };
 }
 
@@ -124,28 +135,31 @@ const yieldMode: EvaluationMode = {
   id: 'yield',
   key: (rule) => {
     const y = rule.yield!;
-    return `${rule.comparison} ${rule.limit} ${y.required} ${y.confidence} ${y.maxSamples} ${y.seed}`;
+    return `${sidesKey(rule)} ${y.required} ${y.confidence} ${y.maxSamples} ${y.seed}`;
   },
   evaluate(plan, rule, structure) {
     const y = rule.yield;
     // Loading requires required_yield with evaluate_at: yield.
     if (!y) throw new Error(`${rule.id} is evaluated for yield without a required yield`);
     const p = nominalPoint(plan);
+    const side = decidingSide(comparable(p), rule.sides);
     if (tolerancedInputs(plan).length === 0) {
       // Nothing varies: the structure either always passes or never does.
-      const ok = meets(comparable(p), rule.limit, rule.comparison);
+      const ok = meetsAll(comparable(p), rule.sides);
       const e = ok ? 1 : 0;
       return {
         nominal: p,
         decisive: p,
+        side,
         pass: e >= y.required,
         result: { kind: 'yield', required: y.required, requiredWritten: y.written, decided: true, maxSamples: y.maxSamples, seed: y.seed, samples: 1, failures: ok ? 0 : 1, estimate: e, low: e, high: e, confidence: y.confidence },
       };
     }
-    const r = sampleYield(plan, { comparison: rule.comparison, limit: rule.limit, correlations: structure.correlations, seed: y.seed, confidence: y.confidence, maxSamples: y.maxSamples, required: y.required });
+    const r = sampleYield(plan, { sides: rule.sides, correlations: structure.correlations, seed: y.seed, confidence: y.confidence, maxSamples: y.maxSamples, required: y.required });
     return {
       nominal: p,
       decisive: p,
+      side,
       pass: r.decided ? r.low >= y.required : r.estimate >= y.required,
       result: { kind: 'yield', required: y.required, requiredWritten: y.written, maxSamples: y.maxSamples, seed: y.seed, ...r },
     };

@@ -6,7 +6,7 @@ import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, Structure } from '../model/types.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { CAUTION, STATUS_WORDS, leverLines, modeLines, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
+import { CAUTION, STATUS_WORDS, leverLines, modeLines, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitsPhrase, originPhrase, unusedPhrase, valuePhrase, valueWord, waivedPhrase, waiverPeoplePhrase } from '../report/words.ts';
 
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
@@ -36,7 +36,7 @@ export function renderCheckSummary(h: Handbook, results: Results): string {
     const word = v.status === 'fail' ? (v.severity === 'blocking' ? 'FAIL' : 'fail (advisory)') : STATUS_WORDS[v.status];
     // A value's reason can be a paragraph: the table says there is none, the reasons follow it.
     const value = v.status === 'incomplete' ? `missing ${v.missing?.join(', ')}` : v.value === null && !v.unbounded ? 'no value (below)' : valueWord(v);
-    rows.push([word, v.rule, v.structure, value, limitPhrase(rule, v.unit), formatMargin(v.margin)]);
+    rows.push([word, v.rule, v.structure, value, limitsPhrase(rule.sides, v.unit), formatMargin(v.margin)]);
   }
   const reasons = shown.filter((v) => v.status !== 'incomplete' && v.value === null && !v.unbounded).map((v) => `  ${v.rule} on ${v.structure}: ${v.reason ?? 'no value'}`);
   const c = results.counts;
@@ -101,7 +101,7 @@ export function renderExplain(rule: Rule, s: Structure, v: Verdict): string {
   const out: string[] = [];
   out.push(`${rule.id} on ${s.id}: ${STATUS_WORDS[v.status].toUpperCase()}`);
   out.push(`${rule.title}`);
-  out.push(`requires ${v.quantity} ${limitPhrase(rule, v.unit)} (${rule.evaluateAt}, ${rule.severity})`);
+  out.push(`requires ${v.quantity} ${limitsPhrase(rule.sides, v.unit)} (${rule.evaluateAt}, ${rule.severity})`);
   if (v.status === 'not-applicable' || v.status === 'incomplete') {
     out.push(v.reason ?? '');
     return out.join('\n');

@@ -174,7 +174,7 @@ export function inputChanges(a: VerdictRow | undefined, b: VerdictRow | undefine
     if (ruleThere && structureThere) out.push({ name: `rule ${r.rule}`, note: came ? `now applies to ${r.structure}` : `no longer applies to ${r.structure}` });
     return out;
   }
-  const test = (x: VerdictRow) => `${x.comparison === 'at_least' ? 'at_least' : 'at_most'} ${x.limitWritten}`;
+  const test = (x: VerdictRow) => x.sides.map((s) => `${s.comparison} ${s.written}`).join(', ');
   if (test(a) !== test(b)) out.push({ name: `${b.rule} limit`, from: test(a), to: test(b) });
   if (a.quantity !== b.quantity || a.film !== b.film) out.push({ name: `${b.rule} quantity`, from: `${a.quantity}${a.film ? `[${a.film}]` : ''}`, to: `${b.quantity}${b.film ? `[${b.film}]` : ''}` });
   if (a.mode !== b.mode) out.push({ name: `${b.rule} evaluate_at`, from: a.mode, to: b.mode });

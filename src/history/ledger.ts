@@ -54,7 +54,7 @@ export function ledgerLineOf(r: VerdictRow): LedgerLine {
     structure: r.structure,
     verdict: r.verdict,
     value: valueText(r),
-    limit: `${r.comparison === 'at_least' ? '≥' : '≤'} ${formatValue(r.limit, r.unit)}`,
+    limit: r.sides.map((x) => `${x.comparison === 'at_least' ? '≥' : '≤'} ${formatValue(x.limit, r.unit)}`).join(' and '),
     margin: r.margin === null ? '-' : formatMargin(r.margin),
     mode: r.mode,
     severity: r.severity,

@@ -40,9 +40,8 @@ export interface VerdictRow extends Outcome {
   quantity: string;
   film?: string;
   unit: string;
-  comparison: Rule['comparison'];
-  limit: number;
-  limitWritten: string;
+  /** The rule's limits: one, or a window's two (`at_least` first). */
+  sides: Rule['sides'];
   mode: Rule['evaluateAt'];
   /** Short hash of everything the verdict read: the rule's test and the inputs' values and tolerances. */
   inputs: string;
@@ -82,10 +81,20 @@ export function shortHash(text: string, chars = 12): string {
 export function inputsHash(rule: Rule, s: Structure, plan: Plan | null): string {
   return shortHash(
     canonicalJson({
-      test: [rule.quantity, rule.film ?? null, rule.comparison, rule.limit, rule.evaluateAt],
+      // A one-sided rule hashes as it always has, so committed ledgers stay current; a window, a
+      // yield requirement, a uniform band or a correlation add what they change.
+      test: [rule.quantity, rule.film ?? null, ...rule.sides.flatMap((x) => [x.comparison, x.limit]), rule.evaluateAt, ...(rule.yield ? [rule.yield.required, rule.yield.confidence, rule.yield.maxSamples, rule.yield.seed] : [])],
       selects: plan !== null,
       shape: shapeOf(s, rule.film),
-      plan: plan === null ? null : plan.status === 'ready' ? plan.params.map((p) => [p.name, p.value, p.low ?? null, p.high ?? null]) : plan.status === 'incomplete' ? { missing: plan.missing } : { na: plan.reason },
+      plan:
+        plan === null
+          ? null
+          : plan.status === 'ready'
+            ? plan.params.map((p) => [p.name, p.value, p.low ?? null, p.high ?? null, ...(p.spread ? [p.spread] : [])])
+            : plan.status === 'incomplete'
+              ? { missing: plan.missing }
+              : { na: plan.reason },
+      ...(s.correlations.length ? { correlated: s.correlations.map((c) => [...c.inputs, c.coefficient]) } : {}),
     }),
   );
 }
@@ -143,9 +152,7 @@ export function evaluateRows(h: Handbook, cache?: OutcomeCache, waive?: (row: Ve
         quantity: rule.quantity,
         ...(rule.film !== undefined ? { film: rule.film } : {}),
         unit: unitOf(rule, plan),
-        comparison: rule.comparison,
-        limit: rule.limit,
-        limitWritten: rule.limitWritten,
+        sides: rule.sides,
         mode: rule.evaluateAt,
         inputs: key,
         read: readOf(plan),

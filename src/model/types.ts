@@ -149,11 +149,11 @@ export interface Rule {
   quantity: string;
   /** For quantities of one film step: which step (its film name). */
   film?: string;
-  comparison: Comparison;
-  /** Limit in the quantity's SI unit. */
-  limit: number;
-  /** The limit as written. */
-  limitWritten: string;
+  /**
+   * The limits the value must meet: one side (`at_least` or `at_most`), or both, `at_least` first
+   * (a window). Every side must hold for the rule to pass.
+   */
+  sides: RuleSide[];
   evaluateAt: EvaluateAt;
   /** For `evaluate_at: yield`: the passing fraction required and how it is sampled. */
   yield?: YieldRequirement;
@@ -162,6 +162,14 @@ export interface Rule {
   references: string[];
   file: string;
   pos: SourcePos;
+}
+
+/** One limit of a rule, in the quantity's SI unit. */
+export interface RuleSide {
+  comparison: Comparison;
+  limit: number;
+  /** The limit as written. */
+  written: string;
 }
 
 /** What a yield rule asks of sampling. */

@@ -7,7 +7,7 @@ import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Selector, type Structure, type Waiver } from '../model/types.ts';
 import { countsChart, marginChart, sweepChart, tornadoChart, trendChart, valueChart } from './charts.ts';
-import { meets } from '../checker/excursions.ts';
+import { meetsAll } from '../checker/excursions.ts';
 import type { HistoryPages } from './history-pages.ts';
 import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
@@ -17,7 +17,7 @@ import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 import { describeDiagnostic } from '../diagnostics/messages.ts';
-import { CAUTION, STATUS_WORDS, failurePhrase, passingPhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
+import { CAUTION, STATUS_WORDS, bySidePhrase, failurePhrase, passingPhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitsPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
 export { urls } from '../model/urls.ts';
@@ -64,7 +64,7 @@ function row(v: Verdict, rule: Rule, s: Structure): VerdictRow {
     advisory: v.status === 'fail' && v.severity === 'advisory',
     valueText: v.status === 'incomplete' ? `needs ${v.missing?.join(', ')}` : v.status === 'not-applicable' ? (v.reason ?? '') : valuePhrase(v),
     valueIsText: v.status === 'incomplete' || v.status === 'not-applicable' || v.value === null,
-    limitText: limitPhrase(rule, v.unit),
+    limitText: limitsPhrase(rule.sides, v.unit),
     marginText: formatMargin(v.margin),
     url: urls.verdict(rule.id, s.id),
     waiverId: v.waiver?.id ?? '',
@@ -121,7 +121,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       ...row(v, rule, s),
       quantity: v.quantity,
       /** Which end of the corner sweep decides: the lowest value for at_least, the highest for at_most. */
-      worstWord: rule.comparison === 'at_least' ? 'lowest' : 'highest',
+      worstWord: v.comparison === 'at_least' ? 'lowest' : 'highest',
       quantityTitle: QUANTITIES.get(v.quantity)?.title ?? v.quantity,
       quantityUrl: urls.quantity(v.quantity),
       evaluateAt: v.evaluateAt,
@@ -164,7 +164,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
   for (const rule of h.rules) {
     const q = QUANTITIES.get(rule.quantity)!;
     const vs = scoped.filter((v) => v.rule === rule.id);
-    const scale = displayScale(q.unit, rule.limit);
+    const scale = displayScale(q.unit, rule.sides[0]!.limit);
     const points = vs
       .filter((v) => v.value !== null)
       .map((v) => ({ label: v.structure, value: v.value! * scale.factor, status: v.status, ...(typeof v.nominal === 'number' ? { nominal: v.nominal * scale.factor } : {}) }));
@@ -177,10 +177,8 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       quantityTitle: q.title,
       quantityUrl: urls.quantity(rule.quantity),
       symbolHtml: texToMathml(q.symbol),
-      limitText: limitPhrase(rule, q.unit),
-      limitValueText: formatValue(rule.limit, q.unit),
-      limitWritten: rule.limitWritten,
-      comparisonWord: rule.comparison === 'at_least' ? 'at least' : 'at most',
+      limitText: limitsPhrase(rule.sides, q.unit),
+      requirementText: rule.sides.map((x) => `${x.comparison === 'at_least' ? 'at least' : 'at most'} ${formatValue(x.limit, q.unit)}`).join(' and '),
       severity: rule.severity,
       evaluateAt: rule.evaluateAt,
       scopeText: scopeText(rule),
@@ -190,7 +188,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       verdicts: vs.map((v) => row(v, rule, structureById.get(v.structure)!)),
       waivers: h.waivers.filter((w) => w.rule === rule.id).map((w) => waiverLink(w, useById.get(w.id), results.on)),
       worst: worstWord(vs),
-      chartSvg: points.length ? await valueChart(points, rule.limit * scale.factor, axisTitle) : '',
+      chartSvg: points.length ? await valueChart(points, rule.sides.map((x) => x.limit * scale.factor), axisTitle) : '',
     });
   }
 
@@ -359,11 +357,12 @@ async function leversPage(v: Verdict) {
   let chartSvg = '';
   if (toleranced.length && nominal !== null && nominal !== undefined) {
     const scale = displayScale(unit, Math.abs(nominal) || Math.abs(v.limit));
-    const pass = (x: number) => (meets(x, v.limit, v.comparison) ? 'pass' : 'fail') as 'pass' | 'fail';
+    const sides = v.sides ?? [v];
+    const pass = (x: number) => (meetsAll(x, sides) ? 'pass' : 'fail') as 'pass' | 'fail';
     chartSvg = await tornadoChart(
       toleranced.map((l) => ({ label: l.name, low: l.ends!.valueAtLow! * scale.factor, high: l.ends!.valueAtHigh! * scale.factor, lowStatus: pass(l.ends!.valueAtLow!), highStatus: pass(l.ends!.valueAtHigh!) })),
       nominal * scale.factor,
-      v.limit * scale.factor,
+      sides.map((x) => x.limit * scale.factor),
       `${QUANTITIES.get(v.quantity)?.title ?? v.quantity}${scale.label ? ` (${scale.label})` : ''}`,
     );
   }
@@ -409,6 +408,7 @@ function modePage(v: Verdict) {
         failureText: m.failure ? failurePhrase(m.failure) : '',
         failureSeed: m.failure?.seed ?? 0,
         failureNotSampled: m.failureNotSampled ?? '',
+        bySideText: m.bySide ? bySidePhrase(m.bySide, v.unit) : '',
       };
     case 'yield': {
       const y = yieldPhrases(m);
@@ -491,10 +491,10 @@ async function sweepOf(v: Verdict, s: Structure, plans: PlanCache, film?: string
   const overlay = (sweep.overlay?.points(byName) ?? []).map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
   const xTitle = `${axis ? axis.label : inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
-  const limit = name === v.quantity ? v.limit * yScale.factor : null;
-  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: y0 * yScale.factor, status: v.status }, limit, xTitle, yTitle, companion, overlay);
+  const limits = name === v.quantity ? (v.sides ?? [v]).map((x) => x.limit * yScale.factor) : [];
+  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: y0 * yScale.factor, status: v.status }, limits, xTitle, yTitle, companion, overlay);
   const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
-  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && sweep.overlay ? `; ○ ${sweep.overlay.label}` : '') + (limit !== null ? '; dashed: the limit' : '');
+  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && sweep.overlay ? `; ○ ${sweep.overlay.label}` : '') + (limits.length > 1 ? '; dashed: the limits' : limits.length ? '; dashed: the limit' : '');
   return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure${also}.` };
 }
 
@@ -630,7 +630,7 @@ function waiverPages(h: Handbook, results: Results, ruleById: ReadonlyMap<string
       rule: rule.id,
       ruleTitle: rule.title,
       ruleUrl: urls.rule(rule.id),
-      limitText: limitPhrase(rule, unit),
+      limitText: limitsPhrase(rule.sides, unit),
       selectionText: selectionOf(w),
       reasonHtml: renderMarkdown(w.reason),
       owner: w.owner,

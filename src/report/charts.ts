@@ -312,13 +312,13 @@ export interface ValuePoint {
 }
 
 /** Each structure's deciding value against the rule's limit, in display units; nominal hollow. */
-export function valueChart(rows: ValuePoint[], limit: number, axisTitle: string): Promise<string> {
+export function valueChart(rows: ValuePoint[], limits: number[], axisTitle: string): Promise<string> {
   return renderChart(
     'value',
     {
       values: rows.map((r) => ({ label: r.label, value: r.value, status: r.status })),
       nominals: rows.filter((r) => r.nominal !== undefined).map((r) => ({ label: r.label, value: r.nominal })),
-      limit: [{ limit }],
+      limit: limits.map((limit) => ({ limit })),
     },
     axisTitle,
   );
@@ -338,7 +338,7 @@ export interface TornadoBar {
  * tolerance (◀ low end, ▶ high end, coloured by whether that end passes), the nominal value (solid)
  * and the limit (dashed).
  */
-export function tornadoChart(rows: TornadoBar[], nominal: number, limit: number | null, axisTitle: string): Promise<string> {
+export function tornadoChart(rows: TornadoBar[], nominal: number, limits: number[], axisTitle: string): Promise<string> {
   return renderChart(
     'tornado',
     {
@@ -348,7 +348,7 @@ export function tornadoChart(rows: TornadoBar[], nominal: number, limit: number 
         { label: r.label, rank, value: r.high, end: 'high', status: r.highStatus },
       ]),
       nominal: [{ value: nominal }],
-      limit: limit === null ? [] : [{ limit }],
+      limit: limits.map((limit) => ({ limit })),
     },
     axisTitle,
   );
@@ -358,13 +358,13 @@ export function tornadoChart(rows: TornadoBar[], nominal: number, limit: number 
 export function sweepChart(
   curve: Array<{ x: number; y: number }>,
   own: { x: number; y: number; status: string },
-  limit: number | null,
+  limits: number[],
   xTitle: string,
   yTitle: string,
   companion: Array<{ x: number; y: number }> = [],
   overlay: Array<{ x: number; y: number }> = [],
 ): Promise<string> {
-  return renderChart('sweep', { curve, companion, overlay, own: [own], limit: limit === null ? [] : [{ limit }] }, xTitle, yTitle);
+  return renderChart('sweep', { curve, companion, overlay, own: [own], limit: limits.map((limit) => ({ limit })) }, xTitle, yTitle);
 }
 
 /** Count of verdicts by status, one bar each (waived only when there are some: a handbook without

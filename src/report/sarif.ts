@@ -13,7 +13,7 @@ import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, SourcePos, Structure } from '../model/types.ts';
 import { urls } from '../model/urls.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { limitPhrase, yieldPhrases } from './words.ts';
+import { limitsPhrase, verdictLimitsPhrase, yieldPhrases } from './words.ts';
 
 // ---------------------------------------------------------------------------------------------
 // The subset of SARIF 2.1.0 this module writes.
@@ -275,10 +275,11 @@ function describeRule(rule: Rule, siteUrl: string | undefined): ReportingDescrip
     properties: {
       quantity: rule.quantity,
       ...(rule.film !== undefined ? { film: rule.film } : {}),
-      comparison: rule.comparison,
-      limit: rule.limit,
+      comparison: rule.sides[0]!.comparison,
+      limit: rule.sides[0]!.limit,
+      ...(rule.sides.length > 1 ? { sides: rule.sides.map((x) => ({ comparison: x.comparison, limit: x.limit })) } : {}),
       unit,
-      limitText: limitPhrase(rule, unit),
+      limitText: limitsPhrase(rule.sides, unit),
       evaluateAt: rule.evaluateAt,
       severity: rule.severity,
     },
@@ -314,8 +315,8 @@ function resultMessage(v: Verdict): string {
   const verb = v.status === 'waived' && v.waiver ? `fails ${v.rule} under waiver ${v.waiver.id}` : `fails ${v.rule}`;
   const sentence =
     v.mode?.kind === 'yield'
-      ? `${v.structure} ${verb}: with ${quantityWords(v)} required ${limitPhrase(v, v.unit)}, the ${yieldPhrases(v.mode).found} (${valueClause(v)}).`
-      : `${v.structure} ${verb}: ${quantityWords(v)} is ${valueClause(v)}, against a limit of ${limitPhrase(v, v.unit)} (margin ${formatMargin(v.margin)}).`;
+      ? `${v.structure} ${verb}: with ${quantityWords(v)} required ${verdictLimitsPhrase(v)}, the ${yieldPhrases(v.mode).found} (${valueClause(v)}).`
+      : `${v.structure} ${verb}: ${quantityWords(v)} is ${valueClause(v)}, against ${v.sides ? 'the limits' : 'a limit of'} ${verdictLimitsPhrase(v)} (margin ${formatMargin(v.margin)}).`;
   return v.status === 'fail' && v.waiver?.lapsed ? sentence + lapsedClause(v.waiver) : sentence;
 }
 

@@ -1,7 +1,8 @@
 // Sentences about verdicts, shared by the terminal and the site.
 import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
 import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
-import { formatValue, sig } from '../model/format.ts';
+import { formatMargin, formatValue, sig } from '../model/format.ts';
+import { margin } from '../checker/evaluate.ts';
 import type { FailureEstimate, ModeResult } from '../checker/modes.ts';
 import type { Lever } from '../checker/excursions.ts';
 
@@ -17,8 +18,19 @@ export const STATUS_WORDS: Record<Status, string> = {
   'not-applicable': 'not applicable',
 };
 
-export function limitPhrase(rule: Pick<Rule, 'comparison' | 'limit'>, unit: string): string {
-  return `${rule.comparison === 'at_least' ? '≥' : '≤'} ${formatValue(rule.limit, unit)}`;
+/** One limit: "≥ 14 nm". */
+export function limitPhrase(side: { comparison: Comparison; limit: number }, unit: string): string {
+  return `${side.comparison === 'at_least' ? '≥' : '≤'} ${formatValue(side.limit, unit)}`;
+}
+
+/** Every limit of a rule: "≥ 14 nm", or for a window "≥ 12 nm and ≤ 18 nm". */
+export function limitsPhrase(sides: ReadonlyArray<{ comparison: Comparison; limit: number }>, unit: string): string {
+  return sides.map((s) => limitPhrase(s, unit)).join(' and ');
+}
+
+/** The limits a verdict was judged against (a window's two, or the rule's one). */
+export function verdictLimitsPhrase(v: Pick<Verdict, 'comparison' | 'limit' | 'sides' | 'unit'>): string {
+  return limitsPhrase(v.sides ?? [v], v.unit);
 }
 
 /** A value in a few words: the number, "unbounded (+∞)" or "no value", without the reason. */
@@ -71,6 +83,13 @@ export function yieldPhrases(m: Extract<ModeResult, { kind: 'yield' }>): { found
   return { found, decided };
 }
 
+/** A window's two sides at their own worst corners: "≥ 9 nm: 9.853 nm (+9.48 %); ≤ 14 nm: 13.4 nm (+4.26 %)". */
+export function bySidePhrase(bySide: Array<{ comparison: Comparison; limit: number; value: number | null }>, unit: string): string {
+  return bySide
+    .map((s) => `${limitPhrase(s, unit)}: ${formatValue(s.value, unit)}${s.value === null ? '' : ` (${formatMargin(margin(s.value, s.limit, s.comparison))})`}`)
+    .join('; ');
+}
+
 /** The lines a mode adds to a verdict's explanation (the terminal's `explain`). */
 export function modeLines(v: Pick<Verdict, 'mode' | 'nominal' | 'unit'>, unitOfInput: (name: string) => string): string[] {
   const m = v.mode;
@@ -81,6 +100,7 @@ export function modeLines(v: Pick<Verdict, 'mode' | 'nominal' | 'unit'>, unitOfI
     case 'worst-case': {
       const out = [`nominal ${formatValue(v.nominal ?? null, v.unit)}; worst of ${m.corners} corner${m.corners === 1 ? '' : 's'}`];
       if (m.worstCorner.length) out.push(`worst corner: ${m.worstCorner.map((c) => `${c.name} ${c.side} (${formatValue(c.value, unitOfInput(c.name))})`).join(', ')}`);
+      if (m.bySide) out.push(`each limit at its own worst corner: ${bySidePhrase(m.bySide, v.unit)}`);
       if (m.failure) out.push(`${failurePhrase(m.failure)}, each tolerance a ±3σ band unless the structure says otherwise`);
       if (m.failureNotSampled) out.push(`probability of failure not sampled: ${m.failureNotSampled}`);
       return out;

@@ -228,7 +228,8 @@ describe('the demo handbook, verdict by verdict', () => {
     ['FIN-AR-1', 'periphery-fin', 'pass', 59 / 10],
     // (62 + 3)/(9 − 1) = 8.125 ≤ 10.
     ['FIN-AR-2', 'periphery-fin', 'pass', 65 / 8],
-    // Widest base: 10 nm + 2·65 nm·tan 1.5° = 10 + 3.4042 = 13.404 nm ≤ 14 nm.
+    // A window, 9 … 14 nm. Widest base: 10 nm + 2·65 nm·tan 1.5° = 10 + 3.4042 = 13.404 nm ≤ 14 nm
+    // (+4.26 %); narrowest 8 nm + 2·59 nm·tan 0.9° = 9.854 nm ≥ 9 nm (+9.49 %): the upper side decides.
     ['FIN-BASE-1', 'periphery-fin', 'pass', 10 * nm + 2 * 65 * nm * tanDeg(1.5)],
     // (230 + 10)/(24 − 2) = 10.909 ≤ 11.
     ['ISO-AR-1', 'cell-isolation-trench', 'pass', 240 / 22],
@@ -394,6 +395,15 @@ describe('the demo handbook, verdict by verdict', () => {
     const signal = evaluateHandbook(handbook, ON).verdicts.find((x) => x.rule === 'SN-SIGNAL-1' && x.structure === 'storage-node')!;
     expect(signal.value).toBeNull();
     expect(signal.reason).toMatch(/fills the cup where it is narrowest/);
+  });
+
+  it('judges the fin-base window at each side’s own worst corner', () => {
+    const v = evaluateHandbook(handbook, ON).verdicts.find((x) => x.rule === 'FIN-BASE-1' && x.structure === 'periphery-fin')!;
+    expect(v.comparison).toBe('at_most');
+    expectRel(v.limit, 14e-9, 12);
+    if (v.mode?.kind !== 'worst-case') throw new Error('not a worst case');
+    expectRel(v.mode.bySide![0]!.value, 8 * nm + 2 * 59 * nm * tanDeg(0.9), 9);
+    expectRel(v.mode.bySide![1]!.value, 10 * nm + 2 * 65 * nm * tanDeg(1.5), 9);
   });
 
   it('counts 38 pass, 14 fail (10 blocking), 1 waived, 1 incomplete, 463 not applicable', () => {

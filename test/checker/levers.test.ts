@@ -91,7 +91,7 @@ describe('what would pass', () => {
     const depthIndex = plan.params.findIndex((p) => p.name === 'geometry.depth');
     const base = plan.params.map((p) => p.value);
     // at_least 68: passes for depth ≥ 2040 nm; the start is the passing end, at or just above it.
-    const [[start, end]] = passingValues(plan, base, depthIndex, 0, [1000 * nm, 3000 * nm], 68, 'at_least') as [[number, number]];
+    const [[start, end]] = passingValues(plan, base, depthIndex, 0, [1000 * nm, 3000 * nm], [{ comparison: 'at_least', limit: 68 }]) as [[number, number]];
     expect(start).toBeGreaterThanOrEqual(2040 * nm * (1 - 1e-12));
     expectRel(start, 2040 * nm, 9);
     expect(end).toBe(3000 * nm);

@@ -16,7 +16,7 @@ const undrilled = () => makeStructure('hole', { cd: 100 * nm }, { id: 'undrilled
 const pillar = () => makeStructure('pillar', { cd: 0.25, height: 3 }, { id: 'pillar', tags: ['probe'] });
 
 /** At most 10: the deep hole fails (12 > 10, margin (10 − 12)/10 = −0.2), the shallow one passes (8). */
-const arRule = (over: Partial<Rule> = {}) => makeRule({ id: 'AR-1', quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 10, appliesTo: { kinds: ['hole'] }, ...over });
+const arRule = (over: Partial<Rule> & { comparison?: 'at_least' | 'at_most'; limit?: number } = {}) => makeRule({ id: 'AR-1', quantity: 'geometry.aspect_ratio', comparison: 'at_most', limit: 10, appliesTo: { kinds: ['hole'] }, ...over });
 
 function waiver(over: Partial<Waiver> = {}): Waiver {
   return {

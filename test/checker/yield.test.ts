@@ -23,7 +23,7 @@ function planOf(s: Structure): ReadyPlan {
   return p;
 }
 const fraction = (s: Structure, limit: number, n = 65536, seed = 1) =>
-  sampleYield(planOf(s), { comparison: 'at_most', limit, correlations: s.correlations, seed, confidence: 0.95, maxSamples: n }).estimate;
+  sampleYield(planOf(s), { sides: [{ comparison: 'at_most', limit }], correlations: s.correlations, seed, confidence: 0.95, maxSamples: n }).estimate;
 
 describe('the normal distribution the sampler draws from', () => {
   it('quantiles match the standard normal table and jstat', () => {
@@ -123,7 +123,7 @@ describe('the sequential stop', () => {
   // True yield Φ(4/3) = 0.9088 (above). Required 0.90 is close above it; 0.92 close below.
   const s = hole([2000 * nm, 1910 * nm, 2090 * nm], 30 * nm);
   const run = (required: number, seed: number) =>
-    sampleYield(planOf(s), { comparison: 'at_most', limit: 68, correlations: [], seed, confidence: 0.95, maxSamples: 16384, required });
+    sampleYield(planOf(s), { sides: [{ comparison: 'at_most', limit: 68 }], correlations: [], seed, confidence: 0.95, maxSamples: 16384, required });
   it('agrees with a large fixed sample near the required yield, and stops early far from it', () => {
     const big = fraction(s, 68, 262144);
     for (const required of [0.9, 0.92]) {

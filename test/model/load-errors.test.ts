@@ -158,6 +158,6 @@ describe('a clean fixture', () => {
     expect(e.value).toBe(160e9);
     expect(e.origin.type).toBe('handbook');
     // A single-mapping rule file: "at_least: 25 nm" in rules/single.yaml.
-    expect(h.rules.find((x) => x.id === 'PROBE-BOTTOM-1')?.limit).toBe(25e-9);
+    expect(h.rules.find((x) => x.id === 'PROBE-BOTTOM-1')?.sides).toEqual([{ comparison: 'at_least', limit: 25e-9, written: '25 nm' }]);
   });
 });

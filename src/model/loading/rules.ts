@@ -1,6 +1,6 @@
 // A rule file: one rule or a list, each with its quantity, limit and scope.
 import { closest } from 'fastest-levenshtein';
-import type { Kind, QuantityCatalogue, Rule, YieldRequirement } from '../types.ts';
+import type { Kind, QuantityCatalogue, Rule, RuleSide, YieldRequirement } from '../types.ts';
 import { type FileReport, type Loaded, isMapping, suggest } from './file-report.ts';
 import { getValidators, reportSchemaErrors } from './schema-errors.ts';
 import { readValue } from './values.ts';
@@ -37,25 +37,32 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
     }
     const hasLeast = raw.at_least !== undefined;
     const hasMost = raw.at_most !== undefined;
-    if (hasLeast === hasMost) {
-      if (hasLeast) report.add('bad-value', `${base}/at_most`, { expected: 'either at_least or at_most, not both', found: 'both' }, 'key');
-      else report.addAt('missing-field', base, `${base}/at_least`, { expected: 'a limit: at_least or at_most' });
+    if (!hasLeast && !hasMost) {
+      report.addAt('missing-field', base, `${base}/at_least`, { expected: 'a limit: at_least, at_most, or both (a window)' });
       return;
     }
-    const comparison = hasLeast ? 'at_least' : 'at_most';
-    const limitRaw = raw[comparison];
-    let limit: number | null = null;
-    if (q) {
+    // Each side is read on its own, so a bad value on one does not hide a bad value on the other.
+    const sides: RuleSide[] = [];
+    let sidesOk = true;
+    for (const comparison of ['at_least', 'at_most'] as const) {
+      const limitRaw = raw[comparison];
+      if (limitRaw === undefined || !q) continue;
       const r = readValue(report, `${base}/${comparison}`, limitRaw, { unit: q.unit, description: q.title });
       if (r && !Number.isFinite(r.value)) report.add('bad-value', `${base}/${comparison}`, { expected: 'a finite limit', found: `"${String(limitRaw)}"` });
+      else if (r && r.low !== undefined) report.add('malformed-tolerance', `${base}/${comparison}`, { expected: 'a limit without tolerance', found: `"${String(limitRaw)}"` });
       else if (r) {
-        if (r.low !== undefined) report.add('malformed-tolerance', `${base}/${comparison}`, { expected: 'a limit without tolerance', found: `"${String(limitRaw)}"` });
-        else limit = r.value;
+        sides.push({ comparison, limit: r.value, written: String(limitRaw) });
+        continue;
       }
+      sidesOk = false;
+    }
+    if (sidesOk && sides.length === 2 && !(sides[0]!.limit < sides[1]!.limit)) {
+      report.add('bad-value', `${base}/at_most`, { expected: `an upper limit above the lower one (at_least ${sides[0]!.written}): a window no value can meet passes nothing`, found: `"${sides[1]!.written}"` });
+      sidesOk = false;
     }
     const evaluateAt = (raw.evaluate_at as Rule['evaluateAt']) ?? 'nominal';
     const yieldReq = readYield(report, base, raw, evaluateAt);
-    if (!q || limit === null || yieldReq === null) return;
+    if (!q || !sidesOk || yieldReq === null) return;
     const at = (raw.applies_to ?? {}) as Record<string, unknown>;
     rules.push({ idPointer: `${base}/id`, rule: {
       id: String(raw.id),
@@ -67,9 +74,7 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
       },
       quantity: quantityName,
       ...(typeof raw.film === 'string' ? { film: raw.film } : {}),
-      comparison,
-      limit,
-      limitWritten: String(limitRaw),
+      sides,
       evaluateAt,
       ...(yieldReq ? { yield: yieldReq } : {}),
       severity: (raw.severity as Rule['severity']) ?? 'blocking',

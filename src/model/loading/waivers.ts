@@ -119,8 +119,10 @@ export function waiverFrom(entry: WaiverEntry, rules: RulesRead, structureIds: s
       const comparison = hasLeast ? 'at_least' : 'at_most';
       const pointer = `${swAt}/${comparison}`;
       const written = sw[comparison];
-      if (comparison !== rule.comparison) {
-        report.add('bad-value', pointer, { expected: `${rule.comparison}, the comparison of ${rule.id} (it requires ${rule.comparison} ${rule.limitWritten})`, found: comparison }, 'key');
+      const side = rule.sides.find((x) => x.comparison === comparison);
+      if (!side) {
+        const own = rule.sides.map((x) => `${x.comparison} ${x.written}`).join(' and ');
+        report.add('bad-value', pointer, { expected: `${rule.sides.map((x) => x.comparison).join(' or ')}, the comparison of ${rule.id} (it requires ${own})`, found: comparison }, 'key');
       } else if (!flagged(pointer)) {
         const q = quantities.get(rule.quantity)!;
         const r = readValue(report, pointer, written, { unit: q.unit, description: q.title });
@@ -129,10 +131,10 @@ export function waiverFrom(entry: WaiverEntry, rules: RulesRead, structureIds: s
         else if (r) {
           // The same slack the checker gives a value at a limit: a floor written equal to the rule's
           // limit in another unit (1000 nm for 1 um) is not stricter by rounding.
-          const slack = 1e-12 * Math.abs(rule.limit);
-          const stricter = comparison === 'at_least' ? r.value > rule.limit + slack : r.value < rule.limit - slack;
+          const slack = 1e-12 * Math.abs(side.limit);
+          const stricter = comparison === 'at_least' ? r.value > side.limit + slack : r.value < side.limit - slack;
           if (stricter) {
-            const limitText = `${comparison === 'at_least' ? '≥' : '≤'} ${formatValue(rule.limit, q.unit)}`;
+            const limitText = `${comparison === 'at_least' ? '≥' : '≤'} ${formatValue(side.limit, q.unit)}`;
             report.add('floor-stricter-than-rule', pointer, { expected: `a limit ${comparison === 'at_least' ? 'at or below' : 'at or above'} the limit of ${rule.id} (${limitText})`, found: `"${String(written)}"` });
           } else stillWithin = { comparison, limit: r.value, written: String(written) };
         }
