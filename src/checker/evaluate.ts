@@ -6,10 +6,10 @@ import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
-import { comparable, leversOf, meetsAll, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
+import { comparable, declaredSweep, leversOf, meetsAll, type SweepCurve, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
 import { structureRelations } from '../model/relations.ts';
 
-export type { Lever } from './excursions.ts';
+export type { Lever, SweepCurve } from './excursions.ts';
 import { MODES, type ModeContext, type ModeOutcome, type ModeResult } from './modes.ts';
 
 export type { CornerNote, FailureEstimate, ModeResult } from './modes.ts';
@@ -120,6 +120,8 @@ export interface Verdict {
   levers?: Lever[];
   /** With details, why the levers were not worked out (a step too costly to run hundreds of times). */
   leversNotComputed?: string;
+  /** With details: the charts the quantity's declaration asks for (its `sweep`, then its `extraSweep`). */
+  sweeps?: Array<SweepCurve | null>;
   missing?: string[];
   /** For `waived`: the waiver. For a `fail` whose waiver lapsed: that waiver, with `lapsed`. */
   waiver?: WaiverRef;
@@ -295,6 +297,11 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
   const elsewhere = d !== e.nominal;
   const costly = plans.context.detail ? plan.steps.find((st) => st.variant.costly) : undefined;
   const levers = plans.context.detail && !costly ? leversOf(plan, e.nominal, d, rule.sides, planRelations(plan, s)) : undefined;
+  const decided = new Map(plan.params.map((p, i) => [p.name, d.inputs[i]!]));
+  const sweeps =
+    plans.context.detail && d.value !== null
+      ? [false, true].map((extra) => declaredSweep(rule.quantity, (name) => plans.get(s, name, rule.film), decided, d.value!, s, rule.film, extra))
+      : undefined;
   // One literal of fixed shape: absent facts are left undefined (and dropped from JSON).
   return {
     rule: rule.id,
@@ -315,6 +322,7 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     mode: e.result,
     levers,
     leversNotComputed: costly ? `${costly.def.name}: ${costly.variant.costly}` : undefined,
+    sweeps: sweeps?.some((x) => x !== null) ? sweeps : undefined,
     waiver: undefined,
     trace: e.trace,
   };

@@ -1,8 +1,9 @@
 // Every run of a plan away from its nominal inputs lives here: the tolerance corners, sampling the
 // inputs' distributions (yield and the probability of failure), and the sensitivities. The
 // evaluation modes (`modes.ts`) and the report read what these compute; nothing else re-runs a plan.
-import type { Comparison, Correlation, Param, RuleSide } from '../model/types.ts';
-import { runPlan, type Plan } from './plan.ts';
+import { QUANTITIES } from '../engines/index.ts';
+import type { Comparison, Correlation, Param, RuleSide, Structure } from '../model/types.ts';
+import { runPlan, shapeOf, type Plan } from './plan.ts';
 import { cholesky, normalCdf, normalQuantile, QuasiRandom, wilsonInterval } from './statistics.ts';
 
 export type ReadyPlan = Extract<Plan, { status: 'ready' }>;
@@ -458,4 +459,93 @@ export function leversOf(plan: ReadyPlan, nominal: Point, decisive: Point, sides
     return Number.isNaN(d) ? Infinity : d; // an end without a value moves the verdict most
   };
   return levers.sort((a, b) => swing(b) - swing(a) || Math.abs(b.elasticity ?? 0) - Math.abs(a.elasticity ?? 0) || (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
+}
+
+// ---------------------------------------------------------------------------------------------
+// The chart a quantity's declaration asks for: the value against one input.
+
+/** The value against one input, from the point a verdict is decided at (SI; x in the axis variable). */
+export interface SweepCurve {
+  /** The quantity charted: the verdict's, or the one its declaration charts instead (a fit's curve). */
+  quantity: string;
+  /** The input swept. */
+  input: string;
+  /** What the x axis shows: the swept input itself, or the variable the declaration maps it to. */
+  axis: { label: string; unit: string };
+  /** The structure's own point. */
+  own: { x: number; y: number };
+  points: Array<{ x: number; y: number }>;
+  /** The same plan with some inputs replaced (the reference feature's CD and vertical walls, say). */
+  companion?: { label: string; points: Array<{ x: number; y: number }> };
+  /** Measured points to draw over the curve. */
+  overlay?: { label: string; points: Array<{ x: number; y: number }> };
+}
+
+export const SWEEP_POINTS = 48;
+
+/**
+ * The sweep a quantity declares (`sweep`, or with `extra` its `extraSweep`), run from `decided`
+ * (the inputs of the point the verdict is decided at; a charted quantity of its own takes its
+ * nominal values for inputs the verdict's plan does not read). Null when the quantity declares
+ * none, the plan does not read the input, or fewer than two points have a value.
+ */
+export function declaredSweep(
+  quantity: string,
+  planOf: (name: string) => Plan,
+  decided: ReadonlyMap<string, number>,
+  ownValue: number,
+  s: Structure,
+  film: string | undefined,
+  extra: boolean,
+): SweepCurve | null {
+  const own = QUANTITIES.get(quantity);
+  const ownSweep = extra ? own?.extraSweep : own?.sweep;
+  if (!ownSweep) return null;
+  const name = ownSweep.of ?? quantity;
+  const def = QUANTITIES.get(name);
+  const baseSweep = extra ? def?.extraSweep : def?.sweep;
+  if (!def || !baseSweep) return null;
+  const sweep = { ...baseSweep, ...ownSweep };
+  const plan = planOf(name);
+  if (plan.status !== 'ready') return null;
+  const inputName = sweep.input(shapeOf(s, film));
+  const idx = plan.params.findIndex((p) => p.name === inputName);
+  if (idx < 0) return null;
+  const base = plan.params.map((p) => decided.get(p.name) ?? p.value);
+  const x0 = base[idx]!;
+  const last = plan.steps.length - 1;
+  const y0 = name === quantity ? ownValue : runPlan(plan, base).values[last];
+  if (y0 === null || y0 === undefined) return null;
+  const byName = Object.fromEntries(plan.params.map((p, i) => [p.name, base[i]!]));
+  const axis = sweep.axis;
+  const shown = (x: number) => (axis ? axis.map(x, byName) : x);
+  const sweepFrom = (start: number[]) => {
+    const points: Array<{ x: number; y: number }> = [];
+    for (let k = 0; k < SWEEP_POINTS; k++) {
+      const x = x0 * (sweep.from + ((sweep.to - sweep.from) * k) / (SWEEP_POINTS - 1));
+      const inputs = start.slice();
+      inputs[idx] = x;
+      const y = runPlan(plan, inputs).values[last];
+      if (y !== null && y !== undefined && Number.isFinite(y)) points.push({ x: shown(x), y });
+    }
+    return points;
+  };
+  const points = sweepFrom(base);
+  if (points.length < 2) return null;
+  const curve: SweepCurve = { quantity: name, input: inputName, axis: axis ? { label: axis.label, unit: axis.unit } : { label: inputName, unit: plan.params[idx]!.unit }, own: { x: shown(x0), y: y0 }, points };
+  const comp = sweep.companion;
+  if (comp) {
+    // The companion curve: the same plan with some inputs replaced (all must be known).
+    const start = base.slice();
+    let complete = true;
+    for (const [target, source] of Object.entries(comp.replace)) {
+      const ti = plan.params.findIndex((p) => p.name === target);
+      const value = typeof source === 'number' ? source : s.params.get(source)?.value;
+      if (ti < 0 || value === undefined) complete = false;
+      else start[ti] = value;
+    }
+    if (complete) curve.companion = { label: comp.label, points: sweepFrom(start) };
+  }
+  if (sweep.overlay) curve.overlay = { label: sweep.overlay.label, points: sweep.overlay.points(byName) };
+  return curve;
 }

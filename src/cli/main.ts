@@ -48,6 +48,16 @@ function todayUtc(): string {
 }
 
 /** Ports: a whole number 0–65535 (0 asks the system for a free one). */
+function collect(value: string, previous: string[]): string[] {
+  return [...previous, value];
+}
+
+export function parseSteps(text: string): number {
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 2 || n > 101) throw new InvalidArgumentError('a whole number of points from 2 to 101');
+  return n;
+}
+
 export function parsePort(text: string): number {
   if (!/^\d{1,5}$/.test(text.trim()) || Number(text) > 65535) throw new InvalidArgumentError('expected a port number from 0 to 65535 (0 picks a free one)');
   return Number(text);
@@ -197,6 +207,65 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
       }
       const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ detail: true }))], loaded.handbook, opts.on ?? todayUtc()).verdicts;
       io.out(renderExplain(rule, s, verdict!));
+      setExit(0);
+    });
+
+  program
+    .command('sweep')
+    .description("every rule that applies to one structure, across a range of one or two of its inputs (waivers are not applied)")
+    .argument('<structure>', 'structure id')
+    .option('--vary <input=from..to>', 'an input and its range, in any unit of its dimension (height=1.2um..2.4um); give it once or twice', collect, [])
+    .option('--steps <n>', 'points along each range, ends included (default 9 for one input, 5 for two)', parseSteps)
+    .option('--json', 'print the grid with SI values')
+    .action(async (structureId: string, opts: { vary: string[]; steps?: number; json?: boolean }, cmd: Command) => {
+      if (opts.vary.length < 1 || opts.vary.length > 2) throw new InvalidArgumentError('give --vary once or twice (input=from..to)');
+      const { loadHandbook, FolderSource, renderSweep } = await core();
+      const { sweepStructure } = await import('../checker/sweep.ts');
+      const { parseValue, isUnitProblem } = await import('../model/units.ts');
+      const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
+      if (!loaded.ok) {
+        io.err(formatDiagnostics(loaded.diagnostics));
+        return setExit(2);
+      }
+      printWarnings(io, loaded.handbook.warnings);
+      const s = loaded.handbook.structures.find((x) => x.id === structureId);
+      if (!s) {
+        io.err(`no structure "${structureId}"`);
+        return setExit(2);
+      }
+      const steps = opts.steps ?? (opts.vary.length === 1 ? 9 : 5);
+      const problems: string[] = [];
+      const axes = opts.vary.flatMap((text) => {
+        const m = /^([a-z0-9_.-]+)=(.+?)\.\.(.+)$/.exec(text.trim());
+        if (!m) {
+          problems.push(`--vary ${text}: expected input=from..to, as height=1.2um..2.4um`);
+          return [];
+        }
+        const name = m[1]!.includes('.') ? m[1]! : `geometry.${m[1]}`;
+        const p = s.params.get(name);
+        if (!p) {
+          problems.push(`--vary ${text}: ${s.id} has no input ${name} (it has ${[...s.params.keys()].sort().join(', ')})`);
+          return [];
+        }
+        const ends = [m[2]!, m[3]!].map((t) => parseValue(t.trim(), p.unit));
+        const bad = ends.find(isUnitProblem);
+        if (bad && isUnitProblem(bad)) {
+          problems.push(`--vary ${text}: ${bad.expected}`);
+          return [];
+        }
+        const [from, to] = ends.map((e) => (e as { value: number; low?: number }));
+        if (from!.low !== undefined || to!.low !== undefined) {
+          problems.push(`--vary ${text}: the ends of a range carry no tolerance`);
+          return [];
+        }
+        return [{ input: name, unit: p.unit, from: from!.value, to: to!.value, steps }];
+      });
+      if (problems.length) {
+        io.err(problems.join('\n'));
+        return setExit(2);
+      }
+      const result = sweepStructure(loaded.handbook, s, axes);
+      io.out(opts.json ? JSON.stringify(result, null, 2) : renderSweep(result));
       setExit(0);
     });
 

@@ -1,6 +1,7 @@
 // Plain-text renderings for the terminal: the check summary, a structure's quantities, and the
 // derivation of one verdict. Words about verdicts come from report/words.ts, shared with the site.
-import type { Results, Verdict } from '../checker/evaluate.ts';
+import type { Results, Status, Verdict } from '../checker/evaluate.ts';
+import type { StructureSweep } from '../checker/sweep.ts';
 import type { StructureQuantity } from '../checker/evaluate.ts';
 import { byCodePoint } from '../diagnostics/diagnostic.ts';
 import { QUANTITIES } from '../engines/index.ts';
@@ -142,3 +143,21 @@ function unitOfParam(v: Verdict, name: string): string {
 function unitOfArg(t: NonNullable<Verdict['trace']>, from: string): string {
   return t.inputs.find((i) => i.name === from)?.unit ?? QUANTITIES.get(from)?.unit ?? '1';
 }
+
+/** A structure's rules across the sweep's grid: one row per point, one column per rule. */
+export function renderSweep(r: StructureSweep): string {
+  const head = [...r.axes.map((a) => a.input), ...r.rules.map((x) => x.id)];
+  const rows = [head];
+  for (const p of r.points) {
+    const at = p.at.map((x, k) => formatValue(x, r.axes[k]!.unit));
+    if (p.invalid) {
+      rows.push([...at, `not a valid structure: ${p.invalid}`, ...r.rules.slice(1).map(() => '')]);
+      continue;
+    }
+    rows.push([...at, ...p.verdicts.map((v, i) => `${SWEEP_MARK[v.status] ?? v.status} ${v.value === null ? '—' : formatValue(v.value, r.rules[i]!.unit)}`)]);
+  }
+  const modes = r.rules.map((x) => `${x.id} (${x.quantity}, ${x.mode})`).join('; ');
+  return [`${r.structure}: every rule that applies, across ${r.axes.map((a) => `${a.input} ${formatValue(a.from, a.unit)} … ${formatValue(a.to, a.unit)}`).join(' and ')}; the other inputs as written, waivers not applied.`, '', table(rows), '', `Rules: ${modes}.`, '', CAUTION].join('\n');
+}
+
+const SWEEP_MARK: Partial<Record<Status, string>> = { pass: 'ok', fail: 'FAIL', incomplete: '?', 'not-applicable': '-' };

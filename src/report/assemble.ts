@@ -9,7 +9,6 @@ import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Ru
 import { countsChart, marginChart, sweepChart, tornadoChart, trendChart, valueChart } from './charts.ts';
 import { meetsAll } from '../checker/excursions.ts';
 import type { HistoryPages } from './history-pages.ts';
-import { runPlan, shapeOf } from '../checker/plan.ts';
 import { renderCrossSection } from './cross-section.ts';
 import { renderFigure } from './figures.ts';
 import { displayScale, formatMargin, formatValue, sig } from '../model/format.ts';
@@ -115,8 +114,8 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
     const rule = ruleById.get(v.rule)!;
     const s = structureById.get(v.structure)!;
     const t = v.trace;
-    const sweep = await sweepOf(v, s, plans, rule.film);
-    const extra = await sweepOf(v, s, plans, rule.film, true);
+    const sweep = await sweepOf(v);
+    const extra = await sweepOf(v, true);
     verdictPages.push({
       ...row(v, rule, s),
       quantity: v.quantity,
@@ -346,7 +345,6 @@ async function historyOf(pages: HistoryPages | undefined) {
   return { ...pages, trends };
 }
 
-const SWEEP_POINTS = 48;
 
 /** The verdict's inputs ranked by what they move, the tornado chart and what would pass. */
 async function leversPage(v: Verdict) {
@@ -430,72 +428,28 @@ function modePage(v: Verdict) {
 }
 
 /**
- * The verdict's quantity against the input its declaration sweeps (the height, say), from the
- * deciding inputs: the same plan run at each point. Empty when the quantity declares no sweep.
+ * The chart of the verdict's quantity against the input its declaration sweeps (the height, say),
+ * as the checker ran it from the deciding inputs (`Verdict.sweeps`). Null when there is none.
  */
-async function sweepOf(v: Verdict, s: Structure, plans: PlanCache, film?: string, extra = false): Promise<{ svg: string; caption: string } | null> {
-  const own = QUANTITIES.get(v.quantity);
-  const ownSweep = extra ? own?.extraSweep : own?.sweep;
-  if (!ownSweep || !v.trace || v.value === null) return null;
-  // A quantity may chart another one's sweep (a fit residual shows the fitted curve).
-  const name = ownSweep.of ?? v.quantity;
-  const def = QUANTITIES.get(name);
-  const baseSweep = extra ? def?.extraSweep : def?.sweep;
-  if (!def || !baseSweep) return null;
-  const sweep = { ...baseSweep, ...ownSweep };
-  const plan = plans.get(s, name, film);
-  if (plan.status !== 'ready') return null;
-  const inputName = sweep.input(shapeOf(s, film));
-  const idx = plan.params.findIndex((p) => p.name === inputName);
-  if (idx < 0) return null;
-  // The deciding inputs of the verdict where the plans share them, nominal values otherwise.
-  const decided = new Map(v.trace.inputs.map((i) => [i.name, i.value]));
-  const base = plan.params.map((p) => decided.get(p.name) ?? p.value);
-  const x0 = base[idx]!;
-  const last = plan.steps.length - 1;
-  const y0 = name === v.quantity ? v.value : runPlan(plan, base).values[last];
-  if (y0 === null || y0 === undefined) return null;
-  const byName = Object.fromEntries(plan.params.map((p, i) => [p.name, base[i]!]));
-  const axis = sweep.axis;
-  // The displayed x: the swept input itself, or the variable the declaration maps it to.
-  const shown = (x: number) => (axis ? axis.map(x, byName) : x);
-  const xScale = axis ? displayScale(axis.unit, shown(x0)) : displayScale(plan.params[idx]!.unit, x0);
-  const yScale = displayScale(def.unit, y0);
-  const sweepFrom = (start: number[]) => {
-    const points: Array<{ x: number; y: number }> = [];
-    for (let k = 0; k < SWEEP_POINTS; k++) {
-      const x = x0 * (sweep.from + ((sweep.to - sweep.from) * k) / (SWEEP_POINTS - 1));
-      const inputs = start.slice();
-      inputs[idx] = x;
-      const y = runPlan(plan, inputs).values[last];
-      if (y !== null && y !== undefined && Number.isFinite(y)) points.push({ x: shown(x) * xScale.factor, y: y * yScale.factor });
-    }
-    return points;
-  };
-  const curve = sweepFrom(base);
-  if (curve.length < 2) return null;
-  // The companion curve: the same plan with some inputs replaced (all must be known).
-  let companion: Array<{ x: number; y: number }> = [];
-  const comp = sweep.companion;
-  if (comp) {
-    const start = base.slice();
-    let complete = true;
-    for (const [target, source] of Object.entries(comp.replace)) {
-      const ti = plan.params.findIndex((p) => p.name === target);
-      const value = typeof source === 'number' ? source : s.params.get(source)?.value;
-      if (ti < 0 || value === undefined) complete = false;
-      else start[ti] = value;
-    }
-    if (complete) companion = sweepFrom(start);
-  }
-  const overlay = (sweep.overlay?.points(byName) ?? []).map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
-  const xTitle = `${axis ? axis.label : inputName}${xScale.label ? ` (${xScale.label})` : ''}`;
+async function sweepOf(v: Verdict, extra = false): Promise<{ svg: string; caption: string } | null> {
+  const c = v.sweeps?.[extra ? 1 : 0];
+  if (!c) return null;
+  const def = QUANTITIES.get(c.quantity)!;
+  const xScale = displayScale(c.axis.unit, c.own.x);
+  const yScale = displayScale(def.unit, c.own.y);
+  const scaled = (pts: Array<{ x: number; y: number }>) => pts.map((p) => ({ x: p.x * xScale.factor, y: p.y * yScale.factor }));
+  const companion = c.companion ? scaled(c.companion.points) : [];
+  const overlay = c.overlay ? scaled(c.overlay.points) : [];
+  const xTitle = `${c.axis.label}${xScale.label ? ` (${xScale.label})` : ''}`;
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
-  const limits = name === v.quantity ? (v.sides ?? [v]).map((x) => x.limit * yScale.factor) : [];
-  const svg = await sweepChart(curve, { x: shown(x0) * xScale.factor, y: y0 * yScale.factor, status: v.status }, limits, xTitle, yTitle, companion, overlay);
-  const corner = v.evaluateAt === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
-  const also = (companion.length > 1 && comp ? `; dotted: the ${comp.label}` : '') + (overlay.length && sweep.overlay ? `; ○ ${sweep.overlay.label}` : '') + (limits.length > 1 ? '; dashed: the limits' : limits.length ? '; dashed: the limit' : '');
-  return { svg, caption: `${def.title} against ${axis ? axis.label : inputName}, with ${corner}; ◆ this structure${also}.` };
+  const limits = c.quantity === v.quantity ? (v.sides ?? [v]).map((x) => x.limit * yScale.factor) : [];
+  const svg = await sweepChart(scaled(c.points), { x: c.own.x * xScale.factor, y: c.own.y * yScale.factor, status: v.status }, limits, xTitle, yTitle, companion, overlay);
+  const corner = v.mode?.kind === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
+  const also =
+    (companion.length > 1 && c.companion ? `; dotted: the ${c.companion.label}` : '') +
+    (overlay.length && c.overlay ? `; ○ ${c.overlay.label}` : '') +
+    (limits.length > 1 ? '; dashed: the limits' : limits.length ? '; dashed: the limit' : '');
+  return { svg, caption: `${def.title} against ${c.axis.label}, with ${corner}; ◆ this structure${also}.` };
 }
 
 /** `deposition.step_coverage[liner]` → `deposition.step_coverage`. */
