@@ -141,6 +141,10 @@ const historyCache = new HistoryCache();
 /** Waivers are judged on a fixed day, so every run times the same work. */
 const ON = { on: '2026-12-02' };
 
+const demoLoad = loadHandbookFolder(new URL('..', import.meta.url).pathname);
+if (!demoLoad.ok) throw new Error('the demo handbook does not load');
+const demo = demoLoad;
+
 const cases: Case[] = [
   { name: 'load and validate 1,000 structure files and 100 rules', targetMs: 3000, run: () => void loadHandbookFolder(big) },
   {
@@ -160,6 +164,23 @@ const cases: Case[] = [
     name: 'evaluate 200 collapse verdicts (finite-element body, 16 corners each)',
     targetMs: 5000,
     run: () => void evaluateHandbook(collapse.handbook, ON),
+  },
+  {
+    // The demo's yield rules: each samples its structure until the interval decides (FIN-STAND-Y
+    // runs the fin's collapse beam a few thousand times).
+    name: "evaluate the demo handbook's yield rules (sequential sampling to a decision)",
+    targetMs: 3000,
+    run: () => {
+      const h = { ...demo.handbook, rules: demo.handbook.rules.filter((r) => r.evaluateAt === 'yield') };
+      if (h.rules.length === 0) throw new Error('the demo has no yield rule');
+      evaluateHandbook(h, ON);
+    },
+  },
+  {
+    // What the report and explain ask for: probabilities of failure, sensitivities, passing values, sweeps.
+    name: 'evaluate the demo handbook with every detail',
+    targetMs: 15_000,
+    run: () => void evaluateHandbook(demo.handbook, { ...ON, detail: true }),
   },
   {
     name: 'history over 500 commits, cold (every revision loaded, new pairs evaluated)',

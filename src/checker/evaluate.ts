@@ -8,6 +8,9 @@ import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
 import { comparable, declaredSweep, leversOf, meetsAll, type SweepCurve, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
 import { structureRelations } from '../model/relations.ts';
+import { mappedRules, mapWindow, windowAxis, type ProcessWindow } from './windows.ts';
+
+export type { ProcessWindow } from './windows.ts';
 
 export type { Lever, SweepCurve } from './excursions.ts';
 import { MODES, type ModeContext, type ModeOutcome, type ModeResult } from './modes.ts';
@@ -122,6 +125,10 @@ export interface Verdict {
   leversNotComputed?: string;
   /** With details: the charts the quantity's declaration asks for (its `sweep`, then its `extraSweep`). */
   sweeps?: Array<SweepCurve | null>;
+  /** With details, for a rule that names two inputs to `map`: where in their plane it passes. */
+  window?: ProcessWindow;
+  /** Why a rule's map was not drawn for this structure (it lacks an input, or the plan reads neither). */
+  windowNotMapped?: string;
   missing?: string[];
   /** For `waived`: the waiver. For a `fail` whose waiver lapsed: that waiver, with `lapsed`. */
   waiver?: WaiverRef;
@@ -137,6 +144,8 @@ export interface Results {
   on: string;
   /** Every waiver of the handbook, by id, with what it did on that date. */
   waivers: WaiverUse[];
+  /** With details: each structure's process window (`process_window:`), by structure id. */
+  windows?: Record<string, ProcessWindow>;
 }
 
 /** Whether a rule, or a waiver, selects a structure. */
@@ -265,6 +274,27 @@ function planRelations(plan: ReadyPlan, s: Structure): PlanRelation[] {
   });
 }
 
+/** A rule's own process window on a structure, or why there is none. */
+function ruleWindow(rule: Rule, inputs: [string, string], s: Structure, plan: ReadyPlan): Pick<Verdict, 'window' | 'windowNotMapped'> {
+  const missing = inputs.filter((n) => !s.params.has(n));
+  if (missing.length) return { windowNotMapped: `${s.id} has no ${missing.join(' or ')}` };
+  const mapped = mappedRules(s, [rule], inputs, () => plan, (p) => planRelations(p, s));
+  if (mapped.length === 0) return { windowNotMapped: `${rule.quantity} reads neither ${inputs[0]} nor ${inputs[1]} here` };
+  return { window: mapWindow(mapped, [windowAxis(s.params.get(inputs[0])!), windowAxis(s.params.get(inputs[1])!)]) };
+}
+
+/**
+ * A structure's process window (`process_window:`): every blocking rule that applies and reads one
+ * of the two inputs, at once. Rules that read neither are the same everywhere in the plane.
+ */
+export function structureWindow(h: Pick<Handbook, 'rules'>, s: Structure, plans: PlanCache): ProcessWindow | undefined {
+  if (!s.processWindow) return undefined;
+  const inputs = s.processWindow;
+  const rules = h.rules.filter((r) => r.severity === 'blocking' && appliesTo(r, s));
+  const mapped = mappedRules(s, rules, inputs, (r) => plans.get(s, r.quantity, r.film), (p) => planRelations(p, s));
+  return mapWindow(mapped, [windowAxis(s.params.get(inputs[0])!), windowAxis(s.params.get(inputs[1])!)]);
+}
+
 export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdict {
   const unit = QUANTITIES.get(rule.quantity)?.unit ?? '1';
   const verdict = (status: Status, reason?: string, missing?: string[]): Verdict => ({
@@ -323,6 +353,7 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     levers,
     leversNotComputed: costly ? `${costly.def.name}: ${costly.variant.costly}` : undefined,
     sweeps: sweeps?.some((x) => x !== null) ? sweeps : undefined,
+    ...(plans.context.detail && rule.map ? ruleWindow(rule, rule.map, s, plan) : {}),
     waiver: undefined,
     trace: e.trace,
   };
@@ -350,7 +381,8 @@ export function evaluateHandbook(h: Handbook, options: EvaluateOptions): Results
     counts[v.status]++;
     if (v.status === 'fail' && v.severity === 'blocking') blockingFailures++;
   }
-  return { verdicts, counts, blockingFailures, on: options.on, waivers };
+  const windows = options.detail ? Object.fromEntries(h.structures.flatMap((s) => { const w = structureWindow(h, s, plans); return w ? [[s.id, w] as const] : []; })) : undefined;
+  return { verdicts, counts, blockingFailures, on: options.on, waivers, ...(windows && Object.keys(windows).length ? { windows } : {}) };
 }
 
 /** Why a waiver does not excuse a failure on `on`, or undefined when it does (history re-judges

@@ -307,7 +307,7 @@ export interface Lever {
 
 const ELASTICITY_STEP = 1e-3;
 const SCAN_POINTS = 24;
-const BISECTIONS = 40;
+const BISECTIONS = 32;
 
 function valueAt(plan: ReadyPlan, inputs: number[]): number {
   const run = runPlan(plan, inputs);

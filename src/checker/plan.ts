@@ -37,7 +37,7 @@ export interface Run {
  * reaches the engines without being listed here.
  */
 export function shapeOf(structure: Structure, film?: string): Shape {
-  const { id: _id, title: _title, tags: _tags, description: _description, params: _params, materialRoles: _roles, correlations: _correlations, file: _file, pos: _pos, ...facts } = structure;
+  const { id: _id, title: _title, tags: _tags, description: _description, params: _params, materialRoles: _roles, correlations: _correlations, processWindow: _window, file: _file, pos: _pos, ...facts } = structure;
   return { ...facts, ...(film !== undefined ? { film } : {}) };
 }
 

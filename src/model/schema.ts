@@ -85,6 +85,13 @@ export function structureSchema(): JsonSchema {
           properties: { material: { type: 'string' }, ...propertiesFrom(MATERIAL_PROPERTIES), expansion: valueWithUnit('Alias of thermal_expansion.') },
         },
       },
+      process_window: {
+        type: 'object',
+        additionalProperties: false,
+        required: ['inputs'],
+        description: 'Two inputs whose plane the structure page maps: the region where every blocking rule passes, the other inputs at nominal, with the rule that bounds each edge.',
+        properties: { inputs: { type: 'array', minItems: 2, maxItems: 2, items: { type: 'string', pattern: INPUT_PATH } } },
+      },
       variation: {
         type: 'object',
         additionalProperties: false,
@@ -130,6 +137,7 @@ const ruleProperties = (): JsonSchema => ({
   film: { type: 'string', pattern: '^[a-z][a-z0-9_-]*$', description: 'For quantities of one film step: the film name of the step.' },
   at_least: { type: ['string', 'number'], description: 'Lower limit, in the unit of the quantity.' },
   at_most: { type: ['string', 'number'], description: 'Upper limit, in the unit of the quantity.' },
+  map: { type: 'array', minItems: 2, maxItems: 2, items: { type: 'string', pattern: INPUT_PATH }, description: 'Two inputs whose plane the verdict page maps as a process window: where the rule passes, the other inputs at nominal.' },
   evaluate_at: { type: 'string', enum: ['nominal', 'worst-case', 'yield'], description: 'nominal: the written values; worst-case: the worst corner of every toleranced input; yield: the fraction of sampled inputs that pass, against required_yield.' },
   required_yield: { type: ['string', 'number'], description: 'With evaluate_at: yield, the fraction that must pass: a number below 1 (0.997) or a percentage ("99.7 %").' },
   sampling: {

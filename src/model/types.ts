@@ -125,6 +125,8 @@ export interface Structure extends ShapeFacts {
   materialRoles: Record<string, string>;
   /** Inputs that vary together when sampled (from `variation:`); empty when none are stated. */
   correlations: Correlation[];
+  /** Two inputs whose plane the structure page maps for every blocking rule at once (`process_window:`). */
+  processWindow?: [string, string];
   file: string;
   pos: SourcePos;
 }
@@ -157,6 +159,8 @@ export interface Rule {
   evaluateAt: EvaluateAt;
   /** For `evaluate_at: yield`: the passing fraction required and how it is sampled. */
   yield?: YieldRequirement;
+  /** Two inputs whose plane the verdict page maps: where the rule passes, the others at nominal. */
+  map?: [string, string];
   severity: Severity;
   rationale: string;
   references: string[];

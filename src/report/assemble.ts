@@ -6,7 +6,8 @@ import { ENGINES, QUANTITIES } from '../engines/index.ts';
 import { GEOMETRY_PARAMS, MATERIAL_PROPERTIES } from '../model/parameters.ts';
 import { SCHEMAS } from '../model/schema.ts';
 import { KINDS, isElongated, isOpening, type ArrayLayout, type Handbook, type Rule, type Selector, type Structure, type Waiver } from '../model/types.ts';
-import { countsChart, marginChart, sweepChart, tornadoChart, trendChart, valueChart } from './charts.ts';
+import { countsChart, marginChart, sweepChart, tornadoChart, trendChart, valueChart, windowChart } from './charts.ts';
+import { OUTSIDE, type ProcessWindow, type WindowEdge } from '../checker/windows.ts';
 import { meetsAll } from '../checker/excursions.ts';
 import type { HistoryPages } from './history-pages.ts';
 import { renderCrossSection } from './cross-section.ts';
@@ -129,6 +130,8 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       nominalText: v.nominal !== undefined ? formatValue(v.nominal, v.unit) : '',
       mode: modePage(v),
       levers: await leversPage(v),
+      windowMap: v.window ? await windowPage(v.window) : null,
+      windowNotMapped: v.windowNotMapped ?? '',
       inputs: (t?.inputs ?? []).map((i) => ({
         name: i.name,
         label: paramLabel(i.name),
@@ -235,6 +238,7 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       verdicts: vs.map((v) => row(v, ruleById.get(v.rule)!, s)),
       waivers: h.waivers.filter((w) => appliesTo(w, s)).map((w) => waiverLink(w, useById.get(w.id), results.on)),
       worst: worstWord(vs),
+      processWindow: results.windows?.[s.id] ? await windowPage(results.windows[s.id]!) : null,
       sectionSvg: renderCrossSection({
         kind: s.kind,
         cd: p('geometry.cd') ?? 0,
@@ -345,6 +349,43 @@ async function historyOf(pages: HistoryPages | undefined) {
   return { ...pages, trends };
 }
 
+
+/** A process window as its page lays it out: the heat map, the edges in words, the rules mapped. */
+async function windowPage(w: ProcessWindow) {
+  const [ax, ay] = w.axes;
+  const xs = displayScale(ax.unit, Math.abs(ax.nominal));
+  const ys = displayScale(ay.unit, Math.abs(ay.nominal));
+  const cells = w.cells.map((c) => ({
+    x0: c.x0 * xs.factor,
+    x1: c.x1 * xs.factor,
+    y0: c.y0 * ys.factor,
+    y1: c.y1 * ys.factor,
+    state: (c.pass ? 'pass' : c.failing?.includes(OUTSIDE) ? 'outside' : 'fail') as 'pass' | 'fail' | 'outside',
+  }));
+  const box =
+    ax.low !== undefined || ay.low !== undefined
+      ? { x0: (ax.low ?? ax.nominal) * xs.factor, x1: (ax.high ?? ax.nominal) * xs.factor, y0: (ay.low ?? ay.nominal) * ys.factor, y1: (ay.high ?? ay.nominal) * ys.factor }
+      : null;
+  const edgePoint = (e: WindowEdge) => (e.axis === 0 ? { x: e.at * xs.factor, y: ay.nominal * ys.factor } : { x: ax.nominal * xs.factor, y: e.at * ys.factor });
+  const title = (a: typeof ax, s: typeof xs) => `${a.input}${s.label ? ` (${s.label})` : ''}`;
+  const svg = await windowChart(cells, { x: ax.nominal * xs.factor, y: ay.nominal * ys.factor }, box, (w.edges ?? []).map(edgePoint), title(ax, xs), title(ay, ys));
+  const edges = (w.edges ?? []).map((e) => {
+    const a = w.axes[e.axis];
+    const bound = e.rule ? `bounded by ${e.rule}` : 'the end of the range mapped, unbounded there';
+    return `${a.input} ${e.side === 'low' ? '≥' : '≤'} ${formatValue(e.at, a.unit)} (now ${formatValue(a.nominal, a.unit)}): ${bound}`;
+  });
+  // A rule that fails at the nominal point and reads neither axis would empty the window everywhere.
+  const failingHere = [...new Set(w.cells.flatMap((c) => c.failing ?? []).filter((r) => r !== OUTSIDE))];
+  return {
+    svg,
+    edges,
+    nominalPasses: w.nominalPasses,
+    rulesText: w.rules.join(', '),
+    failingText: failingHere.join(', '),
+    evaluations: w.evaluations,
+    rangeText: `${formatValue(ax.from, ax.unit)} … ${formatValue(ax.to, ax.unit)} by ${formatValue(ay.from, ay.unit)} … ${formatValue(ay.to, ay.unit)}`,
+  };
+}
 
 /** The verdict's inputs ranked by what they move, the tornado chart and what would pass. */
 async function leversPage(v: Verdict) {

@@ -208,6 +208,44 @@ const KINDS: Record<string, ChartKind> = {
       ],
     } as TopLevelSpec,
   },
+  window: {
+    datasets: ['cells', 'box', 'nominal', 'edges'],
+    xTitleSignal: true,
+    yTitleSignal: true,
+    spec: {
+      $schema: SCHEMA,
+      width: 420,
+      height: 340,
+      layer: [
+        {
+          data: { name: 'cells' },
+          mark: { type: 'rect', strokeWidth: 0 },
+          encoding: {
+            x: { field: 'x0', type: 'quantitative', title: 'x', scale: { zero: false, nice: false } },
+            x2: { field: 'x1' },
+            y: { field: 'y0', type: 'quantitative', title: 'y', scale: { zero: false, nice: false } },
+            y2: { field: 'y1' },
+            color: { field: 'state', type: 'nominal', scale: { domain: ['pass', 'fail', 'outside'], range: ['#cfe6da', '#f2c9bf', '#e3e5e8'] }, legend: null },
+          },
+        },
+        {
+          data: { name: 'box' },
+          mark: { type: 'rect', fill: null, stroke: PALETTE.ink, strokeWidth: 1.5, strokeDash: [4, 2] },
+          encoding: { x: { field: 'x0', type: 'quantitative' }, x2: { field: 'x1' }, y: { field: 'y0', type: 'quantitative' }, y2: { field: 'y1' } },
+        },
+        {
+          data: { name: 'edges' },
+          mark: { type: 'point', shape: 'diamond', size: 70, filled: true, color: PALETTE.ink },
+          encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
+        },
+        {
+          data: { name: 'nominal' },
+          mark: { type: 'point', shape: 'cross', size: 140, filled: true, color: PALETTE.ink },
+          encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } },
+        },
+      ],
+    } as TopLevelSpec,
+  },
   tornado: {
     datasets: ['bars', 'ends', 'nominal', 'limit'],
     xTitleSignal: true,
@@ -322,6 +360,30 @@ export function valueChart(rows: ValuePoint[], limits: number[], axisTitle: stri
     },
     axisTitle,
   );
+}
+
+export interface WindowCellShown {
+  x0: number;
+  x1: number;
+  y0: number;
+  y1: number;
+  state: 'pass' | 'fail' | 'outside';
+}
+
+/**
+ * A process window as a heat map in display units: pass and fail cells of the refined grid (grey
+ * where the structure breaks its relations), the nominal point (✚), its tolerance box (dashed) and
+ * the edges through it (◆).
+ */
+export function windowChart(
+  cells: WindowCellShown[],
+  nominal: { x: number; y: number },
+  box: { x0: number; x1: number; y0: number; y1: number } | null,
+  edges: Array<{ x: number; y: number }>,
+  xTitle: string,
+  yTitle: string,
+): Promise<string> {
+  return renderChart('window', { cells, box: box ? [box] : [], nominal: [nominal], edges }, xTitle, yTitle);
 }
 
 export interface TornadoBar {

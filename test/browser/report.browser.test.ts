@@ -92,6 +92,13 @@ describe('report in chromium', () => {
     expect(rows.slice(0, 4).map((r) => r.split('\t')[0]).sort()).toEqual(['drying.contact_angle', 'geometry.cd', 'geometry.height', 'geometry.sidewall_angle']);
     expect(rows.join('\n')).toMatch(/passes for geometry\.height ≤ [\d.]+ nm \(now 62 nm\)/);
     await expect(page.locator('section.worst-corner .failure-probability').innerText()).resolves.toMatch(/probability of failure [\d.e-]+ %/);
+    // The rule maps its process window; the structure page maps every blocking rule at once and
+    // names the rule that bounds each edge.
+    await expect(page.locator('section.process-window figure.window svg').isVisible()).resolves.toBe(true);
+    await page.goto(pathToFileURL(join(site, 'structures', 'periphery-fin', 'index.html')).href);
+    const edges = await page.locator('section.process-window ul.window-edges li').allInnerTexts();
+    expect(edges).toHaveLength(4);
+    expect(edges.join('\n')).toMatch(/geometry\.height ≤ [\d.]+ nm \(now 62 nm\): bounded by FIN-STAND-1/);
     expect(errors).toEqual([]);
     await page.close();
   });

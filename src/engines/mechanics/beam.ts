@@ -83,8 +83,11 @@ export function meshBeam(opts: {
 /** A factorised stiffness matrix, ready for any number of load vectors. */
 export interface BeamSolver {
   model: BeamModel;
-  /** Deflections and rotations for nodal forces f (2 per node: force, moment). */
-  solve: (f: Float64Array) => Float64Array;
+  /**
+   * Deflections and rotations for nodal forces f (2 per node: force, moment). `first` may name the
+   * first entry of f that is not zero (a point load high on the body): the forward sweep starts there.
+   */
+  solve: (f: Float64Array, first?: number) => Float64Array;
 }
 
 const BAND = 3; // half-bandwidth of the assembled stiffness matrix
@@ -132,20 +135,26 @@ export function factorBeam(model: BeamModel): BeamSolver {
       } else k[i]![d] = sum / k[i]![0]!;
     }
   }
-  const solve = (f: Float64Array): Float64Array => {
+  // The factor in one flat array (row i, band d at i·(BAND + 1) + d): the solve runs per liquid level.
+  const W = BAND + 1;
+  const kf = new Float64Array(nDof * W);
+  for (let i = 0; i < nDof; i++) kf.set(k[i]!, i * W);
+  const held = [...fixed];
+  const solve = (f: Float64Array, first = 0): Float64Array => {
     const y = Float64Array.from(f);
-    for (const i of fixed) y[i] = 0;
-    for (let i = 0; i < nDof; i++) {
+    for (const i of held) y[i] = 0;
+    // Entries before `first` are zero and stay zero in the forward sweep.
+    for (let i = first; i < nDof; i++) {
       let sum = y[i]!;
       // Stryker disable next-line EqualityOperator: row 0 (the clamped base) has nothing off its diagonal
-      for (let m = 1; m <= BAND && i - m >= 0; m++) sum -= k[i - m]![m]! * y[i - m]!;
-      y[i] = sum / k[i]![0]!;
+      for (let m = 1; m <= BAND && i - m >= 0; m++) sum -= kf[(i - m) * W + m]! * y[i - m]!;
+      y[i] = sum / kf[i * W]!;
     }
     // Stryker disable next-line EqualityOperator: y[0], the clamped base's deflection, is 0 from the forward sweep and stays so
     for (let i = nDof - 1; i >= 0; i--) {
       let sum = y[i]!;
-      for (let d = 1; d <= BAND && i + d < nDof; d++) sum -= k[i]![d]! * y[i + d]!;
-      y[i] = sum / k[i]![0]!;
+      for (let d = 1; d <= BAND && i + d < nDof; d++) sum -= kf[i * W + d]! * y[i + d]!;
+      y[i] = sum / kf[i * W]!;
     }
     return y;
   };
@@ -196,15 +205,21 @@ export function uniformLoad(model: BeamModel, q: (z: number) => number): Float64
  * moments of a line load q on the element), times c/I of the element.
  */
 export function peakStress(model: BeamModel, u: Float64Array, q?: (z: number) => number): number {
+  // Written without temporaries: the collapse of a cup calls this once per liquid level.
+  const z = model.z;
   let peak = 0;
-  for (let e = 0; e + 1 < model.z.length; e++) {
-    const l = model.z[e + 1]! - model.z[e]!;
-    const c = model.ei[e]! / l ** 3;
-    const [w1, t1, w2, t2] = [u[2 * e]!, u[2 * e + 1]!, u[2 * e + 2]!, u[2 * e + 3]!];
-    const w = q ? q((model.z[e]! + model.z[e + 1]!) / 2) : 0;
-    const m1 = c * (6 * l * w1 + 4 * l * l * t1 - 6 * l * w2 + 2 * l * l * t2) - (w * l * l) / 12;
-    const m2 = c * (6 * l * w1 + 2 * l * l * t1 - 6 * l * w2 + 4 * l * l * t2) + (w * l * l) / 12;
-    peak = Math.max(peak, Math.max(Math.abs(m1), Math.abs(m2)) * model.stressPerMoment[e]!);
+  for (let e = 0; e + 1 < z.length; e++) {
+    const l = z[e + 1]! - z[e]!;
+    const c = model.ei[e]! / (l * l * l);
+    const w1 = u[2 * e]!;
+    const t1 = u[2 * e + 1]!;
+    const w2 = u[2 * e + 2]!;
+    const t2 = u[2 * e + 3]!;
+    const fixedEnd = q ? (q((z[e]! + z[e + 1]!) / 2) * l * l) / 12 : 0;
+    const m1 = c * (6 * l * w1 + 4 * l * l * t1 - 6 * l * w2 + 2 * l * l * t2) - fixedEnd;
+    const m2 = c * (6 * l * w1 + 2 * l * l * t1 - 6 * l * w2 + 4 * l * l * t2) + fixedEnd;
+    const s = Math.max(Math.abs(m1), Math.abs(m2)) * model.stressPerMoment[e]!;
+    if (s > peak) peak = s;
   }
   return peak;
 }

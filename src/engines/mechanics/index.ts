@@ -98,7 +98,9 @@ export function criticalDeflection(section: SectionShape, gap: number, pitch: nu
   return (limit * (d0 - 2 * limit)) / d0;
 }
 
-const solved = memoTable<string, CollapseResult | NoValue>(512);
+// Large enough for a worst case's corners, its 512 failure samples and its levers, which the stress
+// and margin rules of one structure share.
+const solved = memoTable<string, CollapseResult | NoValue>(4096);
 
 /** Solve the collapse problem: the continuous beam under the capillary load. */
 export function analyseCollapse(p: CollapseProblem): CollapseResult | NoValue {
@@ -135,7 +137,7 @@ function solveCollapse(p: CollapseProblem): CollapseResult | NoValue {
       if (model.held.has(i)) continue;
       const f = new Float64Array(2 * model.z.length);
       f[2 * i] = p.load * (widthAt(p, model.z[i]!) / p.cd) ** 2;
-      const u = solver.solve(f);
+      const u = solver.solve(f, 2 * i);
       // Stryker disable next-line EqualityOperator: on a tie the later level is reported, as deflected as the first
       if (Math.abs(u[2 * i]!) > deflection) {
         deflection = Math.abs(u[2 * i]!);

@@ -16,7 +16,7 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
   const v = getValidators().rule;
   if (!v(src.value)) {
     reportSchemaErrors(v.errors ?? [], report, (ptr) =>
-      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : /sampling$/.test(ptr) ? ['confidence', 'max_samples', 'seed'] : ['id', 'title', 'applies_to', 'quantity', 'film', 'at_least', 'at_most', 'evaluate_at', 'required_yield', 'sampling', 'severity', 'rationale', 'references'],
+      /applies_to$/.test(ptr) ? ['kinds', 'tags', 'structures'] : /sampling$/.test(ptr) ? ['confidence', 'max_samples', 'seed'] : ['id', 'title', 'applies_to', 'quantity', 'film', 'at_least', 'at_most', 'map', 'evaluate_at', 'required_yield', 'sampling', 'severity', 'rationale', 'references'],
     );
   }
   // Each rule of a list is checked further on its own, so one bad rule does not hide the others.
@@ -56,6 +56,7 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
       }
       sidesOk = false;
     }
+    if (Array.isArray(raw.map) && raw.map.length === 2 && raw.map[0] === raw.map[1]) report.add('bad-value', `${base}/map/1`, { expected: 'two different inputs', found: `"${String(raw.map[1])}" twice` });
     if (sidesOk && sides.length === 2 && !(sides[0]!.limit < sides[1]!.limit)) {
       report.add('bad-value', `${base}/at_most`, { expected: `an upper limit above the lower one (at_least ${sides[0]!.written}): a window no value can meet passes nothing`, found: `"${sides[1]!.written}"` });
       sidesOk = false;
@@ -77,6 +78,7 @@ export function rulesFromFile(loaded: Loaded, quantities: QuantityCatalogue): Lo
       sides,
       evaluateAt,
       ...(yieldReq ? { yield: yieldReq } : {}),
+      ...(Array.isArray(raw.map) && raw.map.length === 2 && raw.map[0] !== raw.map[1] ? { map: [String(raw.map[0]), String(raw.map[1])] as [string, string] } : {}),
       severity: (raw.severity as Rule['severity']) ?? 'blocking',
       rationale: typeof raw.rationale === 'string' ? raw.rationale : '',
       references: (raw.references as string[] | undefined) ?? [],

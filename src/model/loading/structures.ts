@@ -102,6 +102,7 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
 
   const facts = readBlocks(raw, { report, params, materials, kind: kindKnown ? kind : undefined });
   const correlations = readVariation(report, raw.variation, params);
+  const processWindow = readProcessWindow(report, raw.process_window, params);
 
   checkRelations(report, params, structureRelations(facts.drying?.supportCount ?? 0));
 
@@ -117,14 +118,34 @@ export function structureFromFile(loaded: Loaded, materials: Map<string, Materia
     params,
     materialRoles,
     correlations,
+    ...(processWindow ? { processWindow } : {}),
     file: src.file,
     pos: report.pos(''),
   };
 }
 
+/** The two inputs a structure's `process_window:` maps: both its own, and different. */
+function readProcessWindow(report: FileReport, raw: unknown, params: ReadonlyMap<string, Param>): [string, string] | undefined {
+  if (!isMapping(raw) || !Array.isArray(raw.inputs) || raw.inputs.length !== 2) return undefined; // absent, or reported by the schema
+  const [a, b] = raw.inputs.map(String) as [string, string];
+  let ok = true;
+  [a, b].forEach((name, i) => {
+    if (!params.has(name)) {
+      report.add('bad-value', `/process_window/inputs/${i}`, { expected: 'an input of this structure', found: `"${name}"`, suggestions: suggest(name, [...params.keys()]) });
+      ok = false;
+    }
+  });
+  if (ok && a === b) {
+    report.add('bad-value', '/process_window/inputs/1', { expected: 'two different inputs', found: `"${b}" twice` });
+    ok = false;
+  }
+  return ok ? [a, b] : undefined;
+}
+
 /** Keys a structure file may write at a place, for the suggestions of an unknown-field problem. */
 function allowedInStructure(pointer: string): string[] {
-  if (pointer === '') return ['id', 'title', 'kind', 'tags', 'description', 'geometry', ...BLOCK_LIST.map((b) => b.key), 'materials', 'variation'];
+  if (pointer === '') return ['id', 'title', 'kind', 'tags', 'description', 'geometry', ...BLOCK_LIST.map((b) => b.key), 'materials', 'variation', 'process_window'];
+  if (pointer === '/process_window') return ['inputs'];
   if (pointer === '/variation') return ['uniform', 'correlated'];
   if (/^\/variation\/correlated\/\d+$/.test(pointer)) return ['inputs', 'coefficient'];
   if (pointer === '/geometry') return [...Object.keys(GEOMETRY_PARAMS), 'array'];
