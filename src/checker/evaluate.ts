@@ -278,7 +278,8 @@ function planRelations(plan: ReadyPlan, s: Structure): PlanRelation[] {
 function ruleWindow(rule: Rule, inputs: [string, string], s: Structure, plan: ReadyPlan): Pick<Verdict, 'window' | 'windowNotMapped'> {
   const missing = inputs.filter((n) => !s.params.has(n));
   if (missing.length) return { windowNotMapped: `${s.id} has no ${missing.join(' or ')}` };
-  const mapped = mappedRules(s, [rule], inputs, () => plan, (p) => planRelations(p, s));
+  const { mapped, notMapped } = mappedRules([rule], inputs, () => plan, (p) => planRelations(p, s));
+  if (notMapped.length) return { windowNotMapped: notMapped[0]!.why };
   if (mapped.length === 0) return { windowNotMapped: `${rule.quantity} reads neither ${inputs[0]} nor ${inputs[1]} here` };
   return { window: mapWindow(mapped, [windowAxis(s.params.get(inputs[0])!), windowAxis(s.params.get(inputs[1])!)]) };
 }
@@ -291,8 +292,8 @@ export function structureWindow(h: Pick<Handbook, 'rules'>, s: Structure, plans:
   if (!s.processWindow) return undefined;
   const inputs = s.processWindow;
   const rules = h.rules.filter((r) => r.severity === 'blocking' && appliesTo(r, s));
-  const mapped = mappedRules(s, rules, inputs, (r) => plans.get(s, r.quantity, r.film), (p) => planRelations(p, s));
-  return mapWindow(mapped, [windowAxis(s.params.get(inputs[0])!), windowAxis(s.params.get(inputs[1])!)]);
+  const { mapped, notMapped } = mappedRules(rules, inputs, (r) => plans.get(s, r.quantity, r.film), (p) => planRelations(p, s));
+  return mapWindow(mapped, [windowAxis(s.params.get(inputs[0])!), windowAxis(s.params.get(inputs[1])!)], notMapped);
 }
 
 export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdict {

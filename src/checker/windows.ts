@@ -3,7 +3,7 @@
 // where their corners disagree, so the boundary is found finely without a dense grid everywhere;
 // the edges of the window along each axis through the nominal point are solved exactly and named
 // by the rule that bounds them.
-import type { Param, Rule, Structure } from '../model/types.ts';
+import type { Param, Rule } from '../model/types.ts';
 import { comparable, meetsAll, passingValues, validRange, type PlanRelation, type ReadyPlan } from './excursions.ts';
 import { runPlan, type Plan } from './plan.ts';
 
@@ -43,6 +43,8 @@ export interface ProcessWindow {
   axes: [WindowAxis, WindowAxis];
   /** The rules mapped (for a verdict, its own; for a structure, every blocking rule that applies and reads an axis). */
   rules: string[];
+  /** Rules that read an axis but are left off the map, and why (a fill march too costly to run at thousands of points). */
+  notMapped?: Array<{ rule: string; why: string }>;
   cells: WindowCell[];
   /** Whether the nominal point passes every rule mapped. */
   nominalPasses: boolean;
@@ -82,7 +84,7 @@ export function windowAxis(p: Param): WindowAxis {
   return { input: p.name, unit: p.unit, from, to, nominal: p.value, ...(p.low !== undefined ? { low: p.low, high: p.high } : {}) };
 }
 
-export function mapWindow(rules: MappedRule[], axes: [WindowAxis, WindowAxis]): ProcessWindow {
+export function mapWindow(rules: MappedRule[], axes: [WindowAxis, WindowAxis], notMapped: Array<{ rule: string; why: string }> = []): ProcessWindow {
   let evaluations = 0;
   const failingAt = (x: number, y: number): string[] => {
     const failing: string[] = [];
@@ -127,7 +129,7 @@ export function mapWindow(rules: MappedRule[], axes: [WindowAxis, WindowAxis]): 
   for (let i = 0; i < COARSE; i++) for (let j = 0; j < COARSE; j++) refine(ax.from + i * dx, ax.from + (i + 1) * dx, ay.from + j * dy, ay.from + (j + 1) * dy, 0);
 
   const nominalPasses = failingAt(ax.nominal, ay.nominal).length === 0;
-  const window: ProcessWindow = { axes, rules: rules.map((m) => m.rule.id), cells, nominalPasses, evaluations };
+  const window: ProcessWindow = { axes, rules: rules.map((m) => m.rule.id), ...(notMapped.length ? { notMapped } : {}), cells, nominalPasses, evaluations };
   if (nominalPasses) window.edges = ([0, 1] as const).flatMap((axis) => edgesAlong(rules, axes, axis));
   window.evaluations = evaluations;
   return window;
@@ -157,13 +159,26 @@ function edgesAlong(rules: MappedRule[], axes: [WindowAxis, WindowAxis], axis: 0
   return [low, high];
 }
 
-/** Compile the rules to map for a structure: those whose plans are ready and read at least one axis. */
-export function mappedRules(s: Structure, rules: Rule[], inputs: [string, string], planOf: (rule: Rule) => Plan, relationsOf: (plan: ReadyPlan) => PlanRelation[]): MappedRule[] {
-  return rules.flatMap((rule): MappedRule[] => {
+/**
+ * Compile the rules to map for a structure: those whose plans are ready and read at least one
+ * axis; a plan with a costly step (a fill march) is left off, with the reason.
+ */
+export function mappedRules(
+  rules: Rule[],
+  inputs: [string, string],
+  planOf: (rule: Rule) => Plan,
+  relationsOf: (plan: ReadyPlan) => PlanRelation[],
+): { mapped: MappedRule[]; notMapped: Array<{ rule: string; why: string }> } {
+  const mapped: MappedRule[] = [];
+  const notMapped: Array<{ rule: string; why: string }> = [];
+  for (const rule of rules) {
     const plan = planOf(rule);
-    if (plan.status !== 'ready') return [];
+    if (plan.status !== 'ready') continue;
     const at: [number, number] = [plan.params.findIndex((p) => p.name === inputs[0]), plan.params.findIndex((p) => p.name === inputs[1])];
-    if (at[0] < 0 && at[1] < 0) return [];
-    return [{ rule, plan, at, relations: relationsOf(plan) }];
-  });
+    if (at[0] < 0 && at[1] < 0) continue;
+    const costly = plan.steps.find((st) => st.variant.costly);
+    if (costly) notMapped.push({ rule: rule.id, why: `${costly.def.name}: ${costly.variant.costly}` });
+    else mapped.push({ rule, plan, at, relations: relationsOf(plan) });
+  }
+  return { mapped, notMapped };
 }

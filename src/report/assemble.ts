@@ -17,7 +17,7 @@ import { texToMathml } from './math.ts';
 import { renderMarkdown } from './markdown.ts';
 import { CONTENT_SECURITY_POLICY } from './policy.ts';
 import { describeDiagnostic } from '../diagnostics/messages.ts';
-import { CAUTION, STATUS_WORDS, bySidePhrase, failurePhrase, passingPhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitsPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
+import { CAUTION, MODE_WORDS, STATUS_WORDS, bySidePhrase, failurePhrase, passingPhrase, percent, yieldPhrases, WAIVER_STATE_WORDS, expiredUnneededPhrase, failsAgainPhrase, floorPhrase, lapsePhrase, limitsPhrase, originPhrase, unusedPhrase, valuePhrase, waivedPhrase, waiverPeoplePhrase } from './words.ts';
 
 
 export { urls } from '../model/urls.ts';
@@ -183,6 +183,9 @@ export async function assembleReport(h: Handbook, results: Results, extras: Repo
       requirementText: rule.sides.map((x) => `${x.comparison === 'at_least' ? 'at least' : 'at most'} ${formatValue(x.limit, q.unit)}`).join(' and '),
       severity: rule.severity,
       evaluateAt: rule.evaluateAt,
+      modeNote: MODE_WORDS[rule.evaluateAt].ruleNote + (rule.yield ? `, required ${rule.yield.written}` : ''),
+      chartNote: MODE_WORDS[rule.evaluateAt].chartNote,
+      limitsWord: rule.sides.length > 1 ? 'the limits' : 'the limit',
       scopeText: scopeText(rule),
       rationaleHtml: renderMarkdown(rule.rationale),
       references: rule.references,
@@ -380,7 +383,8 @@ async function windowPage(w: ProcessWindow) {
     svg,
     edges,
     nominalPasses: w.nominalPasses,
-    rulesText: w.rules.join(', '),
+    rulesText: w.rules.join(', ') || 'none',
+    notMapped: (w.notMapped ?? []).map((n) => `${n.rule} (${n.why})`),
     failingText: failingHere.join(', '),
     evaluations: w.evaluations,
     rangeText: `${formatValue(ax.from, ax.unit)} … ${formatValue(ax.to, ax.unit)} by ${formatValue(ay.from, ay.unit)} … ${formatValue(ay.to, ay.unit)}`,
@@ -485,7 +489,7 @@ async function sweepOf(v: Verdict, extra = false): Promise<{ svg: string; captio
   const yTitle = `${def.title}${yScale.label ? ` (${yScale.label})` : ''}`;
   const limits = c.quantity === v.quantity ? (v.sides ?? [v]).map((x) => x.limit * yScale.factor) : [];
   const svg = await sweepChart(scaled(c.points), { x: c.own.x * xScale.factor, y: c.own.y * yScale.factor, status: v.status }, limits, xTitle, yTitle, companion, overlay);
-  const corner = v.mode?.kind === 'worst-case' ? 'the other inputs at the deciding corner' : 'the other inputs at nominal';
+  const corner = MODE_WORDS[v.evaluateAt].others;
   const also =
     (companion.length > 1 && c.companion ? `; dotted: the ${c.companion.label}` : '') +
     (overlay.length && c.overlay ? `; ○ ${c.overlay.label}` : '') +

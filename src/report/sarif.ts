@@ -13,7 +13,7 @@ import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Rule, SourcePos, Structure } from '../model/types.ts';
 import { urls } from '../model/urls.ts';
 import { formatMargin, formatValue } from '../model/format.ts';
-import { limitsPhrase, verdictLimitsPhrase, yieldPhrases } from './words.ts';
+import { limitsPhrase, MODE_WORDS, verdictLimitsPhrase, yieldPhrases } from './words.ts';
 
 // ---------------------------------------------------------------------------------------------
 // The subset of SARIF 2.1.0 this module writes.
@@ -295,7 +295,7 @@ function quantityWords(v: Verdict): string {
 }
 
 function valueClause(v: Verdict): string {
-  const where = v.mode?.kind === 'worst-case' ? 'at the worst tolerance corner' : 'at nominal';
+  const where = MODE_WORDS[v.evaluateAt].where;
   if (v.value !== null) return `${formatValue(v.value, v.unit)} ${where}`;
   const end = v.unbounded === 'above' ? '+∞' : v.unbounded === 'below' ? '−∞' : 'undefined';
   return `without a finite value ${where} (${end}: ${v.reason ?? 'no value'})`;

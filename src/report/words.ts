@@ -1,6 +1,6 @@
 // Sentences about verdicts, shared by the terminal and the site.
 import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
-import type { Comparison, ParamOrigin, Rule } from '../model/types.ts';
+import type { Comparison, EvaluateAt, ParamOrigin, Rule } from '../model/types.ts';
 import { formatMargin, formatValue, sig } from '../model/format.ts';
 import { margin } from '../checker/evaluate.ts';
 import type { FailureEstimate, ModeResult } from '../checker/modes.ts';
@@ -52,6 +52,23 @@ export function originPhrase(o: ParamOrigin): string {
 export function cornerPhrase(name: string, side: 'low' | 'high', value: number, unit: string): string {
   return `${name} at its ${side} end, ${formatValue(value, unit)}`;
 }
+
+/** How each evaluation mode is worded wherever a sentence needs it (one entry per mode). */
+export const MODE_WORDS: Record<EvaluateAt, { where: string; others: string; ruleNote: string; chartNote: string }> = {
+  nominal: { where: 'at nominal', others: 'the other inputs at nominal', ruleNote: '', chartNote: '' },
+  'worst-case': {
+    where: 'at the worst tolerance corner',
+    others: 'the other inputs at the deciding corner',
+    ruleNote: ' (the worst corner of every toleranced input)',
+    chartNote: ' at the worst corner, ○ the nominal value',
+  },
+  yield: {
+    where: 'at nominal',
+    others: 'the other inputs at nominal',
+    ruleNote: " (the fraction of the inputs' distribution that passes, against the required yield)",
+    chartNote: ' at nominal (the sampled yield decides the verdict)',
+  },
+};
 
 /**
  * A probability as a percentage, with the digits that tell 99.7 % from 99.73 %: a fraction near 1
