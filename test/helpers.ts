@@ -46,6 +46,8 @@ export function makeStructure(
       written: String(value),
       origin: { type: 'handbook', pos: POS },
       ...(opts.uniform?.includes(k) ? { spread: 'uniform' as const } : {}),
+      // The physical range the loader carries from the declarations (GEOMETRY_PARAMS).
+      range: unit === 'rad' ? { min: 0, max: Math.PI } : { min: 0 },
     });
   }
   const array = opts.array ?? (kind === 'trench' || kind === 'line' ? 'lines' : undefined);

@@ -196,6 +196,8 @@ export function samplerFor(plan: ReadyPlan, correlations: readonly Correlation[]
       seq.point(n, u);
       for (let k = 0; k < d; k++) z[k] = normalQuantile(u[k]!);
       if (l) {
+        // From the last row up, so each row reads deviates not yet replaced.
+        // Stryker disable next-line EqualityOperator: row 0 of a correlation's Cholesky factor is (1, 0, …), so z[0] stays as it is
         for (let i = d - 1; i >= 0; i--) {
           let s = 0;
           for (let k = 0; k <= i; k++) s += l[i * d + k]! * z[k]!;

@@ -90,7 +90,11 @@ function erfc(x: number): number {
   return x >= 0 ? r : 2 - r;
 }
 
-/** A seeded 32-bit generator (mulberry32), only to draw the sequence's random shift. */
+/**
+ * A seeded 32-bit generator (mulberry32), only to draw the sequence's random shift. The test-particle
+ * Monte Carlo keeps its own copy on purpose: it is the independent method the tests hold the
+ * engines to, and shares no code with what it checks.
+ */
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
