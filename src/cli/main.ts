@@ -110,7 +110,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         const code = runLedger(root, handbook, on, opts.verify === true, io);
         return setExit(opts.verify ? code : exitCodeFor(outcome));
       }
-      if (opts.json) io.out(JSON.stringify({ handbook: handbook.meta.title, on: results.on, counts: results.counts, blocking_failures: results.blockingFailures, warnings: handbook.warnings, waivers: results.waivers, verdicts: results.verdicts }, null, 2));
+      if (opts.json) io.out(JSON.stringify({ handbook: handbook.meta.title, on: results.on, counts: results.counts, blocking_failures: results.blockingFailures, warnings: handbook.warnings, waivers: results.waivers, verdicts: results.verdicts, ...(results.windows ? { windows: results.windows } : {}) }, null, 2));
       else io.out(renderCheckSummary(handbook, results));
       setExit(exitCodeFor(outcome));
     });

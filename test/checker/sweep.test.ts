@@ -83,3 +83,29 @@ describe('plumbline sweep', () => {
     }
   });
 });
+
+describe('plumbline check --json --detail', () => {
+  it('carries each verdict’s levers and mode, and each structure’s process window', async () => {
+    const { mkdtempSync, mkdirSync, writeFileSync } = await import('node:fs');
+    const { tmpdir } = await import('node:os');
+    const { join } = await import('node:path');
+    const root = mkdtempSync(join(tmpdir(), 'plumbline-detail-'));
+    mkdirSync(join(root, 'structures'));
+    mkdirSync(join(root, 'rules'));
+    writeFileSync(join(root, 'handbook.yaml'), 'title: Detail probe\n');
+    writeFileSync(
+      join(root, 'structures', 'probe-hole.yaml'),
+      'id: probe-hole\ntitle: Probe hole\nkind: hole\ngeometry:\n  cd: 30 nm ± 1.5 nm\n  depth: 2 um ± 90 nm\n  pitch: 80 nm\n  array: square\nprocess_window:\n  inputs: [geometry.cd, geometry.depth]\n',
+    );
+    writeFileSync(join(root, 'rules', 'ar.yaml'), 'id: PROBE-AR-1\ntitle: Aspect ratio\napplies_to: {}\nquantity: geometry.aspect_ratio\nat_most: 68\nevaluate_at: worst-case\n');
+    let out = '';
+    const code = await run(['check', '--root', root, '--json', '--detail', '--on', '2026-12-02'], { out: (s) => (out += s), err: () => {} });
+    expect(code).toBe(1); // the worst corner 2.09 µm / 28.5 nm = 73.3 fails 68
+    const j = JSON.parse(out) as { verdicts: Array<{ mode: { kind: string }; levers: Array<{ name: string; passes: number[][] }> }>; windows: Record<string, { edges: Array<{ rule?: string }> }> };
+    expect(j.verdicts[0]!.mode.kind).toBe('worst-case');
+    // Passing depths at the deciding corner (CD 28.5 nm, depth +90 nm): D ≤ 68·28.5 − 90 = 1848 nm.
+    const depth = j.verdicts[0]!.levers.find((l) => l.name === 'geometry.depth')!;
+    expectRel(depth.passes[0]![1], 1848 * nm, 9);
+    expect(j.windows['probe-hole']!.edges.some((e) => e.rule === 'PROBE-AR-1')).toBe(true);
+  });
+});
