@@ -412,6 +412,7 @@ async function leversPage(v: Verdict) {
   return {
     notComputed: v.leversNotComputed ?? '',
     chartSvg,
+    limitsWord: v.sides ? 'the dashed ones the limits' : 'the dashed one the limit',
     rows: levers.map((l) => ({
       name: l.name,
       toleranceText: l.ends ? `${formatValue(l.ends.low, l.unit)} … ${formatValue(l.ends.high, l.unit)}` : '',
