@@ -26,16 +26,23 @@ describe('check', () => {
     expect(r.out).toContain('MH-TAPER-1');
   });
 
+  it('finds the committed demo ledger current (an auditor reads it beside the YAML)', async () => {
+    // Regenerate with `plumbline check --ledger --on 2026-12-02` after changing the demo.
+    const r = await cli('check', '--root', ROOT, '--ledger', '--verify', '--on', '2026-12-02');
+    expect(r.out + r.err).toContain('up to date');
+    expect(r.code).toBe(0);
+  });
+
   it('prints parseable JSON with counts', async () => {
-    // 54 applicable pairs of 517 (47 rules × 11 structures): 38 pass, 15 fail (11 blocking), 1
+    // 55 applicable pairs of 528 (48 rules × 11 structures): 39 pass, 15 fail (11 blocking), 1
     // incomplete — each worked out in test/checker/checker.test.ts; on 2026-12-02 waiver
     // W-ISO-PT-1 (last day 2027-06-30) excuses the blocking ISO-PT-1 failure: 14 fail (10 blocking).
     const r = await cli('check', '--root', ROOT, '--json', '--on', '2026-12-02');
     expect(r.code).toBe(1);
     const j = JSON.parse(r.out) as { counts: Record<string, number>; blocking_failures: number; verdicts: Array<{ rule: string; structure: string; status: string; waiver?: { id: string; expires: string } }> };
-    expect(j.counts).toEqual({ pass: 38, fail: 14, waived: 1, incomplete: 1, 'not-applicable': 463 });
+    expect(j.counts).toEqual({ pass: 39, fail: 14, waived: 1, incomplete: 1, 'not-applicable': 473 });
     expect(j.blocking_failures).toBe(10);
-    expect(j.verdicts).toHaveLength(517);
+    expect(j.verdicts).toHaveLength(528);
     const waived = j.verdicts.find((v) => v.rule === 'ISO-PT-1' && v.structure === 'cell-isolation-trench');
     expect([waived?.status, waived?.waiver?.id, waived?.waiver?.expires]).toEqual(['waived', 'W-ISO-PT-1', '2027-06-30']);
   });
