@@ -6,7 +6,7 @@ import { isCalendarDate } from '../model/calendar.ts';
 import { QUANTITIES } from '../engines/index.ts';
 import type { Figure, QuantityDef } from '../engines/quantity.ts';
 import { buildPlan, runPlan, shapeOf, type Plan } from './plan.ts';
-import { comparable, declaredSweep, leversOf, meetsAll, type SweepCurve, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
+import { comparable, costlyStep, declaredSweep, leversOf, meets, meetsAll, type SweepCurve, type Lever, type PlanRelation, type Point, type ReadyPlan } from './excursions.ts';
 import { structureRelations } from '../model/relations.ts';
 import { mappedRules, mapWindow, windowAxis, type ProcessWindow } from './windows.ts';
 
@@ -326,7 +326,7 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
   const pass = e.pass ?? meetsAll(comparable(d), rule.sides);
   const side = rule.sides[e.side]!;
   const elsewhere = d !== e.nominal;
-  const costly = plans.context.detail ? plan.steps.find((st) => st.variant.costly) : undefined;
+  const costly = plans.context.detail ? costlyStep(plan) : undefined;
   const levers = plans.context.detail && !costly ? leversOf(plan, e.nominal, d, rule.sides, planRelations(plan, s)) : undefined;
   const decided = new Map(plan.params.map((p, i) => [p.name, d.inputs[i]!]));
   const sweeps =
@@ -352,7 +352,7 @@ export function evaluateRule(rule: Rule, s: Structure, plans: PlanCache): Verdic
     evaluateAt: rule.evaluateAt,
     mode: e.result,
     levers,
-    leversNotComputed: costly ? `${costly.def.name}: ${costly.variant.costly}` : undefined,
+    leversNotComputed: costly,
     sweeps: sweeps?.some((x) => x !== null) ? sweeps : undefined,
     ...(plans.context.detail && rule.map ? ruleWindow(rule, rule.map, s, plan) : {}),
     waiver: undefined,
@@ -396,9 +396,7 @@ export function lapseOf(w: Pick<Waiver, 'expires' | 'stillWithin'>, v: Pick<Verd
     // An unbounded value compares as ±∞; a failure with no value at all cannot be shown to be
     // within the floor, so it is beyond it.
     const value = v.value ?? (v.unbounded === 'above' ? Infinity : v.unbounded === 'below' ? -Infinity : NaN);
-    const slack = 1e-12 * Math.abs(floor.limit);
-    const within = floor.comparison === 'at_least' ? value >= floor.limit - slack : value <= floor.limit + slack;
-    if (!within) return 'beyond-floor';
+    if (!meets(value, floor.limit, floor.comparison)) return 'beyond-floor';
   }
   return undefined;
 }

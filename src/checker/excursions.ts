@@ -218,7 +218,8 @@ function sampleOf(p: Param, z: number, u: number): number {
   const low = p.low!;
   const high = p.high!;
   if (p.spread === 'uniform') return low + u * (high - low);
-  return insideRange(p, p.value + (z * (z < 0 ? p.value - low : high - p.value)) / 3);
+  // A normal sample beyond the physical range is held just inside it.
+  return heldInside(p.value + (z * (z < 0 ? p.value - low : high - p.value)) / 3, p.value, p.range, 1e-6);
 }
 
 export interface SampleOptions {
@@ -268,10 +269,7 @@ export function sampleYield(plan: ReadyPlan, o: SampleOptions & { confidence: nu
   let decided = false;
   for (const target of looks) {
     for (; n < target; n++) {
-      const run = runPlan(plan, sampler.draw(n));
-      const last = plan.steps.length - 1;
-      const v = comparable({ value: run.values[last] ?? null, unbounded: run.unbounded[last] });
-      if (!meetsAll(v, o.sides)) failures++;
+      if (!meetsAll(valueAt(plan, sampler.draw(n)), o.sides)) failures++;
     }
     interval = wilsonInterval(n - failures, n, alpha);
     if (o.required !== undefined && (interval.low >= o.required || interval.high < o.required)) {
@@ -311,7 +309,8 @@ const ELASTICITY_STEP = 1e-3;
 const SCAN_POINTS = 24;
 const BISECTIONS = 32;
 
-function valueAt(plan: ReadyPlan, inputs: number[]): number {
+/** The plan's target at these inputs, as limits compare it (±∞ unbounded, NaN without a value). */
+export function valueAt(plan: ReadyPlan, inputs: ArrayLike<number>): number {
   const run = runPlan(plan, inputs);
   const last = plan.steps.length - 1;
   return comparable({ value: run.values[last] ?? null, unbounded: run.unbounded[last] });
@@ -328,20 +327,33 @@ export function searchRange(p: Param, offset = 0): [number, number] | null {
   if (v === 0 || !Number.isFinite(v)) return null;
   let lo = p.unit === 'rad' ? v - (20 * Math.PI) / 180 : v > 0 ? v / 10 : v * 10;
   let hi = p.unit === 'rad' ? v + (20 * Math.PI) / 180 : v > 0 ? v * 10 : v / 10;
-  const min = p.range?.min === undefined ? undefined : p.range.min - offset;
-  const max = p.range?.max === undefined ? undefined : p.range.max - offset;
-  if (min !== undefined && lo <= min) lo = min + (v - min) * 1e-3;
-  if (max !== undefined && hi >= max) hi = max - (max - v) * 1e-3;
+  const shifted = { ...(p.range?.min !== undefined ? { min: p.range.min - offset } : {}), ...(p.range?.max !== undefined ? { max: p.range.max - offset } : {}) };
+  lo = heldInside(lo, v, shifted, 1e-3);
+  hi = heldInside(hi, v, shifted, 1e-3);
   return lo < hi && lo < v && v < hi ? [lo, hi] : null;
 }
 
-/** A sampled value held inside the input's physical range (just inside an open end). */
-function insideRange(p: Param, x: number): number {
-  const min = p.range?.min;
-  const max = p.range?.max;
-  if (min !== undefined && x <= min) return min + (p.value - min) * 1e-6;
-  if (max !== undefined && x >= max) return max - (max - p.value) * 1e-6;
+/**
+ * x, or, when it reaches a bound of the physical range, a point just inside it: `fraction` of the
+ * way from the bound back toward `anchor` (the written value), so an open bound is never met.
+ */
+export function heldInside(x: number, anchor: number, range: Param['range'], fraction: number): number {
+  const min = range?.min;
+  const max = range?.max;
+  if (min !== undefined && x <= min) return min + (anchor - min) * fraction;
+  if (max !== undefined && x >= max) return max - (max - anchor) * fraction;
   return x;
+}
+
+/** Whether a relation holds at these plan inputs. */
+export function holdsAt(r: PlanRelation, inputs: ArrayLike<number>): boolean {
+  return r.holds(r.reads.map((s) => ('index' in s ? inputs[s.index]! : s.value)));
+}
+
+/** The first step too costly to run hundreds of times (a fill march), as "name: why"; undefined when none is. */
+export function costlyStep(plan: ReadyPlan): string | undefined {
+  const st = plan.steps.find((x) => x.variant.costly);
+  return st ? `${st.def.name}: ${st.variant.costly}` : undefined;
 }
 
 /** A relation between inputs a structure must keep (`src/model/relations.ts`), over plan indices. */
@@ -362,7 +374,7 @@ export function validRange(base: number[], i: number, offset: number, x0: number
   const inputs = base.slice();
   const valid = (x: number) => {
     inputs[i] = x + offset;
-    return own.every((r) => r.holds(r.reads.map((s) => ('index' in s ? inputs[s.index]! : s.value))));
+    return own.every((r) => holdsAt(r, inputs));
   };
   const edge = (end: number) => {
     if (valid(end)) return end;

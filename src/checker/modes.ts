@@ -4,7 +4,7 @@
 // template partial per mode (`templates/_includes/mode-<kind>.njk`). Adding a mode is one entry
 // here, its result type and its partial.
 import type { Comparison, EvaluateAt, Rule, Structure } from '../model/types.ts';
-import { comparable, decidingSide, MAX_CORNER_INPUTS, meetsAll, nominalPoint, sampleYield, tolerancedInputs, worstCorner, type Point, type ReadyPlan, type Side, type YieldEstimate } from './excursions.ts';
+import { comparable, costlyStep, decidingSide, MAX_CORNER_INPUTS, meetsAll, nominalPoint, sampleYield, tolerancedInputs, worstCorner, type Point, type ReadyPlan, type Side, type YieldEstimate } from './excursions.ts';
 
 /** One input at the end of its tolerance that decides a worst case. */
 export interface CornerNote {
@@ -107,10 +107,10 @@ const worstCase: EvaluationMode = {
       const side = decisive.sides[i];
       return side === 'low' || side === 'high' ? [{ name: param.name, side, value: decisive.inputs[i]! }] : [];
     });
-    const costly = plan.steps.find((st) => st.variant.costly);
-    const sampled = ctx.detail && tolerancedInputs(plan).length > 0 && !costly;
-    const failure = sampled ? failureOf(plan, rule.sides, structure) : undefined;
-    const notSampled = ctx.detail && costly && tolerancedInputs(plan).length ? `${costly.def.name}: ${costly.variant.costly}` : undefined;
+    const varies = tolerancedInputs(plan).length > 0;
+    const costly = costlyStep(plan);
+    const failure = ctx.detail && varies && !costly ? failureOf(plan, rule.sides, structure) : undefined;
+    const notSampled = ctx.detail && varies ? costly : undefined;
     const bySide = rule.sides.length > 1 ? rule.sides.map((s, k) => ({ comparison: s.comparison, limit: s.limit, value: Number.isFinite(worstBySide[k]!) ? worstBySide[k]! : null })) : undefined;
     return {
       nominal: p,

@@ -1,5 +1,6 @@
 // A structure's rules across a range of one or two of its inputs (`plumbline sweep`): every rule
 // that applies, evaluated in its own mode at each point of a grid, the structure otherwise as written.
+import { QUANTITIES } from '../engines/index.ts';
 import type { Handbook, Param, Structure } from '../model/types.ts';
 import { checkRelation, structureRelations } from '../model/relations.ts';
 import { appliesTo, evaluateRule, PlanCache, type Status } from './evaluate.ts';
@@ -56,8 +57,6 @@ function grid(axes: SweepAxis[]): number[][] {
 /** Evaluate every rule that applies to `s` at each point of the axes' grid. */
 export function sweepStructure(h: Pick<Handbook, 'rules'>, s: Structure, axes: SweepAxis[]): StructureSweep {
   const rules = h.rules.filter((r) => appliesTo(r, s));
-  const first = new PlanCache();
-  const units = rules.map((r) => evaluateRule(r, s, first).unit);
   const relations = structureRelations(s.drying?.supportCount ?? 0);
   const points = grid(axes).map((at): SweepPoint => {
     const moved = axes.reduce((acc, a, k) => withInput(acc, a.input, at[k]!), s);
@@ -75,5 +74,5 @@ export function sweepStructure(h: Pick<Handbook, 'rules'>, s: Structure, axes: S
       }),
     };
   });
-  return { structure: s.id, axes, rules: rules.map((r, i) => ({ id: r.id, quantity: r.quantity, unit: units[i]!, mode: r.evaluateAt })), points };
+  return { structure: s.id, axes, rules: rules.map((r) => ({ id: r.id, quantity: r.quantity, unit: QUANTITIES.get(r.quantity)?.unit ?? '1', mode: r.evaluateAt })), points };
 }

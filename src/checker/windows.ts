@@ -4,8 +4,8 @@
 // the edges of the window along each axis through the nominal point are solved exactly and named
 // by the rule that bounds them.
 import type { Param, Rule } from '../model/types.ts';
-import { comparable, meetsAll, passingValues, validRange, type PlanRelation, type ReadyPlan } from './excursions.ts';
-import { runPlan, type Plan } from './plan.ts';
+import { costlyStep, heldInside, holdsAt, meetsAll, passingValues, validRange, valueAt, type PlanRelation, type ReadyPlan } from './excursions.ts';
+import type { Plan } from './plan.ts';
 
 /** One axis of a window: an input and the range mapped. */
 export interface WindowAxis {
@@ -77,10 +77,8 @@ export function windowAxis(p: Param): WindowAxis {
   const reach = half > 0 ? 4 * half : 0.2 * Math.abs(p.value);
   let from = p.value - reach;
   let to = p.value + reach;
-  const min = p.range?.min;
-  const max = p.range?.max;
-  if (min !== undefined && from <= min) from = min + (p.value - min) * 1e-3;
-  if (max !== undefined && to >= max) to = max - (max - p.value) * 1e-3;
+  from = heldInside(from, p.value, p.range, 1e-3);
+  to = heldInside(to, p.value, p.range, 1e-3);
   return { input: p.name, unit: p.unit, from, to, nominal: p.value, ...(p.low !== undefined ? { low: p.low, high: p.high } : {}) };
 }
 
@@ -93,11 +91,9 @@ export function mapWindow(rules: MappedRule[], axes: [WindowAxis, WindowAxis], n
       if (m.at[0] >= 0) inputs[m.at[0]] = x;
       if (m.at[1] >= 0) inputs[m.at[1]] = y;
       // A point where the structure breaks its own relations (a CD above the pitch) is no structure.
-      if (!m.relations.every((r) => r.holds(r.reads.map((s) => ('index' in s ? inputs[s.index]! : s.value))))) return [OUTSIDE];
-      const run = runPlan(m.plan, inputs);
+      if (!m.relations.every((r) => holdsAt(r, inputs))) return [OUTSIDE];
       evaluations++;
-      const last = m.plan.steps.length - 1;
-      if (!meetsAll(comparable({ value: run.values[last] ?? null, unbounded: run.unbounded[last] }), m.rule.sides)) failing.push(m.rule.id);
+      if (!meetsAll(valueAt(m.plan, inputs), m.rule.sides)) failing.push(m.rule.id);
     }
     return failing;
   };
@@ -176,8 +172,8 @@ export function mappedRules(
     if (plan.status !== 'ready') continue;
     const at: [number, number] = [plan.params.findIndex((p) => p.name === inputs[0]), plan.params.findIndex((p) => p.name === inputs[1])];
     if (at[0] < 0 && at[1] < 0) continue;
-    const costly = plan.steps.find((st) => st.variant.costly);
-    if (costly) notMapped.push({ rule: rule.id, why: `${costly.def.name}: ${costly.variant.costly}` });
+    const costly = costlyStep(plan);
+    if (costly) notMapped.push({ rule: rule.id, why: costly });
     else mapped.push({ rule, plan, at, relations: relationsOf(plan) });
   }
   return { mapped, notMapped };

@@ -5,7 +5,7 @@ import process from 'node:process';
 import { Command, InvalidArgumentError, Option } from 'commander';
 import type { Diagnostic } from '../diagnostics/diagnostic.ts';
 import { formatDiagnostics, formatWarnings } from '../diagnostics/messages.ts';
-import type { Structure } from '../model/types.ts';
+import type { Handbook, Structure } from '../model/types.ts';
 import { Refusal } from '../diagnostics/refusal.ts';
 import { exitCodeFor } from '../exit-codes.ts';
 import { TOOL_VERSION } from './version.ts';
@@ -69,6 +69,18 @@ function printWarnings(io: Io, warnings: Diagnostic[]): void {
 
 /** Builds the program; `run` is exported for tests, which pass their own io. */
 export function buildProgram(io: Io, setExit: (code: number) => void): Command {
+  /** The handbook at the command's root; when it does not load, its diagnostics are printed, the exit is 2, and null. */
+  const handbookOf = async (cmd: Command): Promise<Handbook | null> => {
+    const { loadHandbook, FolderSource } = await core();
+    const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
+    if (!loaded.ok) {
+      io.err(formatDiagnostics(loaded.diagnostics));
+      setExit(2);
+      return null;
+    }
+    printWarnings(io, loaded.handbook.warnings);
+    return loaded.handbook;
+  };
   const program = new Command('plumbline')
     .description('Check a design-rule handbook of high-aspect-ratio structures and publish it as a report.')
     .addOption(new Option('--root <dir>', 'handbook folder (with structures/ and rules/)').default('.'))
@@ -192,20 +204,16 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .argument('<structure>', 'structure id')
     .option('--on <date>', 'judge waivers on this day (YYYY-MM-DD, UTC); default today', parseDay)
     .action(async (ruleId: string, structureId: string, opts: { on?: string }, cmd: Command) => {
-      const { loadHandbook, FolderSource, renderExplain, evaluateRule, applyWaivers, PlanCache } = await core();
-      const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
-      if (!loaded.ok) {
-        io.err(formatDiagnostics(loaded.diagnostics));
-        return setExit(2);
-      }
-      printWarnings(io, loaded.handbook.warnings);
-      const rule = loaded.handbook.rules.find((r) => r.id === ruleId);
-      const s = loaded.handbook.structures.find((x) => x.id === structureId);
+      const { renderExplain, evaluateRule, applyWaivers, PlanCache } = await core();
+      const handbook = await handbookOf(cmd);
+      if (!handbook) return;
+      const rule = handbook.rules.find((r) => r.id === ruleId);
+      const s = handbook.structures.find((x) => x.id === structureId);
       if (!rule || !s) {
         io.err(!rule ? `no rule "${ruleId}"` : `no structure "${structureId}"`);
         return setExit(2);
       }
-      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ detail: true }))], loaded.handbook, opts.on ?? todayUtc()).verdicts;
+      const [verdict] = applyWaivers([evaluateRule(rule, s, new PlanCache({ detail: true }))], handbook, opts.on ?? todayUtc()).verdicts;
       io.out(renderExplain(rule, s, verdict!));
       setExit(0);
     });
@@ -219,16 +227,12 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
     .option('--json', 'print the grid with SI values')
     .action(async (structureId: string, opts: { vary: string[]; steps?: number; json?: boolean }, cmd: Command) => {
       if (opts.vary.length < 1 || opts.vary.length > 2) throw new InvalidArgumentError('give --vary once or twice (input=from..to)');
-      const { loadHandbook, FolderSource, renderSweep } = await core();
+      const { renderSweep } = await core();
       const { sweepStructure } = await import('../checker/sweep.ts');
       const { parseValue, isUnitProblem } = await import('../model/units.ts');
-      const loaded = loadHandbook(new FolderSource(rootOf(cmd)));
-      if (!loaded.ok) {
-        io.err(formatDiagnostics(loaded.diagnostics));
-        return setExit(2);
-      }
-      printWarnings(io, loaded.handbook.warnings);
-      const s = loaded.handbook.structures.find((x) => x.id === structureId);
+      const handbook = await handbookOf(cmd);
+      if (!handbook) return;
+      const s = handbook.structures.find((x) => x.id === structureId);
       if (!s) {
         io.err(`no structure "${structureId}"`);
         return setExit(2);
@@ -264,7 +268,7 @@ export function buildProgram(io: Io, setExit: (code: number) => void): Command {
         io.err(problems.join('\n'));
         return setExit(2);
       }
-      const result = sweepStructure(loaded.handbook, s, axes);
+      const result = sweepStructure(handbook, s, axes);
       io.out(opts.json ? JSON.stringify(result, null, 2) : renderSweep(result));
       setExit(0);
     });

@@ -1,6 +1,6 @@
 // Sentences about verdicts, shared by the terminal and the site.
 import type { Status, Verdict, WaiverRef, WaiverUse } from '../checker/evaluate.ts';
-import type { Comparison, EvaluateAt, ParamOrigin, Rule } from '../model/types.ts';
+import type { Comparison, EvaluateAt, ParamOrigin } from '../model/types.ts';
 import { formatMargin, formatValue, sig } from '../model/format.ts';
 import { margin } from '../checker/evaluate.ts';
 import type { FailureEstimate, ModeResult } from '../checker/modes.ts';

@@ -59,15 +59,23 @@ describe('the normal distribution the sampler draws from', () => {
     expect([...new QuasiRandom(3, 11).point(5)]).toEqual([...new QuasiRandom(3, 11).point(5)]);
     expect([...new QuasiRandom(3, 11).point(5)]).not.toEqual([...new QuasiRandom(3, 12).point(5)]);
   });
-  it("Wilson's interval matches the worked example of his score method", () => {
-    // 0 failures in 10 trials at 95 %: the interval is 0 … z²/(n + z²) = 3.8415/13.8415 = 0.27753.
-    const w = wilsonInterval(0, 10, 0.05);
-    expect(w.low).toBe(0);
-    expect(w.high).toBeCloseTo(0.27753, 4);
-    // 5 of 10: centred on ½ with half-width z·√(n/4 + z²/4)/(n + z²) = 1.96·1.86023/13.8415 = 0.26341 (by hand).
-    const h = wilsonInterval(5, 10, 0.05);
-    expect((h.low + h.high) / 2).toBeCloseTo(0.5, 12);
-    expect(h.high - 0.5).toBeCloseTo(0.26341, 4);
+  it("Wilson's interval matches Newcombe's table of the score method", () => {
+    // R. G. Newcombe, Stat. Med. 17, 857 (1998), Table I, method 3 (score, no continuity
+    // correction), 95 %: 81/263 → 0.2553–0.3662, 15/148 → 0.0624–0.1605, 0/20 → 0–0.1611,
+    // 1/29 → 0.0061–0.1718 (values from memory of the table; all four agree to its 4 places).
+    const cases: Array<[number, number, number, number]> = [
+      [81, 263, 0.2553, 0.3662],
+      [15, 148, 0.0624, 0.1605],
+      [0, 20, 0, 0.1611],
+      [1, 29, 0.0061, 0.1718],
+    ];
+    for (const [k, n, low, high] of cases) {
+      const w = wilsonInterval(k, n, 0.05);
+      expect(w.low).toBeCloseTo(low, 4);
+      expect(w.high).toBeCloseTo(high, 4);
+    }
+    expect(wilsonInterval(0, 20, 0.05).low).toBe(0);
+    expect(wilsonInterval(20, 20, 0.05).high).toBe(1);
   });
 });
 
